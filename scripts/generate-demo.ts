@@ -1,0 +1,24 @@
+// Regenerates the demo archive in audits/ (invented lab, invented devices).
+// Deterministic: every sampler is seeded from a fixed text, so rerunning the
+// script reproduces the committed files byte for byte.
+//   npm run demo:generate
+import fs from "node:fs";
+import path from "node:path";
+import { qdHeatExchange, nwSwitchingWork } from "./demo/exchange.ts";
+import type { DemoAudit } from "./demo/types.ts";
+
+const GENERATORS: (() => DemoAudit)[] = [qdHeatExchange, nwSwitchingWork];
+
+const root = path.resolve(process.argv[2] ?? "audits");
+for (const generate of GENERATORS) {
+  const audit = generate();
+  const dir = path.join(root, audit.id);
+  fs.mkdirSync(dir, { recursive: true });
+  fs.writeFileSync(path.join(dir, "audit.yaml"), audit.yaml);
+  for (const [file, content] of Object.entries(audit.files)) {
+    const target = path.join(dir, file);
+    fs.mkdirSync(path.dirname(target), { recursive: true });
+    fs.writeFileSync(target, content);
+  }
+  process.stderr.write(`wrote ${path.relative(process.cwd(), dir)}\n`);
+}

@@ -1,0 +1,65 @@
+import fs from "node:fs";
+import path from "node:path";
+import type { Command } from "commander";
+import { InputError } from "../../errors.ts";
+import { EXIT } from "../exit.ts";
+
+/** A commented starting point; every key is explained where it stands. */
+export function scaffoldAuditYaml(id: string): string {
+  return `# audit.yaml — the definition of one transport audit (see README.md, "An audit folder").
+# Paths are relative to this folder and may not leave it.
+
+id: ${id}                      # lower-case letters, digits and hyphens; unique in the archive
+title: Describe the device and the measurement in one line
+authors:
+  - name: Your Name
+    # orcid: 0000-0000-0000-0000   # optional; shown as a link in the report
+    # affiliation: Your group
+license: CC-BY-4.0
+# device: name of the sample or simulation   # optional; used to filter the archive index
+# date: ${new Date().toISOString().slice(0, 10)}                     # optional; date of the measurement (YYYY-MM-DD)
+description: |
+  What was measured or simulated, how, and why this audit exists. Markdown; raw HTML is shown as text.
+
+settings:
+  alpha: 0.01       # level of the tests that can fail a check (corrected across points by Holm's method)
+  margin: 0.05      # equivalence margin: the size of violation the data must be able to exclude for a pass
+  confidence: 0.95  # confidence level of reported intervals and equivalence tests
+  seed: auto        # random steps are seeded from each dataset's SHA-256; or give an integer
+
+datasets:
+  # Repeated runs of a contact protocol between reservoirs A and B, one realisation per row.
+  - id: run-1
+    kind: samples
+    file: data/run-1.csv
+    columns: { Q: Q, dN: dN, W: W }   # role → CSV column; roles: dE_A dE_B Q dN W count
+    energy_unit: meV                  # J | eV | meV | ueV | kT (kT needs reference_temperature)
+    reservoirs:
+      A: { T: 1.30, mu: 0.0 }         # T in kelvin (or beta per energy unit); mu in energy_unit
+      B: { T: 1.00, mu: 0.0 }
+    tau: 2.0e-9                       # contact time in seconds (needed for fluxes)
+    work: measured                    # measured (W column or dE_A + dE_B) or zero (declared, never assumed)
+
+checks: all   # or a list of check ids, e.g. [second-law, integral-fluctuation]
+`;
+}
+
+export function registerInit(program: Command, setExit: (code: number) => void): void {
+  program
+    .command("init")
+    .description("scaffold a new audit folder with a commented audit.yaml")
+    .argument("<audit-dir>", "folder to create (must not already hold an audit.yaml)")
+    .action((dir: string) => {
+      const file = path.join(dir, "audit.yaml");
+      if (fs.existsSync(file)) throw new InputError(`${file}: already exists; init never overwrites an audit`);
+      const id = path
+        .basename(path.resolve(dir))
+        .toLowerCase()
+        .replace(/[^a-z0-9]+/g, "-")
+        .replace(/^-+|-+$/g, "") || "new-audit";
+      fs.mkdirSync(path.join(dir, "data"), { recursive: true });
+      fs.writeFileSync(file, scaffoldAuditYaml(id));
+      process.stderr.write(`created ${file}; put your data under ${path.join(dir, "data")} and edit the datasets\n`);
+      setExit(EXIT.ok);
+    });
+}

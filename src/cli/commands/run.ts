@@ -1,0 +1,18 @@
+import type { Command } from "commander";
+import { runAudit } from "../../report/runAudit.ts";
+import { summaryTable } from "../summaryTable.ts";
+import { EXIT } from "../exit.ts";
+
+export function registerRun(program: Command, setExit: (code: number) => void): void {
+  program
+    .command("run")
+    .description("ingest an audit folder, run every selected check and print a summary (or the result document with --json)")
+    .argument("<audit-dir>", "folder holding audit.yaml and its data")
+    .option("--json", "print the result document as JSON on stdout and nothing else")
+    .action(async (dir: string, opts: { json?: boolean }) => {
+      const { result } = await runAudit(dir);
+      if (opts.json) process.stdout.write(`${JSON.stringify(result, null, 2)}\n`);
+      else process.stdout.write(`${summaryTable(result, process.stdout.isTTY === true, process.stdout.columns ?? 110)}\n`);
+      setExit(result.checks.some((c) => c.status === "fail") ? EXIT.failed : EXIT.ok);
+    });
+}

@@ -1,0 +1,34 @@
+import { Command, CommanderError } from "commander";
+import { TOOL } from "../version.ts";
+import { EXIT, reportError } from "./exit.ts";
+import { registerRun } from "./commands/run.ts";
+import { registerBuild } from "./commands/build.ts";
+import { registerInit } from "./commands/init.ts";
+
+/** The transport-audit command line: argument parsing and exit codes only; the work lives below. */
+export async function main(argv: string[]): Promise<number> {
+  let exitCode: number = EXIT.ok;
+  const setExit = (code: number) => {
+    exitCode = code;
+  };
+  const program = new Command()
+    .name(TOOL.name)
+    .version(TOOL.version)
+    .description("Audit heat and particle transport data against the laws of linear and non-linear transport.")
+    .exitOverride()
+    .showHelpAfterError();
+  registerRun(program, setExit);
+  registerBuild(program, setExit);
+  registerInit(program, setExit);
+  try {
+    await program.parseAsync(argv, { from: "user" });
+  } catch (err) {
+    if (err instanceof CommanderError) {
+      // --help and --version end here with exit code 0; usage errors are input errors.
+      return err.exitCode === 0 ? EXIT.ok : EXIT.input;
+    }
+    return reportError(err);
+  }
+  return exitCode;
+}
+

@@ -1,0 +1,28 @@
+import fs from "node:fs";
+import path from "node:path";
+import { z } from "zod";
+import { text } from "./common.ts";
+import { parseLocatedYaml } from "./yamlDocument.ts";
+import { validateLocated } from "./validate.ts";
+
+/** archive.yaml at the archive root: who publishes the audits and where. */
+export const archiveSchema = z
+  .object({
+    name: text(),
+    publisher: text("the name of a group or institution"),
+    base_url: z.string().url("must be an absolute URL such as https://example.org/audits/").optional(),
+    license: text("an SPDX licence identifier such as CC-BY-4.0").default("CC-BY-4.0"),
+    contact: z.string().optional(),
+  })
+  .strict();
+
+export type ArchiveDefinition = z.output<typeof archiveSchema>;
+
+export const ARCHIVE_FILE = "archive.yaml";
+
+/** Read `<root>/archive.yaml`; an archive without one gets a plain default. */
+export function loadArchiveDefinition(root: string): ArchiveDefinition {
+  const file = path.join(root, ARCHIVE_FILE);
+  if (!fs.existsSync(file)) return { name: "Transport audits", publisher: "unpublished", license: "CC-BY-4.0" };
+  return validateLocated(archiveSchema, parseLocatedYaml(ARCHIVE_FILE, fs.readFileSync(file, "utf8")));
+}

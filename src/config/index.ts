@@ -1,0 +1,3 @@
+export * from "./loadAudit.ts";
+export * from "./confinePath.ts";
+export * from "./types.ts";

@@ -1,0 +1,27 @@
+import fs from "node:fs";
+import path from "node:path";
+import { ConfigError } from "../errors.ts";
+import { auditSchema } from "./auditSchema.ts";
+import { parseLocatedYaml } from "./yamlDocument.ts";
+import { validateLocated } from "./validate.ts";
+import type { AuditDefinition } from "./types.ts";
+
+export const AUDIT_FILE = "audit.yaml";
+
+/** Parse and validate `<auditDir>/audit.yaml`. Throws ConfigError naming file, line and key path. */
+export function loadAuditDefinition(auditDir: string): AuditDefinition {
+  const file = path.join(auditDir, AUDIT_FILE);
+  if (!fs.existsSync(file)) {
+    throw new ConfigError(`${file}: not found; an audit folder must contain ${AUDIT_FILE} (create one with: transport-audit init ${auditDir})`);
+  }
+  return parseAuditDefinition(fs.readFileSync(file, "utf8"), AUDIT_FILE);
+}
+
+/** Validate audit.yaml text; `label` is the file name used in messages. */
+export function parseAuditDefinition(source: string, label = AUDIT_FILE): AuditDefinition {
+  const doc = parseLocatedYaml(label, source);
+  if (doc.value === null || typeof doc.value !== "object" || Array.isArray(doc.value)) {
+    throw new ConfigError(`${label}:1 (top level): must be a map of keys (id, title, authors, datasets, …), found ${doc.value === null ? "an empty file" : typeof doc.value}`);
+  }
+  return validateLocated(auditSchema, doc) as AuditDefinition;
+}

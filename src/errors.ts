@@ -1,0 +1,51 @@
+/**
+ * Error hierarchy. An `InputError` means the user's input cannot be audited
+ * (exit status 2, printed without a stack); anything else is our own bug.
+ * Every message names where the problem is: file, row as a person counts it,
+ * column, or the key path in audit.yaml, and says what was expected.
+ */
+export class InputError extends Error {
+  override name = "InputError";
+}
+
+/** audit.yaml or archive.yaml does not satisfy the schema. */
+export class ConfigError extends InputError {
+  override name = "ConfigError";
+}
+
+/** A data file cannot be read or one of its cells is not what the role needs. */
+export class DataError extends InputError {
+  override name = "DataError";
+}
+
+/** A unit string is not one the tool knows. */
+export class UnitError extends InputError {
+  override name = "UnitError";
+}
+
+/** A path in audit.yaml leaves the audit folder. */
+export class PathError extends InputError {
+  override name = "PathError";
+}
+
+/** Publishing or verifying an archive version was refused. */
+export class ArchiveError extends InputError {
+  override name = "ArchiveError";
+}
+
+/** One located problem in a file; several are gathered before failing. */
+export interface CellProblem {
+  row: number; // 1-based as a person counts lines, header included
+  column: string;
+  message: string;
+}
+
+/**
+ * Format gathered cell problems into one message so that a user can fix them in
+ * one go: `data/run3.csv:14, column "n": expected a number, found "seven"`.
+ */
+export function formatCellProblems(file: string, problems: CellProblem[], cap: number, total = problems.length): string {
+  const lines = problems.slice(0, cap).map((p) => `${file}:${p.row}, column "${p.column}": ${p.message}`);
+  if (total > cap) lines.push(`… and ${total - cap} more problem(s) in ${file}`);
+  return lines.join("\n");
+}

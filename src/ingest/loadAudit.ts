@@ -1,0 +1,37 @@
+import path from "node:path";
+import { loadAuditDefinition } from "../config/loadAudit.ts";
+import { confinePath } from "../config/confinePath.ts";
+import type { AuditDefinition } from "../config/types.ts";
+import { InputError } from "../errors.ts";
+import { loadSamples } from "./samples.ts";
+import { loadCoefficients } from "./coefficients.ts";
+import { loadCumulants } from "./cumulants.ts";
+import type { Dataset, IngestedAudit } from "./types.ts";
+
+/** Read every dataset an audit definition names, in order. */
+export async function ingestDefinition(dir: string, definition: AuditDefinition): Promise<IngestedAudit> {
+  const datasets: Dataset[] = [];
+  for (const [i, config] of definition.datasets.entries()) {
+    const keyPath = `datasets[${i}]`;
+    const filePath = confinePath(dir, config.file, `${keyPath}.file`);
+    switch (config.kind) {
+      case "samples":
+        datasets.push(await loadSamples(config, filePath, keyPath));
+        break;
+      case "coefficients":
+        datasets.push(await loadCoefficients(config, filePath, keyPath));
+        break;
+      case "cumulants":
+        datasets.push(await loadCumulants(config, filePath, keyPath));
+        break;
+    }
+  }
+  return { dir: path.resolve(dir), definition, datasets };
+}
+
+/** audit folder → validated definition → typed datasets with digests. */
+export async function ingestAudit(dir: string): Promise<IngestedAudit> {
+  return ingestDefinition(dir, loadAuditDefinition(dir));
+}
+
+export { InputError };

@@ -1,0 +1,98 @@
+import fs from "node:fs";
+import path from "node:path";
+import { createRequire } from "node:module";
+import { fileURLToPath } from "node:url";
+import Eleventy from "@11ty/eleventy";
+import { loadArchiveDefinition, type ArchiveDefinition } from "../config/archiveSchema.ts";
+import { AUDIT_FILE } from "../config/loadAudit.ts";
+import { InputError } from "../errors.ts";
+import { TOOL } from "../version.ts";
+import { runAudit } from "./runAudit.ts";
+import { auditPageModel, type AuditPageModel } from "./viewModel.ts";
+
+const PROJECT_ROOT = path.resolve(path.dirname(fileURLToPath(import.meta.url)), "..", "..");
+const TEMPLATES = path.join(PROJECT_ROOT, "templates");
+
+export interface BuildOptions {
+  root: string; // archive root, holding audits/ and optionally archive.yaml
+  out: string; // output folder
+  onProgress?: (done: number, total: number, auditId: string) => void;
+}
+
+/** An audit that could not be audited: listed on the index with its error, never silently dropped. */
+export interface BrokenAudit {
+  folder: string;
+  error: string;
+}
+
+export interface BuildOutcome {
+  out: string;
+  index: string;
+  audits: AuditPageModel[];
+  broken: BrokenAudit[];
+}
+
+/** Audit folders under `<root>/audits`, sorted by name. */
+export function findAuditFolders(root: string): string[] {
+  const dir = path.join(root, "audits");
+  if (!fs.existsSync(dir)) throw new InputError(`${dir}: no audits folder; an archive keeps each audit in audits/<audit-id>/`);
+  return fs
+    .readdirSync(dir, { withFileTypes: true })
+    .filter((e) => e.isDirectory() && fs.existsSync(path.join(dir, e.name, AUDIT_FILE)))
+    .map((e) => path.join(dir, e.name))
+    .sort();
+}
+
+/** KaTeX's stylesheet and fonts, and our own assets, beside the pages. */
+function copyAssets(out: string): void {
+  const require = createRequire(import.meta.url);
+  const katexDist = path.dirname(require.resolve("katex/dist/katex.min.css"));
+  fs.mkdirSync(path.join(out, "assets", "katex"), { recursive: true });
+  fs.copyFileSync(path.join(katexDist, "katex.min.css"), path.join(out, "assets", "katex", "katex.min.css"));
+  fs.cpSync(path.join(katexDist, "fonts"), path.join(out, "assets", "katex", "fonts"), { recursive: true });
+  fs.cpSync(path.join(TEMPLATES, "assets"), path.join(out, "assets"), { recursive: true });
+}
+
+/** Render pages with Eleventy from prepared models. */
+export async function renderSite(out: string, data: { archive: ArchiveDefinition; audits: AuditPageModel[]; broken: BrokenAudit[] }): Promise<void> {
+  const elev = new Eleventy(TEMPLATES, out, {
+    configPath: path.join(PROJECT_ROOT, ".eleventy.js"),
+    quietMode: true,
+    source: "cli",
+    config: (c) => {
+      c.addGlobalData("archive", data.archive);
+      c.addGlobalData("audits", data.audits);
+      c.addGlobalData("broken", data.broken);
+      c.addGlobalData("tool", TOOL);
+    },
+  });
+  await elev.write();
+  copyAssets(out);
+}
+
+/** Run every audit of an archive and render the static site. */
+export async function buildSite(options: BuildOptions): Promise<BuildOutcome> {
+  const archive = loadArchiveDefinition(options.root);
+  const folders = findAuditFolders(options.root);
+  const audits: AuditPageModel[] = [];
+  const broken: BrokenAudit[] = [];
+  for (const [i, folder] of folders.entries()) {
+    options.onProgress?.(i, folders.length, path.basename(folder));
+    try {
+      const { result } = await runAudit(folder);
+      audits.push(auditPageModel(result));
+    } catch (err) {
+      if (!(err instanceof InputError)) throw err;
+      broken.push({ folder: path.relative(options.root, folder), error: err.message });
+    }
+  }
+  options.onProgress?.(folders.length, folders.length, "");
+  const ids = new Set<string>();
+  for (const a of audits) {
+    if (ids.has(a.id)) throw new InputError(`two audits in ${options.root}/audits share the id ${JSON.stringify(a.id)}; ids must be unique in an archive`);
+    ids.add(a.id);
+  }
+  fs.rmSync(options.out, { recursive: true, force: true });
+  await renderSite(options.out, { archive, audits, broken });
+  return { out: options.out, index: path.join(options.out, "index.html"), audits, broken };
+}

@@ -1,0 +1,44 @@
+import type { Author, Settings } from "../config/types.ts";
+import type { DatasetRecord } from "../ingest/types.ts";
+import type { CheckResult, Status } from "../checks/types.ts";
+
+/** The audit's verdict in one word (contract: fail > inconclusive > pass). */
+export type Stamp = "pass" | "fail" | "inconclusive";
+
+/** The result document printed by `run --json` and frozen by `publish`. */
+export interface ResultDocument {
+  audit: string;
+  title: string;
+  authors: Author[];
+  license?: string;
+  description?: string;
+  device?: string;
+  date?: string;
+  doi?: string;
+  tool: { name: string; version: string };
+  fingerprint: string;
+  stamp: Stamp;
+  settings: Settings;
+  datasets: DatasetRecord[];
+  checks: CheckResult[];
+}
+
+/**
+ * `fail` if any check failed; else `inconclusive` if any verdict-bearing check
+ * is inconclusive, or if no check passed at all (an audit that tested nothing
+ * earns no pass); else `pass`.
+ */
+export function stampOf(checks: readonly { status: Status }[]): Stamp {
+  // Only verdict-bearing checks can be inconclusive; informational ones report `info`.
+  if (checks.some((c) => c.status === "fail")) return "fail";
+  if (checks.some((c) => c.status === "inconclusive")) return "inconclusive";
+  if (!checks.some((c) => c.status === "pass")) return "inconclusive";
+  return "pass";
+}
+
+/** Counts of each status, for the archive index. */
+export function statusCounts(checks: readonly { status: Status }[]): Record<Status, number> {
+  const counts: Record<Status, number> = { pass: 0, fail: 0, inconclusive: 0, "not-applicable": 0, info: 0 };
+  for (const c of checks) counts[c.status]++;
+  return counts;
+}

@@ -1,0 +1,112 @@
+import { CHECKS } from "../checks/index.ts";
+import type { CheckContext, CheckDefinition, CheckOptions, CheckResult } from "../checks/types.ts";
+import type { AuditDefinition } from "../config/types.ts";
+import { ConfigError } from "../errors.ts";
+import { nearest } from "../config/nearest.ts";
+import { ingestAudit } from "../ingest/loadAudit.ts";
+import type { IngestedAudit } from "../ingest/types.ts";
+import { rngFromText } from "../stats/rng.ts";
+import { TOOL } from "../version.ts";
+import { canonicalDigest } from "./canonicalJson.ts";
+import { stampOf, type ResultDocument } from "./resultDocument.ts";
+
+export interface SelectedCheck {
+  definition: CheckDefinition;
+  options: CheckOptions;
+  explicit: boolean;
+}
+
+/** Resolve `checks:` (all, or a list with options) to check definitions. */
+export function selectChecks(definition: AuditDefinition, registry: readonly CheckDefinition[] = CHECKS): SelectedCheck[] {
+  if (definition.checks === "all") return registry.map((d) => ({ definition: d, options: {}, explicit: false }));
+  const ids = registry.map((d) => d.id as string);
+  return definition.checks.map((entry, i) => {
+    const [id, options] = typeof entry === "string" ? [entry, {}] : Object.entries(entry)[0];
+    const found = registry.find((d) => d.id === id);
+    if (!found) {
+      const hint = nearest(id, ids);
+      throw new ConfigError(`audit.yaml checks[${i}]: ${JSON.stringify(id)} is not a check id${hint ? ` (did you mean ${hint}?)` : ""}; known: ${ids.join(", ")}`);
+    }
+    return { definition: found, options: (options ?? {}) as CheckOptions, explicit: true };
+  });
+}
+
+/**
+ * The fingerprint of an audit: a hash of the normalised definition, the
+ * digests of its inputs and the tool version. Two runs with the same
+ * fingerprint must give the same result document.
+ */
+export function fingerprintOf(audit: IngestedAudit): string {
+  return canonicalDigest({
+    definition: audit.definition,
+    inputs: audit.datasets.map((d) => ({ id: d.id, file: d.file, sha256: d.sha256 })),
+    tool: TOOL,
+  });
+}
+
+export function contextFor(definition: AuditDefinition, options: CheckOptions, checkId: string): CheckContext {
+  const settings = definition.settings;
+  return {
+    settings,
+    options,
+    // Seeded from content (or the declared seed), never from the clock.
+    rngFor: (digest, stream = "") => rngFromText(`${settings.seed === "auto" ? digest : `seed:${settings.seed}`}|${checkId}|${stream}`),
+  };
+}
+
+function notApplicable(id: CheckResult["check"], reason: string): CheckResult {
+  return {
+    check: id,
+    dataset: "—",
+    status: "not-applicable",
+    summary: `Not applicable: ${reason}`,
+    reason,
+    values: {},
+    criteria: {},
+    assumptions: [],
+    references: [],
+    equations: [],
+    tables: [],
+    plots: [],
+  };
+}
+
+/** Run the selected checks on ingested data: pure apart from the check code itself. */
+export function runChecks(audit: IngestedAudit, registry: readonly CheckDefinition[] = CHECKS): CheckResult[] {
+  const results: CheckResult[] = [];
+  for (const selected of selectChecks(audit.definition, registry)) {
+    const ctx = contextFor(audit.definition, selected.options, selected.definition.id);
+    const out = selected.definition.run(audit, ctx);
+    if (out.length === 0 && selected.explicit) {
+      results.push(notApplicable(selected.definition.id, `no dataset in this audit is of a kind that ${selected.definition.id} examines`));
+    }
+    results.push(...out);
+  }
+  return results;
+}
+
+export function resultDocumentOf(audit: IngestedAudit, checks: CheckResult[]): ResultDocument {
+  const d = audit.definition;
+  return {
+    audit: d.id,
+    title: d.title,
+    authors: d.authors,
+    ...(d.license !== undefined ? { license: d.license } : {}),
+    ...(d.description !== undefined ? { description: d.description } : {}),
+    ...(d.device !== undefined ? { device: d.device } : {}),
+    ...(d.date !== undefined ? { date: d.date } : {}),
+    ...(d.doi !== undefined ? { doi: d.doi } : {}),
+    tool: { ...TOOL },
+    fingerprint: fingerprintOf(audit),
+    stamp: stampOf(checks),
+    settings: d.settings,
+    datasets: audit.datasets.map((x) => ({ id: x.id, file: x.file, sha256: x.sha256, rows: x.rows })),
+    checks,
+  };
+}
+
+/** audit folder → result document. */
+export async function runAudit(dir: string): Promise<{ audit: IngestedAudit; result: ResultDocument }> {
+  const audit = await ingestAudit(dir);
+  return { audit, result: resultDocumentOf(audit, runChecks(audit)) };
+}
