@@ -78,8 +78,10 @@ export function validateLocated<S extends z.ZodTypeAny>(schema: S, doc: LocatedY
       continue;
     }
     const found = valueAt(doc.value, issue.path);
+    const missing = found === undefined && issue.code === "invalid_type" && issue.received === "undefined";
+    const message = missing ? `is missing; ${issue.message === "is required" ? "it is required" : issue.message}` : issue.message;
     const foundText = found === undefined ? "" : `, found ${describeFound(found)}`;
-    lines.push(`${doc.file}:${doc.lineOf(issue.path) ?? "?"} ${formatKeyPath(issue.path)}: ${issue.message}${foundText}`);
+    lines.push(`${doc.file}:${doc.lineOf(issue.path) ?? "?"} ${formatKeyPath(issue.path)}: ${message}${foundText}`);
   }
   throw new ConfigError(lines.join("\n"));
 }

@@ -10,7 +10,7 @@ export interface LocatedYaml {
 
 export function parseLocatedYaml(file: string, source: string): LocatedYaml {
   const lineCounter = new LineCounter();
-  const doc: Document = parseDocument(source, { lineCounter, prettyErrors: false, uniqueKeys: true });
+  const doc: Document = parseDocument(source, { lineCounter, prettyErrors: true, uniqueKeys: true });
   if (doc.errors.length > 0) {
     const lines = doc.errors.map((e) => {
       const pos = e.linePos?.[0];
