@@ -4,6 +4,8 @@ import { EXIT, reportError } from "./exit.ts";
 import { registerRun } from "./commands/run.ts";
 import { registerBuild } from "./commands/build.ts";
 import { registerInit } from "./commands/init.ts";
+import { registerPublish } from "./commands/publish.ts";
+import { registerVerify } from "./commands/verify.ts";
 
 /** The transport-audit command line: argument parsing and exit codes only; the work lives below. */
 export async function main(argv: string[]): Promise<number> {
@@ -16,10 +18,14 @@ export async function main(argv: string[]): Promise<number> {
     .version(TOOL.version)
     .description("Audit heat and particle transport data against the laws of linear and non-linear transport.")
     .exitOverride()
+    // Options after a subcommand belong to it (`verify … --version N` is not the tool's --version).
+    .enablePositionalOptions()
     .showHelpAfterError();
   registerRun(program, setExit);
   registerBuild(program, setExit);
   registerInit(program, setExit);
+  registerPublish(program, setExit);
+  registerVerify(program, setExit);
   try {
     await program.parseAsync(argv, { from: "user" });
   } catch (err) {
