@@ -1,0 +1,97 @@
+/**
+ * Regularized incomplete beta function I_x(a, b) and log B(a, b).
+ *
+ * I_x is evaluated by its continued fraction (Abramowitz & Stegun 26.5.8),
+ * summed with the modified Lentz method (Lentz, Appl. Opt. 15, 668 (1976);
+ * Thompson & Barnett, J. Comput. Phys. 64, 490 (1986)), on the side of the
+ * symmetry I_x(a, b) = 1 − I_{1−x}(b, a) where it converges fast
+ * (x < (a + 1)/(a + b + 2)), as in Press et al., Numerical Recipes, 3rd ed.,
+ * §6.4. The complement y = 1 − x can be passed separately so that callers
+ * that know it exactly (Student t: y = t²/(ν + t²)) lose no digits.
+ */
+
+// Lanczos approximation with g = 7, n = 9 (coefficients of P. Godfrey, as
+// used widely; relative error below 1e-15 for Re z > 0.5). Lanczos, SIAM J.
+// Numer. Anal. B 1, 86 (1964).
+const LANCZOS_G = 7;
+const LANCZOS = [
+  0.99999999999980993, 676.5203681218851, -1259.1392167224028, 771.32342877765313, -176.61502916214059, 12.507343278686905,
+  -0.13857109526572012, 9.9843695780195716e-6, 1.5056327351493116e-7,
+];
+const HALF_LOG_TWO_PI = 0.91893853320467274178;
+
+/** ln Γ(z) for z > 0 (Lanczos; reflection is not needed for positive arguments). */
+function logGammaPositive(z: number): number {
+  if (z < 0.5) {
+    // Γ(z) = Γ(z + 1)/z keeps the Lanczos sum in its accurate range.
+    return logGammaPositive(z + 1) - Math.log(z);
+  }
+  const x = z - 1;
+  let sum = LANCZOS[0];
+  for (let i = 1; i < LANCZOS.length; i++) sum += LANCZOS[i] / (x + i);
+  const t = x + LANCZOS_G + 0.5;
+  return HALF_LOG_TWO_PI + (x + 0.5) * Math.log(t) - t + Math.log(sum);
+}
+
+/** ln B(a, b) = ln Γ(a) + ln Γ(b) − ln Γ(a + b), a, b > 0. */
+export function logBeta(a: number, b: number): number {
+  return logGammaPositive(a) + logGammaPositive(b) - logGammaPositive(a + b);
+}
+
+const TINY = 1e-300;
+const EPS = 1e-16;
+const MAX_ITERATIONS = 10000;
+
+/** Continued fraction for I_x(a, b) (A&S 26.5.8), modified Lentz. */
+function betaContinuedFraction(x: number, a: number, b: number): number {
+  const qab = a + b;
+  const qap = a + 1;
+  const qam = a - 1;
+  let c = 1;
+  let d = 1 - (qab * x) / qap;
+  if (Math.abs(d) < TINY) d = TINY;
+  d = 1 / d;
+  let h = d;
+  for (let m = 1; m <= MAX_ITERATIONS; m++) {
+    const m2 = 2 * m;
+    // even step
+    let aa = (m * (b - m) * x) / ((qam + m2) * (a + m2));
+    d = 1 + aa * d;
+    if (Math.abs(d) < TINY) d = TINY;
+    c = 1 + aa / c;
+    if (Math.abs(c) < TINY) c = TINY;
+    d = 1 / d;
+    h *= d * c;
+    // odd step
+    aa = (-(a + m) * (qab + m) * x) / ((a + m2) * (qap + m2));
+    d = 1 + aa * d;
+    if (Math.abs(d) < TINY) d = TINY;
+    c = 1 + aa / c;
+    if (Math.abs(c) < TINY) c = TINY;
+    d = 1 / d;
+    const del = d * c;
+    h *= del;
+    if (Math.abs(del - 1) < EPS) return h;
+  }
+  throw new Error(`incomplete beta: continued fraction did not converge for x = ${x}, a = ${a}, b = ${b}`);
+}
+
+/**
+ * I_x(a, b) = B(x; a, b)/B(a, b) for 0 ≤ x ≤ 1, a, b > 0. Pass y = 1 − x when
+ * it is known more accurately than by subtraction.
+ */
+export function regularizedIncompleteBeta(x: number, a: number, b: number, y: number = 1 - x): number {
+  if (!(a > 0 && b > 0)) throw new RangeError(`incomplete beta needs a, b > 0, got a = ${a}, b = ${b}`);
+  if (!(x >= 0 && x <= 1)) throw new RangeError(`incomplete beta needs 0 <= x <= 1, got ${x}`);
+  if (x === 0) return 0;
+  if (y === 0 || x === 1) return 1;
+  // Prefactor x^a y^b / (a B(a, b)), in logs to avoid under- and overflow.
+  const logFront = a * Math.log(x) + b * Math.log(y) - logBeta(a, b);
+  if (x < (a + 1) / (a + b + 2)) return (Math.exp(logFront) * betaContinuedFraction(x, a, b)) / a;
+  return 1 - (Math.exp(logFront) * betaContinuedFraction(y, b, a)) / b;
+}
+
+/** 1 − I_x(a, b) = I_y(b, a), computed directly so small upper tails keep their digits. */
+export function regularizedIncompleteBetaComplement(x: number, a: number, b: number, y: number = 1 - x): number {
+  return regularizedIncompleteBeta(y, b, a, x);
+}

@@ -1,0 +1,12 @@
+// Re-exports only: one line per module.
+export * from "./normal.ts";
+export * from "./rng.ts";
+export * from "./weightedMoments.ts";
+export * from "./histogram.ts";
+export * from "./beta.ts";
+export * from "./studentT.ts";
+export * from "./holm.ts";
+export * from "./tost.ts";
+export * from "./monteCarlo.ts";
+export * from "./weightedLeastSquares.ts";
+export * from "./changePoint.ts";
