@@ -3,11 +3,11 @@ import { holm } from "../../src/stats/holm.ts";
 import { expectClose } from "../helpers/expectClose.ts";
 
 describe("holm", () => {
-  // Worked example: p = (0.50, 0.01, 0.001, 0.69, 0.02, 0.05, 0.0025) at α = 0.05.
-  // Step-down rule of Holm, Scand. J. Stat. 6, 65 (1979): sorted p(1..7) = 0.001, 0.0025, 0.01, 0.02, 0.05, 0.5, 0.69;
-  // thresholds α/7, α/6, α/5, …: 0.001 ≤ 0.00714, 0.0025 ≤ 0.00833, but 0.01 > α/5 = 0.01? No: 0.01 ≤ 0.01 — see the edge test;
-  // with this family the third step compares 0.01 with α/5 = 0.01 and the pinned "≤" would reject it, so the example
-  // is stated for α = 0.049 as well below. Adjusted p̃(k) = max_{j≤k} min(1, (m − j + 1) p(j)), computed by hand.
+  // Worked example: p = (0.50, 0.01, 0.001, 0.69, 0.02, 0.05, 0.0025). Step-down rule of Holm, Scand. J. Stat. 6, 65 (1979):
+  // sorted p(1..7) = 0.001, 0.0025, 0.01, 0.02, 0.05, 0.5, 0.69 against α/7, α/6, α/5, … The published reading "rejects only
+  // 0.001 and 0.0025" at α = 0.05 needs a strict comparison at the third step, where 0.01 meets α/5 = 0.01 exactly; the
+  // convention pinned here ("≤") rejects it (edge test below), so the two-rejection case is shown at α = 0.049.
+  // Adjusted p̃(k) = max_{j≤k} min(1, (m − j + 1) p(j)) computed by hand.
   const p = [0.5, 0.01, 0.001, 0.69, 0.02, 0.05, 0.0025];
   const adjustedByHand = [1, 0.05, 0.007, 1, 0.08, 0.15, 0.015];
 
