@@ -1,22 +1,32 @@
 import { scaleLinear, scaleLog, line as d3line, type ScaleContinuousNumeric } from "d3";
 import type { PlotSpec, Series, Axis } from "../../checks/plotSpec.ts";
 import { escapeHtml } from "../escape.ts";
-import { DASHES, MARKERS, PALETTE } from "./palette.ts";
+import { DASHES, HATCH_CYCLE, LINE_CYCLE, MARKERS, seriesColour } from "./palette.ts";
+import { describePlot } from "./describePlot.ts";
+import { tickLabelSvg } from "./tickLabel.ts";
 
+/*
+ * Geometry in SVG user units. The figure is 640 units wide and shown at most
+ * 44rem (≈ 12 cm printed, 15 cm at most), so 13-unit tick labels print at about
+ * 8–9 pt and axis titles at 9–10 pt: the sizes of a journal figure.
+ */
 const W = 640;
 const H = 400;
-const M = { top: 16, right: 20, bottom: 56, left: 78 };
+const M = { top: 14, right: 22, bottom: 60, left: 84 };
 const PW = W - M.left - M.right;
 const PH = H - M.top - M.bottom;
+const LEGEND_ROW = 19;
 
 type Scale = ScaleContinuousNumeric<number, number>;
+
+const f2 = (v: number) => v.toFixed(2);
 
 function finite(values: number[]): number[] {
   return values.filter((v) => Number.isFinite(v));
 }
 
 /** Data extent of one axis over all series, error bars and bands included. */
-function extent(spec: PlotSpec, axis: "x" | "y"): [number, number] {
+export function extent(spec: PlotSpec, axis: "x" | "y"): [number, number] {
   const fixed = spec[axis].domain;
   if (fixed) return fixed;
   const vals: number[] = [];
@@ -58,8 +68,8 @@ function extent(spec: PlotSpec, axis: "x" | "y"): [number, number] {
   }
   const usable = finite(spec[axis].scale === "log" ? vals.filter((v) => v > 0) : vals);
   if (usable.length === 0) return spec[axis].scale === "log" ? [1, 10] : [0, 1];
-  let lo = Math.min(...usable);
-  let hi = Math.max(...usable);
+  let lo = usable.reduce((a, b) => Math.min(a, b), Infinity);
+  let hi = usable.reduce((a, b) => Math.max(a, b), -Infinity);
   if (lo === hi) {
     const pad = lo === 0 ? 1 : Math.abs(lo) * 0.1;
     lo -= pad;
@@ -73,104 +83,134 @@ function scaleFor(axis: Axis, domain: [number, number], range: [number, number])
   return scaleLinear().domain(domain).range(range).nice() as Scale;
 }
 
-function tickLabel(v: number): string {
-  if (v === 0) return "0";
-  const a = Math.abs(v);
-  if (a >= 1e-3 && a < 1e5) return String(Number(v.toPrecision(6)));
-  return v.toExponential().replace(/\.?0+e/, "e").replace("e+", "e");
-}
-
-function axisTitle(a: Axis): string {
+export function axisTitle(a: Axis): string {
   return a.unit ? `${a.label} (${a.unit})` : a.label;
 }
 
-function marker(kind: (typeof MARKERS)[number], x: number, y: number, color: string): string {
-  const r = 3.6;
+/** Ticks of an axis, each with its label, or "" for an unlabelled minor tick on a log axis. */
+function ticksOf(axis: Axis, scale: Scale, count: number): { value: number; label: string }[] {
+  const ticks = scale.ticks(count);
+  if (axis.scale !== "log") return ticks.map((value) => ({ value, label: tickLabelSvg(value) }));
+  // d3's log-scale formatter returns "" for ticks it would leave unlabelled (2…9 within a decade when crowded).
+  const keep = scale.tickFormat(count, "");
+  return ticks.map((value) => ({ value, label: keep(value) === "" ? "" : tickLabelSvg(value) }));
+}
+
+function marker(kind: (typeof MARKERS)[number], x: number, y: number): string {
+  const r = 3.8;
   switch (kind) {
     case "circle":
-      return `<circle cx="${x.toFixed(2)}" cy="${y.toFixed(2)}" r="${r}" fill="${color}"/>`;
+      return `<circle cx="${f2(x)}" cy="${f2(y)}" r="${r}"/>`;
     case "square":
-      return `<rect x="${(x - r).toFixed(2)}" y="${(y - r).toFixed(2)}" width="${2 * r}" height="${2 * r}" fill="${color}"/>`;
+      return `<rect x="${f2(x - r * 0.9)}" y="${f2(y - r * 0.9)}" width="${f2(r * 1.8)}" height="${f2(r * 1.8)}"/>`;
     case "triangle":
-      return `<path d="M${x.toFixed(2)},${(y - r * 1.2).toFixed(2)}l${r * 1.1},${r * 2}h${-r * 2.2}z" fill="${color}"/>`;
+      return `<path d="M${f2(x)},${f2(y - r * 1.25)}l${f2(r * 1.15)},${f2(r * 2)}h${f2(-r * 2.3)}z"/>`;
     case "diamond":
-      return `<path d="M${x.toFixed(2)},${(y - r * 1.3).toFixed(2)}l${r * 1.3},${r * 1.3}l${-r * 1.3},${r * 1.3}l${-r * 1.3},${-r * 1.3}z" fill="${color}"/>`;
+      return `<path d="M${f2(x)},${f2(y - r * 1.3)}l${f2(r * 1.3)},${f2(r * 1.3)}l${f2(-r * 1.3)},${f2(r * 1.3)}l${f2(-r * 1.3)},${f2(-r * 1.3)}z"/>`;
     case "cross":
-      return `<path d="M${(x - r).toFixed(2)},${(y - r).toFixed(2)}l${2 * r},${2 * r}m0,${-2 * r}l${-2 * r},${2 * r}" stroke="${color}" stroke-width="1.6"/>`;
+      return `<path d="M${f2(x - r)},${f2(y - r)}l${f2(2 * r)},${f2(2 * r)}m0,${f2(-2 * r)}l${f2(-2 * r)},${f2(2 * r)}" fill="none" stroke="currentColor" stroke-width="1.8"/>`;
   }
 }
 
-/** Render one series; returns its SVG and the legend swatch. */
-function renderSeries(s: Series, index: number, x: Scale, y: Scale): { body: string; swatch: string } {
-  const color = PALETTE[index % PALETTE.length];
-  const mk = MARKERS[index % MARKERS.length];
-  const X = (v: number) => x(v);
-  const Y = (v: number) => y(v);
+/** A vertical or horizontal error bar with short caps at both ends, as in print. */
+function errorBar(orientation: "v" | "h", a: number, from: number, to: number): string {
+  const cap = 3.5;
+  return orientation === "v"
+    ? `<path d="M${f2(a)},${f2(from)}V${f2(to)}M${f2(a - cap)},${f2(from)}h${2 * cap}M${f2(a - cap)},${f2(to)}h${2 * cap}"/>`
+    : `<path d="M${f2(from)},${f2(a)}H${f2(to)}M${f2(from)},${f2(a - cap)}v${2 * cap}M${f2(to)},${f2(a - cap)}v${2 * cap}"/>`;
+}
+
+interface Style {
+  index: number; // position in spec.series: picks the colour and marker
+  lineOrdinal: number; // among unstyled lines: picks the dash pattern
+  barsOrdinal: number; // among histograms: picks the hatching
+  uid: string;
+}
+
+/** Render one series; returns its SVG, its legend swatch and any pattern it needs in <defs>. */
+function renderSeries(s: Series, st: Style, x: Scale, y: Scale): { body: string; swatch: string; defs: string } {
+  const colour = seriesColour(st.index);
+  const wrap = (cls: string, inner: string, extra = "") =>
+    `<g class="series ${cls}" data-series="${escapeHtml(s.name)}" color="${colour.attr}" style="${colour.style}"${extra}>${inner}</g>`;
+  const swatchOf = (inner: string) => `<g color="${colour.attr}" style="${colour.style}">${inner}</g>`;
   switch (s.type) {
     case "points": {
-      const parts: string[] = [];
+      const mk = MARKERS[st.index % MARKERS.length];
+      const bars: string[] = [];
+      const marks: string[] = [];
       s.x.forEach((xv, i) => {
         const yv = s.y[i];
         if (!Number.isFinite(xv) || !Number.isFinite(yv)) return;
         const lo = s.yErrLow?.[i] ?? s.yErr?.[i];
         const hi = s.yErrHigh?.[i] ?? s.yErr?.[i];
-        if (lo !== undefined && hi !== undefined && Number.isFinite(lo) && Number.isFinite(hi)) {
-          parts.push(`<path class="err" d="M${X(xv).toFixed(2)},${Y(yv - lo).toFixed(2)}V${Y(yv + hi).toFixed(2)}" stroke="${color}"/>`);
-        }
+        if (lo !== undefined && hi !== undefined && Number.isFinite(lo) && Number.isFinite(hi)) bars.push(errorBar("v", x(xv), y(yv - lo), y(yv + hi)));
         const xe = s.xErr?.[i];
-        if (xe !== undefined && Number.isFinite(xe)) {
-          parts.push(`<path class="err" d="M${X(xv - xe).toFixed(2)},${Y(yv).toFixed(2)}H${X(xv + xe).toFixed(2)}" stroke="${color}"/>`);
-        }
-        parts.push(marker(mk, X(xv), Y(yv), color));
+        if (xe !== undefined && Number.isFinite(xe)) bars.push(errorBar("h", y(yv), x(xv - xe), x(xv + xe)));
+        marks.push(marker(mk, x(xv), y(yv)));
       });
-      return { body: `<g class="series points" data-series="${escapeHtml(s.name)}">${parts.join("")}</g>`, swatch: marker(mk, 8, 0, color) };
+      const errors = bars.length ? `<g class="err" fill="none" stroke="currentColor" stroke-width="1.2">${bars.join("")}</g>` : "";
+      return {
+        body: wrap("points", `${errors}<g fill="currentColor">${marks.join("")}</g>`),
+        swatch: swatchOf(`<g fill="currentColor">${marker(mk, 10, 0)}</g>`),
+        defs: "",
+      };
     }
     case "line": {
       const pts = s.x.map((xv, i) => [xv, s.y[i]] as [number, number]).filter(([a, b]) => Number.isFinite(a) && Number.isFinite(b));
       const d = d3line()
-        .x((p) => X(p[0]))
-        .y((p) => Y(p[1]))(pts);
-      const dash = DASHES[s.style ?? "solid"];
-      return {
-        body: `<path class="series line" data-series="${escapeHtml(s.name)}" d="${d ?? ""}" fill="none" stroke="${color}" stroke-width="1.8"${dash ? ` stroke-dasharray="${dash}"` : ""}/>`,
-        swatch: `<path d="M0,0H16" stroke="${color}" stroke-width="1.8"${dash ? ` stroke-dasharray="${dash}"` : ""}/>`,
-      };
+        .x((p) => x(p[0]))
+        .y((p) => y(p[1]))(pts);
+      const dash = s.style ? DASHES[s.style] : LINE_CYCLE[st.lineOrdinal % LINE_CYCLE.length];
+      const stroke = `fill="none" stroke="currentColor" stroke-width="2"${dash ? ` stroke-dasharray="${dash}"` : ""}`;
+      return { body: wrap("line", `<path d="${d ?? ""}" ${stroke}/>`), swatch: swatchOf(`<path d="M0,0H20" ${stroke}/>`), defs: "" };
     }
     case "band": {
-      const upper = s.x.map((xv, i) => `${X(xv).toFixed(2)},${Y(s.upper[i]).toFixed(2)}`);
-      const lower = s.x.map((xv, i) => `${X(xv).toFixed(2)},${Y(s.lower[i]).toFixed(2)}`).reverse();
+      const upper = s.x.map((xv, i) => `${f2(x(xv))},${f2(y(s.upper[i]))}`);
+      const lower = s.x.map((xv, i) => `${f2(x(xv))},${f2(y(s.lower[i]))}`).reverse();
+      // Edges drawn thin so the band's extent survives grey-scale print, where a pale fill can vanish.
       return {
-        body: `<path class="series band" data-series="${escapeHtml(s.name)}" d="M${upper.join("L")}L${lower.join("L")}Z" fill="${color}" fill-opacity="0.18" stroke="none"/>`,
-        swatch: `<rect x="0" y="-5" width="16" height="10" fill="${color}" fill-opacity="0.25"/>`,
+        body: wrap(
+          "band",
+          `<path d="M${upper.join("L")}L${lower.join("L")}Z" fill="currentColor" fill-opacity="0.18" stroke="none"/><path d="M${upper.join("L")}M${lower.reverse().join("L")}" fill="none" stroke="currentColor" stroke-opacity="0.6" stroke-width="0.8"/>`,
+        ),
+        swatch: swatchOf(`<rect x="0" y="-6" width="20" height="12" fill="currentColor" fill-opacity="0.25" stroke="currentColor" stroke-opacity="0.6" stroke-width="0.8"/>`),
+        defs: "",
       };
     }
     case "bars": {
-      const base = y.domain()[0] > 0 ? y.range()[0] : Y(0);
+      const base = y.domain()[0] > 0 ? y.range()[0] : y(0);
       const rects = s.x0
         .map((a, i) => {
           const h = s.y[i];
-          if (!Number.isFinite(h) || h <= 0 && y.domain()[0] > 0) return "";
-          const top = Y(h);
-          return `<rect x="${X(a).toFixed(2)}" y="${Math.min(top, base).toFixed(2)}" width="${Math.max(0.5, X(s.x1[i]) - X(a)).toFixed(2)}" height="${Math.abs(base - top).toFixed(2)}"/>`;
+          if (!Number.isFinite(h) || (h <= 0 && y.domain()[0] > 0)) return "";
+          const top = y(h);
+          return `<rect x="${f2(x(a))}" y="${f2(Math.min(top, base))}" width="${f2(Math.max(0.5, x(s.x1[i]) - x(a)))}" height="${f2(Math.abs(base - top))}"/>`;
         })
         .join("");
+      const angle = HATCH_CYCLE[st.barsOrdinal % HATCH_CYCLE.length];
+      const pid = `${st.uid}-hatch-${st.index}`;
+      const fill = angle === undefined ? `fill="currentColor" fill-opacity="0.5"` : `fill="url(#${pid})"`;
+      const defs =
+        angle === undefined
+          ? ""
+          : `<pattern id="${pid}" patternUnits="userSpaceOnUse" width="6" height="6" patternTransform="rotate(${angle})" color="${colour.attr}" style="${colour.style}"><path d="M0,0V6" stroke="currentColor" stroke-width="1.6"/></pattern>`;
       return {
-        body: `<g class="series bars" data-series="${escapeHtml(s.name)}" fill="${color}" fill-opacity="0.55" stroke="${color}" stroke-width="0.6">${rects}</g>`,
-        swatch: `<rect x="0" y="-5" width="16" height="10" fill="${color}" fill-opacity="0.55" stroke="${color}"/>`,
+        body: wrap("bars", rects, ` ${fill} stroke="currentColor" stroke-width="0.7"`),
+        swatch: swatchOf(`<rect x="0" y="-6" width="20" height="12" ${fill} stroke="currentColor" stroke-width="0.7"/>`),
+        defs,
       };
     }
     case "span":
       return {
-        body: `<rect class="series span" data-series="${escapeHtml(s.name)}" x="${X(s.from).toFixed(2)}" y="0" width="${Math.max(0, X(s.to) - X(s.from)).toFixed(2)}" height="${PH}" fill="${color}" fill-opacity="0.12"/>`,
-        swatch: `<rect x="0" y="-5" width="16" height="10" fill="${color}" fill-opacity="0.2"/>`,
+        body: wrap("span", `<rect x="${f2(x(s.from))}" y="0" width="${f2(Math.max(0, x(s.to) - x(s.from)))}" height="${PH}" fill="currentColor" fill-opacity="0.12" stroke="currentColor" stroke-opacity="0.5" stroke-dasharray="2 3"/>`),
+        swatch: swatchOf(`<rect x="0" y="-6" width="20" height="12" fill="currentColor" fill-opacity="0.2" stroke="currentColor" stroke-opacity="0.5" stroke-dasharray="2 3"/>`),
+        defs: "",
       };
     case "rule": {
       const dash = DASHES[s.style ?? "dashed"];
-      const d = s.axis === "x" ? `M${X(s.value).toFixed(2)},0V${PH}` : `M0,${Y(s.value).toFixed(2)}H${PW}`;
-      return {
-        body: `<path class="series rule" data-series="${escapeHtml(s.name)}" d="${d}" stroke="${color}" stroke-width="1.4"${dash ? ` stroke-dasharray="${dash}"` : ""}/>`,
-        swatch: `<path d="M0,0H16" stroke="${color}" stroke-width="1.4"${dash ? ` stroke-dasharray="${dash}"` : ""}/>`,
-      };
+      const d = s.axis === "x" ? `M${f2(x(s.value))},0V${PH}` : `M0,${f2(y(s.value))}H${PW}`;
+      const stroke = `fill="none" stroke="currentColor" stroke-width="1.6"${dash ? ` stroke-dasharray="${dash}"` : ""}`;
+      return { body: wrap("rule", `<path d="${d}" ${stroke}/>`), swatch: swatchOf(`<path d="M0,0H20" ${stroke}/>`), defs: "" };
     }
     case "heatmap": {
       const max = Math.max(1e-300, ...s.counts.flat());
@@ -178,68 +218,87 @@ function renderSeries(s: Series, index: number, x: Scale, y: Scale): { body: str
       s.counts.forEach((row, j) =>
         row.forEach((c, i) => {
           if (!(c > 0)) return;
-          const x0 = X(s.xEdges[i]);
-          const x1 = X(s.xEdges[i + 1]);
-          const y0 = Y(s.yEdges[j + 1]);
-          const y1 = Y(s.yEdges[j]);
+          const x0 = x(s.xEdges[i]);
+          const x1 = x(s.xEdges[i + 1]);
+          const y0 = y(s.yEdges[j + 1]);
+          const y1 = y(s.yEdges[j]);
           // Logarithmic shading: rare cells stay visible next to the peak.
           const shade = 0.12 + 0.88 * (Math.log1p(c) / Math.log1p(max));
-          cells.push(`<rect x="${x0.toFixed(2)}" y="${y0.toFixed(2)}" width="${Math.max(0.5, x1 - x0).toFixed(2)}" height="${Math.max(0.5, y1 - y0).toFixed(2)}" fill-opacity="${shade.toFixed(3)}"/>`);
+          cells.push(`<rect x="${f2(x0)}" y="${f2(y0)}" width="${f2(Math.max(0.5, x1 - x0))}" height="${f2(Math.max(0.5, y1 - y0))}" fill-opacity="${shade.toFixed(3)}"/>`);
         }),
       );
       return {
-        body: `<g class="series heatmap" data-series="${escapeHtml(s.name)}" fill="${color}">${cells.join("")}</g>`,
-        swatch: `<rect x="0" y="-5" width="16" height="10" fill="${color}" fill-opacity="0.6"/>`,
+        body: wrap("heatmap", cells.join(""), ` fill="currentColor"`),
+        swatch: swatchOf(
+          `<rect x="0" y="-6" width="7" height="12" fill="currentColor" fill-opacity="0.12"/><rect x="7" y="-6" width="7" height="12" fill="currentColor" fill-opacity="0.5"/><rect x="14" y="-6" width="6" height="12" fill="currentColor"/>`,
+        ),
+        defs: "",
       };
     }
   }
+}
+
+function legendText(s: Series): string {
+  if (s.type !== "heatmap") return s.name;
+  const max = Math.max(0, ...s.counts.flat());
+  return `${s.name} (shade ∝ log(1 + count); darkest: ${max})`;
 }
 
 let plotCounter = 0;
 
 /**
  * Draw a plot spec as a self-contained SVG string (d3 scales and shapes, markup
- * written directly: no DOM needed at build time). The SVG carries a title and a
- * description for screen readers; all text from specs is escaped.
+ * written directly: no DOM needed at build time). The SVG is a labelled image
+ * for screen readers: its title, then a description made of the spec's text
+ * alternative and a plain account of axes, ranges and series. All text from
+ * specs is escaped.
  */
 export function renderPlot(spec: PlotSpec, idPrefix = ""): string {
   const uid = `${idPrefix}${spec.id}-${++plotCounter}`.replace(/[^A-Za-z0-9_-]/g, "-");
   const x = scaleFor(spec.x, extent(spec, "x"), [0, PW]);
   const y = scaleFor(spec.y, extent(spec, "y"), [PH, 0]);
-  const xTicks = x.ticks(spec.x.scale === "log" ? 6 : 7);
-  const yTicks = y.ticks(spec.y.scale === "log" ? 6 : 6);
+  const xTicks = ticksOf(spec.x, x, spec.x.scale === "log" ? 6 : 7);
+  const yTicks = ticksOf(spec.y, y, 6);
   const grid = [
-    ...yTicks.map((t) => `<path d="M0,${y(t).toFixed(2)}H${PW}"/>`),
-    ...xTicks.map((t) => `<path d="M${x(t).toFixed(2)},0V${PH}"/>`),
+    ...yTicks.filter((t) => t.label).map((t) => `<path d="M0,${f2(y(t.value))}H${PW}"/>`),
+    ...xTicks.filter((t) => t.label).map((t) => `<path d="M${f2(x(t.value))},0V${PH}"/>`),
   ].join("");
   const xAxis = xTicks
-    .map((t) => `<g transform="translate(${x(t).toFixed(2)},${PH})"><path d="M0,0V5"/><text y="18" text-anchor="middle" stroke="none">${escapeHtml(tickLabel(t))}</text></g>`)
+    .map((t) => `<g transform="translate(${f2(x(t.value))},${PH})"><path d="M0,0V${t.label ? 6 : 3}"/>${t.label ? `<text y="20" text-anchor="middle" stroke="none">${t.label}</text>` : ""}</g>`)
     .join("");
   const yAxis = yTicks
-    .map((t) => `<g transform="translate(0,${y(t).toFixed(2)})"><path d="M-5,0H0"/><text x="-8" dy="0.32em" text-anchor="end" stroke="none">${escapeHtml(tickLabel(t))}</text></g>`)
+    .map((t) => `<g transform="translate(0,${f2(y(t.value))})"><path d="M${t.label ? -6 : -3},0H0"/>${t.label ? `<text x="-9" dy="0.34em" text-anchor="end" stroke="none">${t.label}</text>` : ""}</g>`)
     .join("");
-  // Draw areas first, then lines and markers on top.
+  // Areas first, then rules and lines, markers on top.
   const order: Record<Series["type"], number> = { span: 0, heatmap: 1, band: 2, bars: 3, rule: 4, line: 5, points: 6 };
-  const rendered = spec.series.map((s, i) => ({ s, i, r: renderSeries(s, i, x, y) }));
+  let lineOrdinal = 0;
+  let barsOrdinal = 0;
+  const rendered = spec.series.map((s, index) => {
+    const st: Style = { index, uid, lineOrdinal: s.type === "line" && !s.style ? lineOrdinal++ : 0, barsOrdinal: s.type === "bars" ? barsOrdinal++ : 0 };
+    return { s, r: renderSeries(s, st, x, y) };
+  });
   const body = [...rendered].sort((a, b) => order[a.s.type] - order[b.s.type]).map((e) => e.r.body).join("");
+  const defs = rendered.map((e) => e.r.defs).join("");
   const legend = rendered
-    .map((e, k) => `<g transform="translate(0,${k * 17})">${e.r.swatch}<text x="22" dy="0.32em">${escapeHtml(e.s.name)}</text></g>`)
+    .map((e, k) => `<g transform="translate(0,${k * LEGEND_ROW})">${e.r.swatch}<text x="28" dy="0.34em">${escapeHtml(legendText(e.s))}</text></g>`)
     .join("");
+  const height = H + rendered.length * LEGEND_ROW + 6;
+  const description = `${spec.alt} ${describePlot(spec, x.domain() as [number, number], y.domain() as [number, number])}`;
   return [
-    `<svg xmlns="http://www.w3.org/2000/svg" class="plot" viewBox="0 0 ${W} ${H + rendered.length * 17 + 8}" role="img" aria-labelledby="${uid}-title ${uid}-desc" font-family="inherit" font-size="12">`,
+    `<svg xmlns="http://www.w3.org/2000/svg" class="plot" viewBox="0 0 ${W} ${height}" width="${W}" height="${height}" role="img" aria-labelledby="${uid}-title ${uid}-desc" font-family="system-ui, 'DejaVu Sans', sans-serif" font-size="13">`,
     `<title id="${uid}-title">${escapeHtml(spec.title)}</title>`,
-    `<desc id="${uid}-desc">${escapeHtml(spec.alt)}</desc>`,
-    `<defs><clipPath id="${uid}-clip"><rect width="${PW}" height="${PH}"/></clipPath></defs>`,
+    `<desc id="${uid}-desc">${escapeHtml(description)}</desc>`,
+    `<defs><clipPath id="${uid}-clip"><rect width="${PW}" height="${PH}"/></clipPath>${defs}</defs>`,
     `<g transform="translate(${M.left},${M.top})">`,
-    `<g class="grid" stroke="currentColor" stroke-opacity="0.1">${grid}</g>`,
-    `<g clip-path="url(#${uid}-clip)">${body}</g>`,
-    `<rect class="frame" width="${PW}" height="${PH}" fill="none" stroke="currentColor" stroke-opacity="0.6"/>`,
+    `<g class="grid" fill="none" stroke="currentColor" stroke-opacity="0.12">${grid}</g>`,
+    `<g class="data" clip-path="url(#${uid}-clip)">${body}</g>`,
+    `<rect class="frame" width="${PW}" height="${PH}" fill="none" stroke="currentColor" stroke-opacity="0.75"/>`,
     `<g class="axis x" stroke="currentColor" fill="currentColor">${xAxis}</g>`,
     `<g class="axis y" stroke="currentColor" fill="currentColor">${yAxis}</g>`,
-    `<text class="axis-title" x="${PW / 2}" y="${PH + 42}" text-anchor="middle" fill="currentColor">${escapeHtml(axisTitle(spec.x))}</text>`,
-    `<text class="axis-title" transform="translate(${-M.left + 16},${PH / 2}) rotate(-90)" text-anchor="middle" fill="currentColor">${escapeHtml(axisTitle(spec.y))}</text>`,
+    `<text class="axis-title" x="${PW / 2}" y="${PH + 46}" text-anchor="middle" fill="currentColor" font-size="14">${escapeHtml(axisTitle(spec.x))}</text>`,
+    `<text class="axis-title" transform="translate(${-M.left + 18},${PH / 2}) rotate(-90)" text-anchor="middle" fill="currentColor" font-size="14">${escapeHtml(axisTitle(spec.y))}</text>`,
     `</g>`,
-    `<g class="legend" transform="translate(${M.left},${H + 4})" fill="currentColor">${legend}</g>`,
+    `<g class="legend" transform="translate(${M.left},${H + 8})" fill="currentColor">${legend}</g>`,
     `</svg>`,
   ].join("");
 }
