@@ -38,24 +38,64 @@ export interface SamplesDataset extends DatasetRecord {
   tau: number | null;
 }
 
-/** Linear-response coefficients at operating points (filled by the coefficients ingester). */
+/** Linear-response coefficients at one row of a coefficients table (one operating point at one field). */
 export interface CoefficientPoint {
-  /** Operating-point coordinates (the `point` columns) and the row they came from. */
+  /** Operating-point coordinates (the `point` columns). */
   point: Record<string, number>;
+  /** The file line of the row, as a person counts (header is line 1 unless comments precede it). */
   row: number;
   T: number; // K
-  B: number | null; // field, in the file's unit
-  /** Onsager matrix in Callen's charge–heat form, SI; L[i][j]. */
+  /** Magnetic field in the file's unit (`field_unit`), null when the table has no field column. */
+  B: number | null;
+  /** Value of the sweep variable (plots' abscissa); the row's line when there is none. */
+  sweep: number;
+  /**
+   * The row's inputs in the dataset's form, SI: L11, L12, … (onsager) or G, S, Pi, K
+   * (thermoelectric), with their standard uncertainties (null without u_ columns).
+   */
+  inputs: { names: string[]; values: number[]; u: number[] | null };
+  /** Onsager matrix in Callen's charge–heat form (SI); L[i][j]. */
   L: number[][];
-  /** Standard uncertainties of L entries, or null when not given. */
+  /** First-order standard uncertainties of the L entries, or null without u_ columns. */
   uL: number[][] | null;
+  /** Index in `points` of the row at −B with the same operating point (itself at B = 0); null when unpaired. */
+  partner: number | null;
+}
+
+/** A row that could not be paired with its time-reversed partner, or a pair that looks wrong. */
+export interface PairingFinding {
+  kind: "unpaired" | "duplicate" | "temperature-mismatch";
+  /** File lines involved. */
+  rows: number[];
+  point: Record<string, number>;
+  B: number | null;
+  /** One sentence naming the rows and what is missing. */
+  message: string;
 }
 
 export interface CoefficientsDataset extends DatasetRecord {
   kind: "coefficients";
   config: CoefficientsDatasetConfig;
+  form: "onsager" | "thermoelectric";
+  /** Number of fluxes (2 for the charge–heat form). */
+  n: number;
+  /** Time-reversal parity of each flux (+1 for charge and heat). */
+  parity: number[];
   points: CoefficientPoint[];
-  /** Everything the ingester wants checks to see (raw thermoelectric columns, pairing notes, …). */
+  /** Index pairs [row at +B, row at −B] (or [i, i] at B = 0 and without a field column), in file order. */
+  pairs: [number, number][];
+  /** Unpaired rows, duplicates, temperature mismatches: reported, never dropped silently. */
+  findings: PairingFinding[];
+  hasField: boolean;
+  hasUncertainties: boolean;
+  /** Column used as the abscissa of plots, null when there is none (then the file line is used). */
+  sweepVariable: string | null;
+  fieldUnit: string;
+  /** Thermoelectric form without a Pi column: Π was set from the Kelvin relation Π(B) = T S(−B). */
+  kelvinAssumed: boolean;
+  /** Declared unit of each input column as written (SI when not declared). */
+  units: Record<string, string>;
+  /** Everything else the ingester wants checks to see. */
   extra: Record<string, unknown>;
 }
 
