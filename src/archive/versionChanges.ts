@@ -2,10 +2,21 @@ import type { Status } from "../checks/types.ts";
 import type { Stamp } from "../report/resultDocument.ts";
 import type { VersionManifest } from "./manifest.ts";
 
-/** The minimum of a version that a comparison needs. */
+/** The minimum of a version (or of the unpublished state) that a comparison needs. */
 export interface VersionSnapshot {
-  manifest: VersionManifest;
+  /** null for the unpublished current state */
+  version: number | null;
+  stamp: Stamp;
+  tool: { name: string; version: string };
+  inputs: readonly { id: string; file: string; sha256: string; rows: number }[];
+  /** Digest of the audit.yaml text. */
+  definitionDigest: string;
   checks: readonly { check: string; dataset: string; status: Status }[];
+}
+
+/** The snapshot of a published version. */
+export function snapshotOf(manifest: VersionManifest, checks: VersionSnapshot["checks"]): VersionSnapshot {
+  return { version: manifest.version, stamp: manifest.stamp, tool: manifest.tool, inputs: manifest.inputs, definitionDigest: manifest.files["audit.yaml"], checks };
 }
 
 export interface VerdictChange {
@@ -24,8 +35,8 @@ export interface DataFileChange {
 }
 
 export interface VersionChanges {
-  from: number;
-  to: number;
+  from: number | null;
+  to: number | null;
   stamp: { from: Stamp; to: Stamp } | null;
   verdicts: VerdictChange[];
   data: DataFileChange[];
@@ -63,8 +74,8 @@ export function changesBetween(prev: VersionSnapshot, next: VersionSnapshot): Ve
   for (const [k, c] of a) if (!b.has(k)) verdicts.push({ check: c.check, dataset: c.dataset, from: c.status, to: null });
 
   const data: DataFileChange[] = [];
-  const before = new Map(prev.manifest.inputs.map((i) => [i.file, i]));
-  const after = new Map(next.manifest.inputs.map((i) => [i.file, i]));
+  const before = new Map(prev.inputs.map((i) => [i.file, i]));
+  const after = new Map(next.inputs.map((i) => [i.file, i]));
   for (const [file, i] of after) {
     const old = before.get(file);
     if (!old) data.push({ file, dataset: i.id, change: "added", to: { sha256: i.sha256, rows: i.rows } });
@@ -72,15 +83,15 @@ export function changesBetween(prev: VersionSnapshot, next: VersionSnapshot): Ve
   }
   for (const [file, i] of before) if (!after.has(file)) data.push({ file, dataset: i.id, change: "removed", from: { sha256: i.sha256, rows: i.rows } });
 
-  const pt = prev.manifest.tool;
-  const nt = next.manifest.tool;
+  const pt = prev.tool;
+  const nt = next.tool;
   return {
-    from: prev.manifest.version,
-    to: next.manifest.version,
-    stamp: prev.manifest.stamp !== next.manifest.stamp ? { from: prev.manifest.stamp, to: next.manifest.stamp } : null,
+    from: prev.version,
+    to: next.version,
+    stamp: prev.stamp !== next.stamp ? { from: prev.stamp, to: next.stamp } : null,
     verdicts,
     data,
-    definitionChanged: prev.manifest.files["audit.yaml"] !== next.manifest.files["audit.yaml"],
+    definitionChanged: prev.definitionDigest !== next.definitionDigest,
     tool: pt.name !== nt.name || pt.version !== nt.version ? { from: `${pt.name} ${pt.version}`, to: `${nt.name} ${nt.version}` } : null,
     unchangedVerdicts: unchanged,
   };

@@ -10,7 +10,15 @@ export const archiveSchema = z
   .object({
     name: text(),
     publisher: text("the name of a group or institution"),
-    base_url: z.string().url("must be an absolute URL such as https://example.org/audits/").optional(),
+    /** Where the rendered site is served; citations give `<base_url><audit-id>/v<N>/`. */
+    base_url: z
+      .string({ invalid_type_error: "must be an absolute URL such as https://example.org/audits/" })
+      .url("must be an absolute URL such as https://example.org/audits/")
+      .refine((u) => /^https?:\/\//.test(u), "must start with https:// or http://")
+      .transform((u) => (u.endsWith("/") ? u : `${u}/`))
+      .optional(),
+    /** Where the archive's files (audits, data, versions) can be cloned, so that anyone can verify. */
+    repository: z.string({ invalid_type_error: "must be a URL" }).url("must be a URL such as https://example.org/lab/audits.git").optional(),
     license: text("an SPDX licence identifier such as CC-BY-4.0").default("CC-BY-4.0"),
     contact: z.string().optional(),
   })

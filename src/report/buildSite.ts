@@ -9,6 +9,9 @@ import { InputError } from "../errors.ts";
 import { TOOL } from "../version.ts";
 import { runAudit } from "./runAudit.ts";
 import { auditPageModel, type AuditPageModel } from "./viewModel.ts";
+import { checkArchive } from "../archive/integrity.ts";
+import { sha256Of } from "../archive/digest.ts";
+import { planAuditVersions, type SiteFile } from "./versionView.ts";
 
 const PROJECT_ROOT = path.resolve(path.dirname(fileURLToPath(import.meta.url)), "..", "..");
 const TEMPLATES = path.join(PROJECT_ROOT, "templates");
@@ -28,8 +31,22 @@ export interface BrokenAudit {
 export interface BuildOutcome {
   out: string;
   index: string;
+  /** Landing page of each audit: its latest version, or its draft when none is published. */
   audits: AuditPageModel[];
+  /** One page per published version, at `<audit-id>/v<N>/`. */
+  versionPages: AuditPageModel[];
+  /** Unpublished changes since the latest version, at `<audit-id>/draft/`. */
+  draftPages: AuditPageModel[];
   broken: BrokenAudit[];
+}
+
+export interface SiteData {
+  archive: ArchiveDefinition;
+  audits: AuditPageModel[];
+  versionPages?: AuditPageModel[];
+  draftPages?: AuditPageModel[];
+  broken: BrokenAudit[];
+  files?: SiteFile[];
 }
 
 /** Audit folders under `<root>/audits`, sorted by name. */
@@ -54,7 +71,7 @@ function copyAssets(out: string): void {
 }
 
 /** Render pages with Eleventy from prepared models. */
-export async function renderSite(out: string, data: { archive: ArchiveDefinition; audits: AuditPageModel[]; broken: BrokenAudit[] }): Promise<void> {
+export async function renderSite(out: string, data: SiteData): Promise<void> {
   const elev = new Eleventy(TEMPLATES, out, {
     configPath: path.join(PROJECT_ROOT, ".eleventy.js"),
     quietMode: true,
@@ -62,12 +79,19 @@ export async function renderSite(out: string, data: { archive: ArchiveDefinition
     config: (c) => {
       c.addGlobalData("archive", data.archive);
       c.addGlobalData("audits", data.audits);
+      c.addGlobalData("versionPages", data.versionPages ?? []);
+      c.addGlobalData("draftPages", data.draftPages ?? []);
       c.addGlobalData("broken", data.broken);
       c.addGlobalData("tool", TOOL);
     },
   });
   await elev.write();
   copyAssets(out);
+  for (const f of data.files ?? []) {
+    const target = path.join(out, ...f.path.split("/"));
+    fs.mkdirSync(path.dirname(target), { recursive: true });
+    fs.writeFileSync(target, f.content);
+  }
 }
 
 /** Run every audit of an archive and render the static site. */
@@ -75,16 +99,37 @@ export async function buildSite(options: BuildOptions): Promise<BuildOutcome> {
   const archive = loadArchiveDefinition(options.root);
   const folders = findAuditFolders(options.root);
   const audits: AuditPageModel[] = [];
+  const versionPages: AuditPageModel[] = [];
+  const draftPages: AuditPageModel[] = [];
+  const files: SiteFile[] = [];
   const broken: BrokenAudit[] = [];
   for (const [i, folder] of folders.entries()) {
     options.onProgress?.(i, folders.length, path.basename(folder));
+    const folderRel = path.relative(options.root, folder).split(path.sep).join("/");
+    const stored = checkArchive(folder);
+    let current: Awaited<ReturnType<typeof runAudit>>["result"] | null = null;
     try {
-      const { result } = await runAudit(folder);
-      audits.push(auditPageModel(result));
+      current = (await runAudit(folder)).result;
     } catch (err) {
       if (!(err instanceof InputError)) throw err;
-      broken.push({ folder: path.relative(options.root, folder), error: err.message });
+      broken.push({ folder: folderRel, error: err.message });
     }
+    // Published versions stay on the site even when the current state cannot be run.
+    if (!current && stored.versions.length === 0) continue;
+    const latest = stored.versions[stored.versions.length - 1];
+    const plan = planAuditVersions({
+      id: current?.audit ?? latest.result.audit,
+      folder: folderRel,
+      versions: stored.versions,
+      problems: stored.problems,
+      current,
+      currentDefinitionDigest: current ? sha256Of(fs.readFileSync(path.join(folder, AUDIT_FILE))) : null,
+      archive,
+    });
+    audits.push(auditPageModel(plan.landing.result, plan.landing.versioning));
+    for (const v of plan.versions) versionPages.push(auditPageModel(v.result, v.versioning));
+    if (plan.draft) draftPages.push(auditPageModel(plan.draft.result, plan.draft.versioning));
+    files.push(...plan.files);
   }
   options.onProgress?.(folders.length, folders.length, "");
   const ids = new Set<string>();
@@ -93,6 +138,6 @@ export async function buildSite(options: BuildOptions): Promise<BuildOutcome> {
     ids.add(a.id);
   }
   fs.rmSync(options.out, { recursive: true, force: true });
-  await renderSite(options.out, { archive, audits, broken });
-  return { out: options.out, index: path.join(options.out, "index.html"), audits, broken };
+  await renderSite(options.out, { archive, audits, versionPages, draftPages, broken, files });
+  return { out: options.out, index: path.join(options.out, "index.html"), audits, versionPages, draftPages, broken };
 }

@@ -5,6 +5,7 @@ import { renderEquation } from "./equations.ts";
 import { renderMarkdown } from "./markdown.ts";
 import { renderPlot } from "./plots/renderPlot.ts";
 import { statusCounts, type ResultDocument } from "./resultDocument.ts";
+import type { PageVersioning } from "./versionView.ts";
 
 export const STATUS_LABEL: Record<Status, string> = {
   pass: "Pass",
@@ -62,6 +63,8 @@ export interface AuditPageModel {
   checks: CheckView[];
   datasets: ResultDocument["datasets"];
   result: ResultDocument;
+  /** Where this page sits among the published versions (absent outside a site build). */
+  versioning?: PageVersioning;
 }
 
 function formatCell(v: unknown): string {
@@ -103,16 +106,17 @@ export function checkView(c: CheckResult): CheckView {
     summary: c.summary,
     ...(c.reason ? { reason: c.reason } : {}),
     criteria: criteriaText(c.criteria),
-    assumptions: c.assumptions,
-    references: c.references,
-    equationsHtml: c.equations.map((tex) => renderEquation(tex, true)),
-    tables: c.tables.map(tableView),
-    plots: c.plots.map((p) => ({ id: `${anchor}-${p.id}`, title: p.title, alt: p.alt, svg: renderPlot(p, `${anchor}-`) })),
+    // Frozen results from older tool versions may lack members added since; show what they have.
+    assumptions: c.assumptions ?? [],
+    references: c.references ?? [],
+    equationsHtml: (c.equations ?? []).map((tex) => renderEquation(tex, true)),
+    tables: (c.tables ?? []).map(tableView),
+    plots: (c.plots ?? []).map((p) => ({ id: `${anchor}-${p.id}`, title: p.title, alt: p.alt, svg: renderPlot(p, `${anchor}-`) })),
   };
 }
 
 /** Everything a report page shows, precomputed: equations typeset, plots drawn, numbers formatted. */
-export function auditPageModel(doc: ResultDocument): AuditPageModel {
+export function auditPageModel(doc: ResultDocument, versioning?: PageVersioning): AuditPageModel {
   const seen = new Map<string, number>();
   const checks = doc.checks.map((c) => {
     const view = checkView(c);
@@ -141,5 +145,6 @@ export function auditPageModel(doc: ResultDocument): AuditPageModel {
     checks,
     datasets: doc.datasets,
     result: doc,
+    ...(versioning ? { versioning } : {}),
   };
 }

@@ -1,0 +1,30 @@
+import { initials, splitName } from "./personName.ts";
+import type { CitationSubject } from "./citationSubject.ts";
+
+function shortName(name: string): string {
+  const n = splitName(name);
+  const family = [n.particle, n.family].filter(Boolean).join(" ");
+  return n.given ? `${family}, ${initials(n.given)}` : family;
+}
+
+/** "Varga, I., Okafor, T. and Beltrão, A." */
+function authorList(names: string[]): string {
+  const parts = names.map(shortName);
+  if (parts.length <= 1) return parts.join("");
+  return `${parts.slice(0, -1).join(", ")} and ${parts[parts.length - 1]}`;
+}
+
+/**
+ * One paragraph to paste into a reference list: authors, year, title,
+ * audit id and version with its date, publisher, DOI (or address) and the
+ * fingerprint that ties the citation to exactly one result.
+ */
+export function plainCitation(s: CitationSubject): string {
+  const link = s.doi ? `https://doi.org/${s.doi}` : s.url;
+  const title = /[.?!]$/.test(s.title) ? s.title : `${s.title}.`;
+  return (
+    `${authorList(s.authors.map((a) => a.name))} (${s.date.slice(0, 4)}). ${title} ` +
+    `Transport audit ${s.auditId}, version ${s.version}, published ${s.date}. ${s.publisher}.` +
+    `${link ? ` ${link}.` : ""} Fingerprint ${s.fingerprint}.\n`
+  );
+}
