@@ -6,6 +6,7 @@ import { registerBuild } from "./commands/build.ts";
 import { registerInit } from "./commands/init.ts";
 import { registerPublish } from "./commands/publish.ts";
 import { registerVerify } from "./commands/verify.ts";
+import { registerPdf } from "./commands/pdf.ts";
 
 /** The transport-audit command line: argument parsing and exit codes only; the work lives below. */
 export async function main(argv: string[]): Promise<number> {
@@ -26,6 +27,7 @@ export async function main(argv: string[]): Promise<number> {
   registerInit(program, setExit);
   registerPublish(program, setExit);
   registerVerify(program, setExit);
+  registerPdf(program, setExit);
   try {
     await program.parseAsync(argv, { from: "user" });
   } catch (err) {

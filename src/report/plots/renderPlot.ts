@@ -4,6 +4,7 @@ import { escapeHtml } from "../escape.ts";
 import { DASHES, HATCH_CYCLE, LINE_CYCLE, MARKERS, seriesColour } from "./palette.ts";
 import { describePlot } from "./describePlot.ts";
 import { tickLabelSvg } from "./tickLabel.ts";
+import { richTextSvg } from "./richText.ts";
 
 /*
  * Geometry in SVG user units. The figure is 640 units wide and shown at most
@@ -280,7 +281,7 @@ export function renderPlot(spec: PlotSpec, idPrefix = ""): string {
   const body = [...rendered].sort((a, b) => order[a.s.type] - order[b.s.type]).map((e) => e.r.body).join("");
   const defs = rendered.map((e) => e.r.defs).join("");
   const legend = rendered
-    .map((e, k) => `<g transform="translate(0,${k * LEGEND_ROW})">${e.r.swatch}<text x="28" dy="0.34em">${escapeHtml(legendText(e.s))}</text></g>`)
+    .map((e, k) => `<g transform="translate(0,${k * LEGEND_ROW})">${e.r.swatch}<text x="28" dy="0.34em">${richTextSvg(legendText(e.s))}</text></g>`)
     .join("");
   const height = H + rendered.length * LEGEND_ROW + 6;
   const description = `${spec.alt} ${describePlot(spec, x.domain() as [number, number], y.domain() as [number, number])}`;
@@ -295,8 +296,8 @@ export function renderPlot(spec: PlotSpec, idPrefix = ""): string {
     `<rect class="frame" width="${PW}" height="${PH}" fill="none" stroke="currentColor" stroke-opacity="0.75"/>`,
     `<g class="axis x" stroke="currentColor" fill="currentColor">${xAxis}</g>`,
     `<g class="axis y" stroke="currentColor" fill="currentColor">${yAxis}</g>`,
-    `<text class="axis-title" x="${PW / 2}" y="${PH + 46}" text-anchor="middle" fill="currentColor" font-size="14">${escapeHtml(axisTitle(spec.x))}</text>`,
-    `<text class="axis-title" transform="translate(${-M.left + 18},${PH / 2}) rotate(-90)" text-anchor="middle" fill="currentColor" font-size="14">${escapeHtml(axisTitle(spec.y))}</text>`,
+    `<text class="axis-title" x="${PW / 2}" y="${PH + 46}" text-anchor="middle" fill="currentColor" font-size="14">${richTextSvg(axisTitle(spec.x))}</text>`,
+    `<text class="axis-title" transform="translate(${-M.left + 18},${PH / 2}) rotate(-90)" text-anchor="middle" fill="currentColor" font-size="14">${richTextSvg(axisTitle(spec.y))}</text>`,
     `</g>`,
     `<g class="legend" transform="translate(${M.left},${H + 8})" fill="currentColor">${legend}</g>`,
     `</svg>`,

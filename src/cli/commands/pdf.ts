@@ -1,0 +1,19 @@
+import path from "node:path";
+import type { Command } from "commander";
+import { printAuditPdf } from "../../report/pdf/printAuditPdf.ts";
+import { EXIT } from "../exit.ts";
+
+export function registerPdf(program: Command, setExit: (code: number) => void): void {
+  program
+    .command("pdf")
+    .description("print an audit's report to a PDF file through headless Chromium")
+    .argument("<audit-dir>", "folder holding audit.yaml and its data")
+    .option("--out <file>", "PDF file to write (default: <audit-id>.pdf in the current folder)")
+    .option("--chromium <file>", "Chromium executable (default: $TRANSPORT_AUDIT_CHROMIUM or /usr/bin/chromium)")
+    .action(async (dir: string, opts: { out?: string; chromium?: string }) => {
+      const outcome = await printAuditPdf({ auditDir: dir, ...(opts.out ? { out: opts.out } : {}), ...(opts.chromium ? { chromium: opts.chromium } : {}) });
+      process.stderr.write(`printed audit ${outcome.audit.id} (overall verdict: ${outcome.audit.stampLabel.toLowerCase()})\n`);
+      process.stdout.write(`${path.relative(process.cwd(), outcome.file) || outcome.file}\n`);
+      setExit(EXIT.ok);
+    });
+}
