@@ -29,6 +29,8 @@ export interface ResultProblem {
   path: string; // "values.mean_sigma"
   frozen: string;
   now: string;
+  /** For folded differences (the numbers of a plot): what differs, in words. */
+  summary?: string;
 }
 
 export interface VerifyReport {
@@ -70,18 +72,51 @@ function checkLabel(doc: ResultDocument, i: number): string {
   return c ? `check ${c.check} on ${c.dataset}` : `check #${i + 1}`;
 }
 
-/** Group leaf differences by check (or by top-level member) and word them. */
+/** Members of a check result in the order a reader wants their differences: verdict first, plot data last. */
+const MEMBER_ORDER = ["status", "summary", "reason", "values", "criteria", "tables", "assumptions", "references", "equations", "plots"];
+const TOP_ORDER = ["audit", "stamp", "fingerprint", "tool", "datasets", "settings", "checks"];
+
+function rank(order: string[], key: string | number | undefined): number {
+  const i = order.indexOf(String(key));
+  return i < 0 ? order.length : i;
+}
+
+/**
+ * Word leaf differences for a person: by check ("check second-law on pulse"),
+ * verdict and values before tables and plots, and the many numbers of one
+ * plot folded into a single line.
+ */
 function describeResultDifferences(frozen: ResultDocument, diffs: ValueDifference[], skipDigestsOf: Set<number>): ResultProblem[] {
+  const kept = diffs.filter((d) => !(d.path[0] === "datasets" && typeof d.path[1] === "number" && d.path[2] === "sha256" && skipDigestsOf.has(d.path[1])));
+  const sortKey = (d: ValueDifference): number[] =>
+    d.path[0] === "checks" && typeof d.path[1] === "number" ? [rank(TOP_ORDER, "checks"), d.path[1], rank(MEMBER_ORDER, d.path[2])] : [rank(TOP_ORDER, d.path[0]), 0, 0];
+  const ordered = kept
+    .map((d, i) => ({ d, i, k: sortKey(d) }))
+    .sort((x, y) => x.k[0] - y.k[0] || x.k[1] - y.k[1] || x.k[2] - y.k[2] || x.i - y.i)
+    .map((x) => x.d);
   const out: ResultProblem[] = [];
-  for (const d of diffs) {
+  const plotCounts = new Map<string, { problem: ResultProblem; count: number }>();
+  for (const d of ordered) {
     const [head, index, ...rest] = d.path;
-    if (head === "datasets" && typeof index === "number" && rest[0] === "sha256" && skipDigestsOf.has(index)) continue;
     if (head === "checks" && typeof index === "number") {
-      out.push({ where: checkLabel(frozen, index), path: formatPath(rest), frozen: formatValue(d.frozen), now: formatValue(d.now) });
+      const where = checkLabel(frozen, index);
+      if (rest[0] === "plots" && typeof rest[1] === "number") {
+        const key = `${index}/${rest[1]}`;
+        const entry = plotCounts.get(key);
+        if (entry) entry.count++;
+        else {
+          const problem: ResultProblem = { where, path: formatPath(rest.slice(0, 2)), frozen: "", now: "" };
+          plotCounts.set(key, { problem, count: 1 });
+          out.push(problem);
+        }
+        continue;
+      }
+      out.push({ where, path: formatPath(rest), frozen: formatValue(d.frozen), now: formatValue(d.now) });
     } else {
       out.push({ where: "document", path: formatPath(d.path), frozen: formatValue(d.frozen), now: formatValue(d.now) });
     }
   }
+  for (const { problem, count } of plotCounts.values()) problem.summary = `plot data differ in ${count} place(s)`;
   return out;
 }
 
@@ -182,7 +217,7 @@ export function formatVerifyReport(r: VerifyReport, auditDir: string): string {
   else if (r.result.length === 0) lines.push("result: identical to the frozen result document (canonical JSON, every digit)");
   else {
     lines.push(`result: ${r.result.length + r.resultMore} difference(s) from the frozen result document`);
-    for (const d of r.result) lines.push(`  ${d.where}: ${d.path}: published ${d.frozen}, re-run ${d.now}`);
+    for (const d of r.result) lines.push(d.summary ? `  ${d.where}: ${d.path}: ${d.summary}` : `  ${d.where}: ${d.path}: published ${d.frozen}, re-run ${d.now}`);
     if (r.resultMore > 0) lines.push(`  … and ${r.resultMore} more`);
   }
   lines.push(r.reproduced ? `REPRODUCED: version ${r.version} of ${r.audit}` : `NOT REPRODUCED: version ${r.version} of ${r.audit}`);
