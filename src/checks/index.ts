@@ -1,8 +1,16 @@
 import type { CheckDefinition } from "./types.ts";
 import { secondLaw } from "./second-law/secondLaw.ts";
+import { reciprocity } from "./reciprocity/reciprocity.ts";
+import { positivity } from "./positivity/positivity.ts";
+import { figuresOfMerit } from "./figures-of-merit/figuresOfMerit.ts";
+import { lorenzRatio } from "./lorenz-ratio/lorenzRatio.ts";
 
 /** Every check the tool knows, in the order the report lists them. Adding a check: one module, one line here. */
 export const CHECKS: readonly CheckDefinition[] = [
+  reciprocity,
+  positivity,
+  figuresOfMerit,
+  lorenzRatio,
   secondLaw,
 ];
 

@@ -127,3 +127,12 @@ export function thermalConductanceBound(L: readonly (readonly number[])[], T: nu
 export function lorenzNumber(c: ThermoelectricCoefficients, T: number): number {
   return c.K / (c.G * T);
 }
+
+/**
+ * Callen's matrix from one row's inputs in either form: `onsager` rows are the
+ * n×n entries in row-major order; `thermoelectric` rows are G, S, Π, K.
+ */
+export function onsagerFromInputs(form: "onsager" | "thermoelectric", values: readonly number[], T: number, n: number): Matrix {
+  if (form === "thermoelectric") return onsagerFromThermoelectric({ G: values[0], S: values[1], Pi: values[2], K: values[3] }, T);
+  return Array.from({ length: n }, (_, i) => values.slice(i * n, (i + 1) * n));
+}

@@ -1,0 +1,283 @@
+/**
+ * Positivity of entropy production in linear response: σ = Xᵀ L X ≥ 0 for
+ * every force X, i.e. the symmetric part (L + Lᵀ)/2 is positive semi-definite
+ * (second law; Onsager, Phys. Rev. 37, 405 (1931); de Groot & Mazur,
+ * Non-Equilibrium Thermodynamics (1962), ch. IV). For the charge–heat matrix
+ * this means G ≥ 0, K ≥ 0 and, with broken time reversal,
+ * K ≥ (L12 − L21)²/(4 G T³) (Benenti, Saito & Casati, PRL 106, 230602 (2011)).
+ *
+ * The tested number is the smallest eigenvalue of the diagonally normalised
+ * symmetric part, Ls_ij/√(|Ls_ii| |Ls_jj|): dimensionless, 1 − |r| for 2×2,
+ * and ≤ −1 whenever a diagonal entry is negative (that entry becomes −1), so a
+ * violation of any kind shows in the same number. Its standard uncertainty
+ * comes from seeded Monte Carlo propagation of the inputs' uncertainties
+ * (JCGM 101:2008).
+ */
+import type { CoefficientPoint, CoefficientsDataset } from "../../ingest/types.ts";
+import { symmetricPart } from "../../linalg/symmetricPart.ts";
+import { smallestEigenvalue } from "../../linalg/symmetricEigenvalues.ts";
+import { determinant } from "../../linalg/determinant.ts";
+import { onsagerFromInputs, thermalConductanceBound } from "../../physics/thermoelectric.ts";
+import { propagateUncertainty } from "../../stats/monteCarlo.ts";
+import { holm } from "../../stats/holm.ts";
+import { normalCdf, normalQuantile } from "../../stats/normal.ts";
+import type { Rng } from "../../stats/rng.ts";
+import { fmt, perDataset } from "../helpers.ts";
+import type { CheckContext, CheckDefinition, CheckResult, Status, TableSpec } from "../types.ts";
+import type { PlotSpec, Series } from "../plotSpec.ts";
+import { groupBy, pointLabel, sortedBy, sweepAxisLabel } from "../reciprocity/points.ts";
+
+/**
+ * Smallest eigenvalue of Ls_ij/√(|Ls_ii| |Ls_jj|) with Ls = (L + Lᵀ)/2. NaN
+ * when a diagonal entry is exactly zero (no scale).
+ */
+export function smallestNormalisedEigenvalue(L: readonly (readonly number[])[]): number {
+  const s = symmetricPart(L);
+  const d = s.map((row, i) => Math.sqrt(Math.abs(row[i])));
+  if (d.some((v) => !(v > 0) || !Number.isFinite(v))) return Number.NaN;
+  return smallestEigenvalue(s.map((row, i) => row.map((v, j) => v / (d[i] * d[j]))));
+}
+
+export interface PointPositivity {
+  index: number;
+  lambda: number;
+  u: number | null;
+  lower: number | null;
+  upper: number | null;
+  p: number | null;
+  pHolm: number | null;
+  rejected: boolean;
+  /** Named negative diagonal quantities, e.g. "G < 0". */
+  flags: string[];
+  /** Thermal conductance at open circuit and the broken-time-reversal bound (2×2 only). */
+  K: number | null;
+  KBound: number | null;
+}
+
+function negativeFlags(d: CoefficientsDataset, p: CoefficientPoint): string[] {
+  const flags: string[] = [];
+  if (d.form === "thermoelectric") {
+    if (p.inputs.values[0] < 0) flags.push("G < 0");
+    if (p.inputs.values[3] < 0) flags.push("K < 0");
+    if (p.L[1][1] < 0) flags.push("K + G S Π < 0");
+    return flags;
+  }
+  p.L.forEach((row, i) => {
+    if (row[i] < 0) flags.push(`L${i + 1}${i + 1} < 0`);
+  });
+  if (d.n === 2 && p.L[0][0] > 0 && determinant(p.L) < 0) flags.push("K < 0");
+  return flags;
+}
+
+/** λ_min at every row with its Monte Carlo standard uncertainty. */
+export function evaluatePoints(d: CoefficientsDataset, rng: Rng, draws: number, confidence: number): PointPositivity[] {
+  const z = normalQuantile(confidence);
+  return d.points.map((p, index) => {
+    const lambda = smallestNormalisedEigenvalue(p.L);
+    let u: number | null = null;
+    if (p.inputs.u) {
+      const mc = propagateUncertainty((x) => [smallestNormalisedEigenvalue(onsagerFromInputs(d.form, x, p.T, d.n))], p.inputs.values, p.inputs.u, rng, draws);
+      u = mc.outputs[0].sd;
+    }
+    let KValue: number | null = null;
+    let KBound: number | null = null;
+    if (d.n === 2) {
+      KValue = d.form === "thermoelectric" ? p.inputs.values[3] : determinant(p.L) / (p.T * p.T * p.L[0][0]);
+      KBound = p.L[0][0] > 0 ? thermalConductanceBound(p.L, p.T) : null;
+    }
+    const flags = negativeFlags(d, p);
+    if (KValue !== null && KBound !== null && KValue >= 0 && KValue < KBound) flags.push("K below the broken-time-reversal bound (L12 − L21)²/(4 G T³)");
+    let pValue: number | null = null;
+    if (u !== null && Number.isFinite(lambda)) {
+      // One-sided test of H0: λ_min ≥ 0 against a violation λ_min < 0.
+      pValue = u > 0 ? normalCdf(lambda / u) : lambda < 0 ? 0 : 1;
+    }
+    return {
+      index,
+      lambda,
+      u,
+      lower: u !== null ? lambda - z * u : null,
+      upper: u !== null ? lambda + z * u : null,
+      p: pValue,
+      pHolm: null,
+      rejected: false,
+      flags,
+      K: KValue,
+      KBound,
+    };
+  });
+}
+
+export function decidePositivity(d: CoefficientsDataset, pts: PointPositivity[], alpha: number, confidence: number): { status: Status; summary: string; reason?: string } {
+  const finite = pts.filter((p) => Number.isFinite(p.lambda));
+  const minLambda = finite.length ? Math.min(...finite.map((p) => p.lambda)) : Number.NaN;
+  const label = (p: PointPositivity) => pointLabel(d, d.points[p.index]);
+  const flagged = pts.filter((p) => p.flags.length > 0);
+  const flagText = flagged.length ? ` Flags: ${flagged.slice(0, 6).map((p) => `${label(p)}: ${p.flags.join(", ")}`).join("; ")}${flagged.length > 6 ? "; …" : ""}.` : "";
+  const noScale = pts.filter((p) => !Number.isFinite(p.lambda));
+  if (noScale.length === pts.length) {
+    return {
+      status: "inconclusive",
+      summary: "No row has non-zero diagonal entries, so the normalised symmetric part is undefined everywhere.",
+      reason: "A diagonal entry of exactly zero gives no scale; check the G and L22 columns.",
+    };
+  }
+  if (!d.hasUncertainties) {
+    return {
+      status: "inconclusive",
+      summary: `Smallest normalised eigenvalue ${fmt(minLambda, 3)} over ${pts.length} points, but the table gives no standard uncertainties.${flagText}`,
+      reason: "Without u_ columns neither a violation nor positivity can be established at any confidence; add a standard uncertainty for every coefficient.",
+    };
+  }
+  const tested = pts.filter((p) => p.p !== null);
+  const h = holm(tested.map((p) => p.p as number), alpha);
+  tested.forEach((p, k) => {
+    p.pHolm = h.adjusted[k];
+    p.rejected = h.rejected[k];
+  });
+  const rejected = tested.filter((p) => p.rejected);
+  if (rejected.length > 0) {
+    const worst = rejected.reduce((m, p) => ((p.pHolm as number) < (m.pHolm as number) ? p : m), rejected[0]);
+    return {
+      status: "fail",
+      summary: `The symmetric part of L is significantly not positive semi-definite at ${rejected.length} of ${pts.length} points: at ${label(worst)} the smallest normalised eigenvalue is ${fmt(worst.lambda, 3)} ± ${fmt(worst.u as number, 2)} (Holm-adjusted p = ${fmt(worst.pHolm as number, 3)} < α = ${alpha}).${flagText}`,
+    };
+  }
+  const unsure = pts.filter((p) => !(p.lower !== null && p.lower > 0));
+  if (unsure.length === 0) {
+    return {
+      status: "pass",
+      summary: `The symmetric part of L is positive definite at all ${pts.length} points at ${confidence * 100} % confidence; the smallest normalised eigenvalue is ${fmt(minLambda, 3)}.`,
+    };
+  }
+  const describe = (p: PointPositivity) =>
+    !Number.isFinite(p.lambda)
+      ? `${label(p)} (a zero diagonal entry)`
+      : p.lambda <= 0
+        ? `${label(p)} (λ = ${fmt(p.lambda, 3)} ± ${fmt(p.u as number, 2)}: at or below zero but not significantly)`
+        : `${label(p)} (λ = ${fmt(p.lambda, 3)} ± ${fmt(p.u as number, 2)}; uncertainty ${fmt(((p.u as number) * normalQuantile(confidence)) / p.lambda, 2)}× too large)`;
+  return {
+    status: "inconclusive",
+    summary: `No significant violation of positivity at ${pts.length} points, but ${unsure.length} cannot be shown positive at ${confidence * 100} % confidence.${flagText}`,
+    reason: `The ${confidence * 100} % lower bound of the smallest normalised eigenvalue is not above zero at ${unsure
+      .slice(0, 6)
+      .map(describe)
+      .join("; ")}${unsure.length > 6 ? "; …" : ""}. Smaller uncertainties there (more averaging) would settle it; a point with λ = 0 exactly (a perfectly coupled, reversible device) can never be shown positive.`,
+  };
+}
+
+function eigenvaluePlot(d: CoefficientsDataset, pts: readonly PointPositivity[], confidence: number): PlotSpec {
+  const series: Series[] = [];
+  const finite = pts.filter((p) => Number.isFinite(p.lambda));
+  for (const [name, ps] of groupBy(finite, (p) => (d.points[p.index].B !== null ? `B = ${fmt(d.points[p.index].B as number)} ${d.fieldUnit}` : "λ_min"))) {
+    const order = sortedBy(ps.map((p) => d.points[p.index].sweep));
+    const s = order.map((k) => ps[k]);
+    const x = s.map((p) => d.points[p.index].sweep);
+    if (d.hasUncertainties) series.push({ type: "band", name: `${Math.round((2 * confidence - 1) * 100)} % interval, ${name}`, x, lower: s.map((p) => p.lower as number), upper: s.map((p) => p.upper as number) });
+    series.push({ type: "points", name, x, y: s.map((p) => p.lambda), ...(d.hasUncertainties ? { yErr: s.map((p) => p.u as number) } : {}) });
+  }
+  series.push({ type: "rule", name: "positivity boundary", axis: "y", value: 0, style: "dashed" });
+  return {
+    id: "positivity-eigenvalue",
+    title: "Smallest eigenvalue of the normalised symmetric part",
+    alt: `The smallest eigenvalue of Ls_ij/√(Ls_ii Ls_jj) at each row against ${sweepAxisLabel(d)}, with its Monte Carlo band; the second law requires it to stay at or above the dashed line at zero.`,
+    x: { label: sweepAxisLabel(d) },
+    y: { label: "Smallest normalised eigenvalue λ_min", unit: "1" },
+    series,
+  };
+}
+
+function pointTable(d: CoefficientsDataset, pts: readonly PointPositivity[]): TableSpec {
+  const two = d.n === 2;
+  return {
+    id: "points",
+    title: "Positivity at each row",
+    columns: [
+      { key: "point", label: "Operating point" },
+      { key: "T", label: "T", unit: "K" },
+      { key: "lambda", label: "λ_min", unit: "1" },
+      { key: "u", label: "u(λ_min)", unit: "1" },
+      { key: "lower", label: "Lower bound", unit: "1" },
+      { key: "p_holm", label: "Holm p" },
+      ...(two ? [{ key: "K", label: "K", unit: "W/K" }, { key: "bound", label: "(L12 − L21)²/(4GT³)", unit: "W/K" }] : []),
+      { key: "flags", label: "Flags" },
+    ],
+    rows: pts.map((p) => ({
+      point: pointLabel(d, d.points[p.index]),
+      T: d.points[p.index].T,
+      lambda: Number.isFinite(p.lambda) ? p.lambda : null,
+      u: p.u,
+      lower: p.lower,
+      p_holm: p.pHolm,
+      ...(two ? { K: p.K, bound: p.KBound } : {}),
+      flags: p.flags.join("; "),
+    })),
+  };
+}
+
+export function positivityForDataset(d: CoefficientsDataset, ctx: CheckContext): CheckResult {
+  const { alpha, confidence, resamples } = ctx.settings;
+  const pts = evaluatePoints(d, ctx.rngFor(d.sha256, "positivity"), resamples, confidence);
+  const decision = decidePositivity(d, pts, alpha, confidence);
+  const finite = pts.filter((p) => Number.isFinite(p.lambda));
+  const broken = d.hasField && d.points.some((p) => p.B !== null && p.B !== 0);
+  const assumptions = [
+    "Linear response: entropy production is the quadratic form Xᵀ L X in the forces, so only the symmetric part of L enters.",
+    d.hasUncertainties
+      ? `Inputs are normally distributed and independent with the given standard uncertainties; λ_min's uncertainty is the standard deviation of ${resamples} Monte Carlo draws seeded from the data digest.`
+      : "No standard uncertainties are given.",
+    "The diagonal normalisation uses |Ls_ii|, so a negative diagonal entry appears as −1 on the diagonal and drives λ_min to −1 or below.",
+  ];
+  if (broken) assumptions.push("With B ≠ 0 the antisymmetric part of L is allowed; it enters only through the bound K ≥ (L12 − L21)²/(4 G T³), which λ_min ≥ 0 contains.");
+  if (d.kelvinAssumed) assumptions.push("Π was set from the Kelvin relation Π(B) = T S(−B) (no Pi column).");
+  const equations = [
+    String.raw`\dot S = X^{\mathsf T} L\, X = X^{\mathsf T} L^{s} X \ge 0, \qquad L^{s} = \tfrac12\,(L + L^{\mathsf T})`,
+    String.raw`\lambda_{\min}\!\left( \frac{L^{s}_{ij}}{\sqrt{L^{s}_{ii} L^{s}_{jj}}} \right) \ge 0 \quad\Longleftrightarrow\quad G \ge 0,\;\; K \ge \frac{(L_{12} - L_{21})^2}{4\, G\, T^3}`,
+  ];
+  return {
+    check: "positivity",
+    dataset: d.id,
+    status: decision.status,
+    summary: decision.summary,
+    ...(decision.reason ? { reason: decision.reason } : {}),
+    values: {
+      min_eigenvalue: finite.length ? Math.min(...finite.map((p) => p.lambda)) : null,
+      points: pts.length,
+      p_value: pts.some((p) => p.pHolm !== null) ? Math.min(...pts.filter((p) => p.pHolm !== null).map((p) => p.pHolm as number)) : null,
+      flagged: pts.filter((p) => p.flags.length > 0).map((p) => ({ row: d.points[p.index].row, flags: p.flags })),
+      per_point: pts.map((p) => ({
+        point: d.points[p.index].point,
+        B: d.points[p.index].B,
+        row: d.points[p.index].row,
+        T: d.points[p.index].T,
+        min_eigenvalue: Number.isFinite(p.lambda) ? p.lambda : null,
+        u: p.u,
+        lower: p.lower,
+        p: p.p,
+        p_holm: p.pHolm,
+        K: p.K,
+        K_bound: p.KBound,
+        flags: p.flags,
+      })),
+    },
+    criteria: { alpha, confidence },
+    assumptions,
+    references: [
+      "L. Onsager, Phys. Rev. 37, 405 (1931)",
+      "S. R. de Groot and P. Mazur, Non-Equilibrium Thermodynamics (North-Holland 1962)",
+      "G. Benenti, K. Saito and G. Casati, Phys. Rev. Lett. 106, 230602 (2011)",
+      "JCGM 101:2008, Evaluation of measurement data — Supplement 1: propagation of distributions using a Monte Carlo method",
+      "S. Holm, Scand. J. Stat. 6, 65 (1979)",
+    ],
+    equations,
+    tables: [pointTable(d, pts)],
+    plots: finite.length ? [eigenvaluePlot(d, pts, confidence)] : [],
+  };
+}
+
+export const positivity: CheckDefinition = {
+  id: "positivity",
+  title: "Positivity: the symmetric part of the Onsager matrix",
+  verdictBearing: true,
+  run: perDataset("coefficients", positivityForDataset),
+};

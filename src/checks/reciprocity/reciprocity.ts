@@ -1,0 +1,419 @@
+/**
+ * Onsager–Casimir reciprocity of linear-response coefficients:
+ * L_ij(B) = ε_i ε_j L_ji(−B) (Onsager, Phys. Rev. 37, 405 (1931); Casimir,
+ * Rev. Mod. Phys. 17, 343 (1945)); in thermoelectric form the Kelvin relation
+ * Π(B) = T S(−B). Each off-diagonal comparison gives a difference with its
+ * propagated standard uncertainty; significance is judged with Holm's
+ * correction across all comparisons (Holm 1979) and smallness with two
+ * one-sided tests against a margin (Schuirmann 1987). Requiring every
+ * comparison to be equivalent is an intersection–union test, which needs no
+ * multiplicity correction (Berger & Hsu, Stat. Sci. 11, 283 (1996)).
+ */
+import type { CoefficientsDataset } from "../../ingest/types.ts";
+import { holm } from "../../stats/holm.ts";
+import { tost } from "../../stats/tost.ts";
+import { normalQuantile, normalTwoSidedP } from "../../stats/normal.ts";
+import { fmt, numberOption, perDataset } from "../helpers.ts";
+import type { CheckContext, CheckDefinition, CheckResult, Status, TableSpec } from "../types.ts";
+import type { PlotSpec, Series } from "../plotSpec.ts";
+import { engineeringScale, groupBy, pointLabel, sortedBy, sweepAxisLabel } from "./points.ts";
+
+/** One tested relation X = Y at one operating point. */
+export interface Comparison {
+  /** Indices of the rows (a: at B, b: at −B; equal at B = 0). */
+  a: number;
+  b: number;
+  i: number;
+  j: number;
+  /** "L12(B) = L21(−B)" or "Π(B) = T S(−B)". */
+  relation: string;
+  /** Short series name for plots (the relation without the point). */
+  family: string;
+  x: number; // left side, SI
+  y: number; // right side with its parity sign, SI
+  ux: number | null;
+  uy: number | null;
+  difference: number; // x − y
+  u: number | null; // standard uncertainty of the difference
+  /** Scale of the pair: √(Ls_ii Ls_jj) (onsager) or √(L22/L11) (Kelvin form, volts); NaN when a diagonal is not positive. */
+  scale: number;
+  sweep: number;
+}
+
+export interface ComparisonResult extends Comparison {
+  z: number | null;
+  p: number | null;
+  pHolm: number | null;
+  rejected: boolean;
+  normalised: number;
+  normalisedU: number | null;
+  marginAbs: number;
+  tostP: number | null;
+  interval: [number, number] | null;
+  equivalent: boolean;
+}
+
+const sub = (i: number, j: number) => `${i + 1}${j + 1}`;
+
+/** The comparisons a dataset supports: off-diagonal entries, each +B row against its −B partner. */
+export function comparisonsOf(d: CoefficientsDataset): Comparison[] {
+  const out: Comparison[] = [];
+  for (const [a, b] of d.pairs) {
+    const pa = d.points[a];
+    const pb = d.points[b];
+    const same = a === b;
+    const T = (pa.T + pb.T) / 2;
+    for (let i = 0; i < d.n; i++) {
+      for (let j = 0; j < d.n; j++) {
+        if (i === j || (same && j < i)) continue;
+        const eps = d.parity[i] * d.parity[j];
+        const epsText = eps < 0 ? "−" : "";
+        if (d.form === "thermoelectric") {
+          // L12(B) = L21(−B) ⇔ T S(B) = Π(−B); L21(B) = L12(−B) ⇔ Π(B) = T S(−B) (G even in B).
+          const S = 1; // input order G, S, Pi, K
+          const Pi = 2;
+          const ua = pa.inputs.u;
+          const ub = pb.inputs.u;
+          const leftIsPi = i === 1;
+          const x = leftIsPi ? pa.inputs.values[Pi] : T * pa.inputs.values[S];
+          const ux = ua ? (leftIsPi ? ua[Pi] : T * ua[S]) : null;
+          const yRaw = leftIsPi ? T * pb.inputs.values[S] : pb.inputs.values[Pi];
+          const uy = ub ? (leftIsPi ? T * ub[S] : ub[Pi]) : null;
+          const y = eps * yRaw;
+          const fieldA = same ? "" : "(B)";
+          const fieldB = same ? "" : "(−B)";
+          const family = leftIsPi ? `Π${fieldA} = ${epsText}T S${fieldB}` : `T S${fieldA} = ${epsText}Π${fieldB}`;
+          const scale = (Math.sqrt(pa.L[1][1] / pa.L[0][0]) + Math.sqrt(pb.L[1][1] / pb.L[0][0])) / 2;
+          out.push({
+            a, b, i, j, relation: family, family, x, y, ux, uy,
+            difference: x - y,
+            u: ux !== null && uy !== null ? Math.hypot(ux, uy) : null,
+            scale: Number.isFinite(scale) ? scale : Number.NaN,
+            sweep: pa.sweep,
+          });
+          continue;
+        }
+        const x = pa.L[i][j];
+        const y = eps * pb.L[j][i];
+        const ux = pa.uL ? pa.uL[i][j] : null;
+        const uy = pb.uL ? pb.uL[j][i] : null;
+        const rootScale = (p: typeof pa) => (p.L[i][i] > 0 && p.L[j][j] > 0 ? Math.sqrt(p.L[i][i] * p.L[j][j]) : Number.NaN);
+        const family = same ? `L${sub(i, j)} = ${epsText}L${sub(j, i)}` : `L${sub(i, j)}(B) = ${epsText}L${sub(j, i)}(−B)`;
+        out.push({
+          a, b, i, j, relation: family, family, x, y, ux, uy,
+          difference: x - y,
+          u: ux !== null && uy !== null ? Math.hypot(ux, uy) : null,
+          scale: (rootScale(pa) + rootScale(pb)) / 2,
+          sweep: pa.sweep,
+        });
+      }
+    }
+  }
+  return out;
+}
+
+/** z-test, Holm across the family, TOST against ±margin·scale for every comparison. */
+export function testComparisons(cs: readonly Comparison[], alpha: number, confidence: number, margin: number): ComparisonResult[] {
+  const withU = cs.map((c) => {
+    if (c.u === null) return { z: null, p: null };
+    if (c.u === 0) return { z: c.difference === 0 ? 0 : Math.sign(c.difference) * Infinity, p: c.difference === 0 ? 1 : 0 };
+    const z = c.difference / c.u;
+    return { z, p: normalTwoSidedP(z) };
+  });
+  const tested = withU.map((w, k) => ({ w, k })).filter((e) => e.w.p !== null);
+  const h = holm(tested.map((e) => e.w.p as number), alpha);
+  const adjusted = new Map<number, { p: number; rejected: boolean }>();
+  tested.forEach((e, t) => adjusted.set(e.k, { p: h.adjusted[t], rejected: h.rejected[t] }));
+  const eqAlpha = 1 - confidence;
+  return cs.map((c, k) => {
+    const marginAbs = margin * c.scale;
+    const adj = adjusted.get(k);
+    let tostP: number | null = null;
+    let interval: [number, number] | null = null;
+    let equivalent = false;
+    if (c.u !== null && Number.isFinite(marginAbs) && marginAbs > 0) {
+      const t = tost({ estimate: c.difference, se: c.u, lower: -marginAbs, upper: marginAbs, alpha: eqAlpha });
+      tostP = t.p;
+      interval = t.interval;
+      equivalent = t.equivalent;
+    }
+    return {
+      ...c,
+      z: withU[k].z,
+      p: withU[k].p,
+      pHolm: adj ? adj.p : null,
+      rejected: adj ? adj.rejected : false,
+      normalised: c.difference / c.scale,
+      normalisedU: c.u !== null ? c.u / c.scale : null,
+      marginAbs,
+      tostP,
+      interval,
+      equivalent,
+    };
+  });
+}
+
+export interface ReciprocityDecision {
+  status: Status;
+  summary: string;
+  reason?: string;
+}
+
+/** The verdict from the tested comparisons and the pairing findings (physics §6). */
+export function decideReciprocity(
+  d: CoefficientsDataset,
+  results: readonly ComparisonResult[],
+  alpha: number,
+  confidence: number,
+  margin: number,
+): ReciprocityDecision {
+  const where = (r: ComparisonResult) => `${pointLabel(d, d.points[r.a])}: ${r.relation}`;
+  const blocking = d.findings.filter((f) => f.kind !== "temperature-mismatch" && !(f.kind === "duplicate" && (f.B === null || f.B === 0)));
+  const law = d.form === "thermoelectric" ? "the Kelvin relation Π(B) = T S(−B)" : "Onsager–Casimir reciprocity";
+  if (results.length === 0) {
+    return {
+      status: "inconclusive",
+      summary: `No pair of rows could be compared, so ${law} is untested.`,
+      reason: `Every row lacks a partner at the reversed field (${blocking.length} pairing finding(s)); measure each operating point at both +B and −B.`,
+    };
+  }
+  if (!d.hasUncertainties) {
+    const worst = results.reduce((m, r) => (Math.abs(r.normalised) > Math.abs(m.normalised) ? r : m), results[0]);
+    return {
+      status: "inconclusive",
+      summary: `${results.length} comparisons of ${law}; the largest normalised asymmetry is ${fmt(worst.normalised, 3)} at ${where(worst)}, but the table gives no standard uncertainties.`,
+      reason: `Without u_ columns no difference can be called significant, nor small enough to exclude a violation of ${margin * 100} % of the scale; add a standard uncertainty for every coefficient (u_${d.form === "thermoelectric" ? "G, u_S, u_Pi, u_K" : "L11, u_L12, …"}).`,
+    };
+  }
+  const rejected = results.filter((r) => r.rejected);
+  if (rejected.length > 0) {
+    const worst = rejected.reduce((m, r) => ((r.pHolm as number) < (m.pHolm as number) ? r : m), rejected[0]);
+    return {
+      status: "fail",
+      summary: `${law[0].toUpperCase()}${law.slice(1)} is violated: ${rejected.length} of ${results.length} comparisons differ significantly after Holm's correction; the strongest at ${where(worst)}, difference ${fmt(worst.normalised, 3)} of the scale, z = ${fmt(worst.z as number, 3)}, Holm-adjusted p = ${fmt(worst.pHolm as number, 3)} < α = ${alpha}.`,
+    };
+  }
+  const lacking = results.filter((r) => !r.equivalent);
+  if (lacking.length === 0 && blocking.length === 0) {
+    const maxNorm = Math.max(...results.map((r) => Math.abs(r.normalised)));
+    return {
+      status: "pass",
+      summary: `${law[0].toUpperCase()}${law.slice(1)} holds within ${margin * 100} % of the scale at every one of ${results.length} comparisons (two one-sided tests at ${confidence * 100} % confidence); the largest normalised asymmetry is ${fmt(maxNorm, 3)}.`,
+    };
+  }
+  const zq = normalQuantile(confidence);
+  const describe = (r: ComparisonResult): string => {
+    if (!Number.isFinite(r.marginAbs)) return `${where(r)} (no scale: a diagonal entry is not positive)`;
+    const room = r.marginAbs - Math.abs(r.difference);
+    if (room <= 0) return `${where(r)} (asymmetry ${fmt(r.normalised, 3)} exceeds the margin ±${margin})`;
+    const factor = ((r.u as number) * zq) / room;
+    return `${where(r)} (uncertainty ${fmt(factor, 2)}× too large)`;
+  };
+  const parts: string[] = [];
+  if (lacking.length > 0) {
+    const shown = lacking.slice(0, 6).map(describe).join("; ");
+    parts.push(`${lacking.length} of ${results.length} comparisons cannot exclude an asymmetry of ${margin * 100} % of the scale: ${shown}${lacking.length > 6 ? "; …" : ""}. Smaller uncertainties at these points (more averaging) would settle them.`);
+  }
+  if (blocking.length > 0) {
+    parts.push(`Reciprocity is untested where rows are unpaired or duplicated: ${blocking.map((f) => `row${f.rows.length > 1 ? "s" : ""} ${f.rows.join(", ")}`).join("; ")}.`);
+  }
+  return {
+    status: "inconclusive",
+    summary: `No significant violation of ${law} among ${results.length} comparisons (smallest Holm-adjusted p = ${fmt(Math.min(...results.map((r) => r.pHolm ?? 1)), 3)}), but equivalence within ${margin * 100} % is not established everywhere.`,
+    reason: parts.join(" "),
+  };
+}
+
+function identityPlot(d: CoefficientsDataset, results: readonly ComparisonResult[]): PlotSpec {
+  const kelvin = d.form === "thermoelectric";
+  const twoByTwo = d.n === 2;
+  // Onsager n > 2 mixes entries of different units: plot them normalised by their scale.
+  const norm = !kelvin && !twoByTwo;
+  const val = (r: ComparisonResult, v: number) => (norm ? v / r.scale : v);
+  const all = results.flatMap((r) => [val(r, r.x), val(r, r.y)]);
+  const { factor, prefix } = norm ? { factor: 1, prefix: "" } : engineeringScale(all);
+  const unit = norm ? undefined : kelvin ? `${prefix}V` : `${prefix}A K`;
+  const series: Series[] = [];
+  for (const [family, rs] of groupBy(results, (r) => r.family)) {
+    series.push({
+      type: "points",
+      name: family,
+      x: rs.map((r) => val(r, r.y) * factor),
+      y: rs.map((r) => val(r, r.x) * factor),
+      ...(d.hasUncertainties ? { xErr: rs.map((r) => val(r, r.uy as number) * factor), yErr: rs.map((r) => val(r, r.ux as number) * factor) } : {}),
+    });
+  }
+  const lo = Math.min(...all) * factor;
+  const hi = Math.max(...all) * factor;
+  series.push({ type: "line", name: "identity (reciprocity)", x: [lo, hi], y: [lo, hi], style: "dashed" });
+  const [xl, yl] = kelvin ? ["T S at the reversed field", "Π at the field"] : norm ? ["ε L_ji(−B)/√(Ls_ii Ls_jj)", "L_ij(B)/√(Ls_ii Ls_jj)"] : ["L21(−B)", "L12(B)"];
+  return {
+    id: "reciprocity-identity",
+    title: kelvin ? "Kelvin relation: Π(B) against T S(−B)" : "Reciprocity: L_ij(B) against L_ji(−B)",
+    alt: `Each marker is one comparison (${results.length} in all) with ${d.hasUncertainties ? "standard-uncertainty error bars" : "no error bars (no uncertainties given)"}; reciprocity puts every marker on the dashed identity line.`,
+    x: { label: xl, ...(unit ? { unit } : {}) },
+    y: { label: yl, ...(unit ? { unit } : {}) },
+    series,
+  };
+}
+
+function asymmetryPlot(d: CoefficientsDataset, results: readonly ComparisonResult[], margin: number, confidence: number): PlotSpec {
+  const series: Series[] = [];
+  for (const [family, rs] of groupBy(results, (r) => `${r.family}${d.points[r.a].B !== null ? ` at |B| = ${fmt(Math.abs(d.points[r.a].B as number))} ${d.fieldUnit}` : ""}`)) {
+    const order = sortedBy(rs.map((r) => r.sweep));
+    const s = order.map((k) => rs[k]);
+    if (d.hasUncertainties) {
+      series.push({
+        type: "band",
+        name: `${Math.round((1 - 2 * (1 - confidence)) * 100)} % interval, ${family}`,
+        x: s.map((r) => r.sweep),
+        lower: s.map((r) => (r.interval ? r.interval[0] / r.scale : r.normalised)),
+        upper: s.map((r) => (r.interval ? r.interval[1] / r.scale : r.normalised)),
+      });
+    }
+    series.push({ type: "points", name: family, x: s.map((r) => r.sweep), y: s.map((r) => r.normalised), ...(d.hasUncertainties ? { yErr: s.map((r) => r.normalisedU as number) } : {}) });
+  }
+  series.push({ type: "rule", name: `margin +${margin}`, axis: "y", value: margin, style: "dashed" });
+  series.push({ type: "rule", name: `margin −${margin}`, axis: "y", value: -margin, style: "dashed" });
+  series.push({ type: "rule", name: "reciprocity", axis: "y", value: 0, style: "dotted" });
+  return {
+    id: "reciprocity-asymmetry",
+    title: "Normalised asymmetry across the sweep",
+    alt: `The difference of each compared pair divided by its scale √(Ls_ii Ls_jj), against ${sweepAxisLabel(d)}, with the interval used by the equivalence test; reciprocity is established where the whole interval lies between the dashed margins ±${margin}.`,
+    x: { label: sweepAxisLabel(d) },
+    y: { label: "Normalised asymmetry", unit: "1" },
+    series,
+  };
+}
+
+function comparisonTable(d: CoefficientsDataset, results: readonly ComparisonResult[]): TableSpec {
+  const kelvin = d.form === "thermoelectric";
+  return {
+    id: "comparisons",
+    title: kelvin ? "Kelvin relation at each operating point" : "Reciprocity at each operating point",
+    columns: [
+      { key: "point", label: "Operating point" },
+      { key: "relation", label: "Relation" },
+      { key: "x", label: "Left side", unit: kelvin ? "V" : "SI" },
+      { key: "y", label: "Right side", unit: kelvin ? "V" : "SI" },
+      { key: "u", label: "u(difference)", unit: kelvin ? "V" : "SI" },
+      { key: "normalised", label: "Asymmetry / scale", unit: "1" },
+      { key: "z", label: "z" },
+      { key: "p_holm", label: "Holm p" },
+      { key: "tost_p", label: "TOST p" },
+      { key: "equivalent", label: "Within margin" },
+    ],
+    rows: results.map((r) => ({
+      point: pointLabel(d, d.points[r.a]),
+      relation: r.relation,
+      x: r.x,
+      y: r.y,
+      u: r.u,
+      normalised: r.normalised,
+      z: r.z,
+      p_holm: r.pHolm,
+      tost_p: r.tostP,
+      equivalent: r.equivalent,
+    })),
+  };
+}
+
+const REFERENCES = [
+  "L. Onsager, Phys. Rev. 37, 405 (1931)",
+  "H. B. G. Casimir, Rev. Mod. Phys. 17, 343 (1945)",
+  "H. B. Callen, Phys. Rev. 73, 1349 (1948)",
+  "S. Holm, Scand. J. Stat. 6, 65 (1979)",
+  "D. J. Schuirmann, J. Pharmacokinet. Biopharm. 15, 657 (1987)",
+  "R. L. Berger and J. C. Hsu, Stat. Sci. 11, 283 (1996)",
+];
+
+export function reciprocityForDataset(d: CoefficientsDataset, ctx: CheckContext): CheckResult {
+  const { alpha, confidence } = ctx.settings;
+  const margin = numberOption(ctx, "margin", ctx.settings.margin, (v) => v > 0 && v < 1);
+  const base = {
+    check: "reciprocity" as const,
+    dataset: d.id,
+    criteria: { alpha, margin, confidence },
+    references: REFERENCES,
+  };
+  const equations =
+    d.form === "thermoelectric"
+      ? [String.raw`\Pi(B) = T\,S(-B) \qquad \Longleftrightarrow \qquad L_{21}(B) = L_{12}(-B)`, String.raw`L_{12} = G S T^2, \qquad L_{21} = G \Pi T`]
+      : [String.raw`L_{ij}(B) = \varepsilon_i \varepsilon_j\, L_{ji}(-B)`];
+  equations.push(
+    String.raw`z = \frac{X - Y}{\sqrt{u_X^2 + u_Y^2}}, \qquad \text{margin: } |X - Y| < m \sqrt{L^{s}_{ii} L^{s}_{jj}}`,
+  );
+  if (d.kelvinAssumed) {
+    return {
+      ...base,
+      status: "not-applicable",
+      summary: "Not applicable: the table has no Pi column, so Π was derived from the Kelvin relation and cannot test it.",
+      reason: "Add the measured Peltier coefficient (column Pi, with u_Pi) to test the Kelvin relation Π(B) = T S(−B).",
+      values: { pairs: 0, max_abs_z: null, p_value: null },
+      assumptions: [],
+      equations,
+      tables: [],
+      plots: [],
+    };
+  }
+  const results = testComparisons(comparisonsOf(d), alpha, confidence, margin);
+  const decision = decideReciprocity(d, results, alpha, confidence, margin);
+  const zs = results.map((r) => r.z).filter((z): z is number => z !== null);
+  const ps = results.map((r) => r.pHolm).filter((p): p is number => p !== null);
+  const parityText = d.parity.every((e) => e === 1) ? "every flux even under time reversal (ε = +1: charge and heat)" : `time-reversal parities ε = (${d.parity.join(", ")}) as declared`;
+  const assumptions = [
+    `Linear response: the coefficients describe currents linear in the forces ΔV/T and ΔT/T² (Callen's charge–heat form), with ${parityText}.`,
+    d.hasField
+      ? `Rows at +B are paired with the row at −B of the same operating point (${d.config.point.length ? d.config.point.join(", ") : "no point columns: all rows at one point"}); rows at B = 0 are compared with themselves.`
+      : "No field column: every row is taken at zero magnetic field (time-reversal symmetric), so L_ij = L_ji at each row.",
+    "The standard uncertainties of different entries are independent (no covariance columns), and the compared quantities are normally distributed.",
+    `The scale of a pair is √(Ls_ii Ls_jj) of the symmetric part (the largest off-diagonal entry positivity allows), averaged over the two rows; the margin is ${margin} of it.`,
+  ];
+  if (d.form === "thermoelectric") assumptions.push("The conductance is even in the field, G(B) = G(−B), so L21(B) = L12(−B) reduces to Π(B) = T S(−B).");
+  for (const f of d.findings) assumptions.push(`Pairing: ${f.message}.`);
+  return {
+    ...base,
+    status: decision.status,
+    summary: decision.summary,
+    ...(decision.reason ? { reason: decision.reason } : {}),
+    values: {
+      max_abs_z: zs.length ? Math.max(...zs.map(Math.abs)) : null,
+      p_value: ps.length ? Math.min(...ps) : null,
+      pairs: results.length,
+      form: d.form,
+      relation: d.form === "thermoelectric" ? "Pi(B) = T S(-B)" : "L_ij(B) = eps_i eps_j L_ji(-B)",
+      max_abs_normalised_asymmetry: results.length ? Math.max(...results.map((r) => Math.abs(r.normalised))) : null,
+      unpaired_rows: d.findings.filter((f) => f.kind === "unpaired").flatMap((f) => f.rows),
+      duplicate_rows: d.findings.filter((f) => f.kind === "duplicate").flatMap((f) => f.rows),
+      comparisons: results.map((r) => ({
+        point: d.points[r.a].point,
+        B: d.points[r.a].B,
+        rows: r.a === r.b ? [d.points[r.a].row] : [d.points[r.a].row, d.points[r.b].row],
+        relation: r.relation,
+        left: r.x,
+        right: r.y,
+        difference: r.difference,
+        u: r.u,
+        z: r.z,
+        p: r.p,
+        p_holm: r.pHolm,
+        normalised: r.normalised,
+        normalised_u: r.normalisedU,
+        margin: r.marginAbs,
+        tost_p: r.tostP,
+        equivalent: r.equivalent,
+      })),
+    },
+    assumptions,
+    equations,
+    tables: results.length ? [comparisonTable(d, results)] : [],
+    plots: results.length ? [identityPlot(d, results), asymmetryPlot(d, results, margin, confidence)] : [],
+  };
+}
+
+export const reciprocity: CheckDefinition = {
+  id: "reciprocity",
+  title: "Reciprocity: Onsager–Casimir relations and the Kelvin relation",
+  verdictBearing: true,
+  run: perDataset("coefficients", reciprocityForDataset),
+};
