@@ -1,5 +1,7 @@
 import type { CheckDefinition } from "./types.ts";
 import { secondLaw } from "./second-law/secondLaw.ts";
+import { fluctuationDissipation } from "./fluctuation-dissipation/fluctuationDissipation.ts";
+import { linearGrowth } from "./linear-growth/linearGrowth.ts";
 import { reciprocity } from "./reciprocity/reciprocity.ts";
 import { positivity } from "./positivity/positivity.ts";
 import { figuresOfMerit } from "./figures-of-merit/figuresOfMerit.ts";
@@ -12,6 +14,8 @@ export const CHECKS: readonly CheckDefinition[] = [
   figuresOfMerit,
   lorenzRatio,
   secondLaw,
+  fluctuationDissipation,
+  linearGrowth,
 ];
 
 export * from "./types.ts";
