@@ -19,6 +19,38 @@ function reservoirState(r: SamplesDatasetConfig["reservoirs"]["A"], joules: numb
   return r.T !== undefined ? reservoirFromTemperature(r.T, mu) : reservoirFromBeta(r.beta! / joules, mu);
 }
 
+const MAX_REPORTED = 20;
+
+/**
+ * Rows where a given column disagrees with the value derived from dE_A and dE_B
+ * by more than the rounding of a printed number (1e-6 of the largest energy in
+ * the row): redundant columns must tell the same story.
+ */
+function disagreements(
+  given: Float64Array,
+  derived: Float64Array,
+  dE_A: Float64Array,
+  dE_B: Float64Array,
+  file: string,
+  column: string,
+  formula: string,
+  lineOfRow: Uint32Array,
+): string[] {
+  const out: string[] = [];
+  let total = 0;
+  for (let i = 0; i < given.length; i++) {
+    const scale = Math.max(Math.abs(dE_A[i]), Math.abs(dE_B[i]), Math.abs(given[i]));
+    if (Math.abs(given[i] - derived[i]) > 1e-6 * scale) {
+      total++;
+      if (out.length < MAX_REPORTED) {
+        out.push(`${file}:${lineOfRow[i]}, column "${column}": disagrees with ${formula} from the dE_A and dE_B columns of the same row; map either the column or the energy changes, or correct the row`);
+      }
+    }
+  }
+  if (total > MAX_REPORTED) out.push(`… and ${total - MAX_REPORTED} more row(s) in ${file}`);
+  return out;
+}
+
 /**
  * Ingest a `samples` dataset: map roles to columns, convert energies to J,
  * derive W and Q from dE_A, dE_B where given, and compute the entropy
@@ -49,16 +81,25 @@ export async function loadSamples(config: SamplesDatasetConfig, filePath: string
   const rows = table.rows;
   const dE_A = scaled(col("dE_A"), joules);
   const dE_B = scaled(col("dE_B"), joules);
-  let Q = scaled(col("Q"), joules);
-  if (!Q) {
-    Q = new Float64Array(rows);
-    for (let i = 0; i < rows; i++) Q[i] = (dE_B![i] - dE_A![i]) / 2;
+  let derivedQ: Float64Array | null = null;
+  let derivedW: Float64Array | null = null;
+  if (dE_A && dE_B) {
+    // physics: W = dE_A + dE_B (switching work), Q = (dE_B − dE_A)/2 (symmetric split).
+    derivedQ = new Float64Array(rows);
+    derivedW = new Float64Array(rows);
+    for (let i = 0; i < rows; i++) {
+      derivedQ[i] = (dE_B[i] - dE_A[i]) / 2;
+      derivedW[i] = dE_A[i] + dE_B[i];
+    }
   }
-  let W_data = scaled(col("W"), joules);
-  if (!W_data && dE_A && dE_B) {
-    W_data = new Float64Array(rows);
-    for (let i = 0; i < rows; i++) W_data[i] = dE_A[i] + dE_B[i];
-  }
+  const givenQ = scaled(col("Q"), joules);
+  const givenW = scaled(col("W"), joules);
+  const problems: string[] = [];
+  if (givenQ && derivedQ) problems.push(...disagreements(givenQ, derivedQ, dE_A!, dE_B!, config.file, roles.Q!, "(dE_B − dE_A)/2", table.lineOfRow));
+  if (givenW && derivedW) problems.push(...disagreements(givenW, derivedW, dE_A!, dE_B!, config.file, roles.W!, "dE_A + dE_B", table.lineOfRow));
+  if (problems.length) throw new DataError(problems.join("\n"));
+  const Q = givenQ ?? derivedQ!;
+  const W_data = givenW ?? derivedW;
   const W = config.work === "zero" ? new Float64Array(rows) : W_data!;
   const dNraw = col("dN");
   const dN = dNraw ? Float64Array.from(dNraw) : new Float64Array(rows);
@@ -72,7 +113,7 @@ export async function loadSamples(config: SamplesDatasetConfig, filePath: string
     for (let i = 0; i < rows; i++) {
       const c = counts[i];
       if (c < 0 || !Number.isInteger(c)) {
-        if (bad.length < 20) bad.push(`${config.file}:${table.lineOfRow[i]}, column "${roles.count}": expected a count (a whole number ≥ 0), found ${c}`);
+        if (bad.length < MAX_REPORTED) bad.push(`${config.file}:${table.lineOfRow[i]}, column "${roles.count}": expected a count (a whole number ≥ 0), found ${c}`);
       }
       realisations += c;
     }

@@ -16,3 +16,4 @@ export * from "./chiSquare.ts";
 export * from "./poissonDeviate.ts";
 export * from "./bootstrap.ts";
 export * from "./logisticFit.ts";
+export * from "./tailShape.ts";

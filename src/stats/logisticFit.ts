@@ -41,6 +41,8 @@ export interface LogisticFit {
   scales: number[];
 }
 
+const CONVERGED = 1e-8;
+
 export interface LogisticOptions {
   maxIterations?: number;
 }
@@ -131,6 +133,23 @@ function failed(status: LogisticStatus, p: number, message: string, eta: Float64
   };
 }
 
+function convergedFit(beta: number[], info: number[][], scales: number[], ll: number, iterations: number, eta: Float64Array, weight: ArrayLike<number> | null): LogisticFit {
+  const p = beta.length;
+  const cov = new CholeskyDecomposition(new Matrix(info)).solve(Matrix.eye(p)).to2DArray();
+  const covariance = cov.map((row, j) => row.map((c, k) => c / (scales[j] * scales[k])));
+  return {
+    status: "converged",
+    coefficients: beta.map((b, j) => b / scales[j]),
+    standardErrors: covariance.map((row, j) => Math.sqrt(row[j])),
+    covariance,
+    logLikelihood: ll,
+    iterations,
+    negativeWeight: negativeWeightOf(eta, weight).negative,
+    eta,
+    scales,
+  };
+}
+
 /**
  * Fit θ in ln P(z)/P(−z) = Σ_j θ_j z_j. `features[j][i]` is feature j of row i;
  * `weight` the multiplicity of each row (histograms) or null.
@@ -157,34 +176,26 @@ export function fitExchangeLogistic(features: ArrayLike<number>[], weight: Array
     }
     const step = chol.solve(Matrix.columnVector(grad)).to1DArray();
     const decrement = step.reduce((acc, s, j) => acc + s * grad[j], 0); // Newton decrement squared
-    if (decrement / 2 < 1e-12) {
-      const cov = new CholeskyDecomposition(new Matrix(info)).solve(Matrix.eye(p)).to2DArray();
-      const covariance = cov.map((row, j) => row.map((c, k) => c / (scales[j] * scales[k])));
-      const nw = negativeWeightOf(eta, weight);
-      return {
-        status: "converged",
-        coefficients: beta.map((b, j) => b / scales[j]),
-        standardErrors: covariance.map((row, j) => Math.sqrt(row[j])),
-        covariance,
-        logLikelihood: ll,
-        iterations: it,
-        negativeWeight: nw.negative,
-        eta,
-        scales,
-      };
+    // λ²/2 approximates the log-likelihood still to gain; 1e-8 moves θ by ~1e-4 standard errors.
+    if (decrement / 2 < CONVERGED) {
+      return convergedFit(beta, info, scales, ll, it, eta, weight);
     }
     // Armijo backtracking: accept t when ll rises by at least 1e-4 t·(grad·step).
     let t = 1;
     let next = beta;
     let llNext = -Infinity;
-    for (let k = 0; k < 60; k++) {
+    for (let k = 0; k < 40; k++) {
       next = beta.map((b, j) => b + t * step[j]);
       linearPredictor(features, scales, next, trial);
       llNext = logLikelihood(trial, weight);
       if (llNext >= ll + 1e-4 * t * decrement) break;
       t /= 2;
     }
-    if (!(llNext >= ll)) break; // no ascent possible in floating point: stop with what we have
+    if (!(llNext >= ll)) {
+      // No ascent possible in floating point: at the optimum if the remaining gain is far below one unit of log-likelihood.
+      if (decrement / 2 < 1e-4) return convergedFit(beta, info, scales, ll, it, eta, weight);
+      break;
+    }
     beta = next;
     eta.set(trial);
     ll = llNext;

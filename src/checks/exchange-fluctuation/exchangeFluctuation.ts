@@ -1,0 +1,276 @@
+import type { SamplesDataset } from "../../ingest/types.ts";
+import { effectiveReservoirs, type FittedAffinities } from "../../physics/affinities.ts";
+import { fitExchangeLogistic, logisticScoreTest, type LogisticFit } from "../../stats/logisticFit.ts";
+import { normalQuantile, normalTwoSidedP } from "../../stats/normal.ts";
+import { holm } from "../../stats/holm.ts";
+import { fmt, fmtInterval, numberOption, perDataset } from "../helpers.ts";
+import type { CheckContext, CheckDefinition, CheckResult, Status, TableSpec } from "../types.ts";
+import { binnedLogRatio, type LogRatio } from "./binnedLogRatio.ts";
+import { jointHistogramPlot, logRatioPlot, mirrorHistogramPlot } from "./plots.ts";
+
+/** Fewer negative-Σ realisations than this cannot pin the slope (the rare side carries the information). */
+export const MIN_NEGATIVE = 20;
+/** Fewer realisations than this: no verdict at all. */
+export const MIN_REALISATIONS = 100;
+
+export const REFERENCES = [
+  "C. Jarzynski and D. K. Wójcik, Phys. Rev. Lett. 92, 230602 (2004)",
+  "D. Andrieux, P. Gaspard, T. Monnai and S. Tasaki, New J. Phys. 11, 043014 (2009)",
+  "M. Campisi, P. Hänggi and P. Talkner, Rev. Mod. Phys. 83, 771 (2011)",
+  "M. Esposito, U. Harbola and S. Mukamel, Rev. Mod. Phys. 81, 1665 (2009)",
+  "M. R. Shirts, E. Bair, G. Hooker and V. S. Pande, Phys. Rev. Lett. 91, 140601 (2003)",
+  "K. Saito and Y. Utsumi, Phys. Rev. B 78, 115429 (2008)",
+  "S. Holm, Scand. J. Stat. 6, 65 (1979)",
+];
+
+export const EQUATIONS = [
+  String.raw`\frac{P(W, Q, \Delta N)}{P(-W, -Q, -\Delta N)} = e^{\Sigma}, \qquad \Sigma = \bar\beta\, W + a_Q\, Q + a_N\, \Delta N`,
+  String.raw`\ln\frac{P(\Sigma)}{P(-\Sigma)} = c\,\Sigma, \qquad c = 1`,
+  String.raw`\hat\theta = \arg\max_{\theta} \sum_i w_i \ln \frac{1}{1 + e^{-\theta\cdot z_i}}, \qquad z = (W, Q, \Delta N),\; \theta = (\bar\beta, a_Q, a_N)`,
+];
+
+interface Channel {
+  key: "beta_bar" | "a_Q" | "a_N";
+  label: string;
+  feature: Float64Array;
+  declared: number;
+  unit: string;
+}
+
+/** Channels that vary in the data and so can be fitted; W only when work is measured. */
+function channelsOf(d: SamplesDataset): Channel[] {
+  const nonzero = (x: Float64Array) => x.some((v) => v !== 0);
+  const out: Channel[] = [];
+  if (d.config.work === "measured" && nonzero(d.W)) out.push({ key: "beta_bar", label: "β̄ (work)", feature: d.W, declared: d.affinity.beta_bar, unit: "1/J" });
+  if (nonzero(d.Q)) out.push({ key: "a_Q", label: "a_Q (heat)", feature: d.Q, declared: d.affinity.a_Q, unit: "1/J" });
+  if (nonzero(d.dN)) out.push({ key: "a_N", label: "a_N (particles)", feature: d.dN, declared: d.affinity.a_N, unit: "1" });
+  return out;
+}
+
+function cubed(x: Float64Array): Float64Array {
+  const out = new Float64Array(x.length);
+  for (let i = 0; i < x.length; i++) out[i] = x[i] * x[i] * x[i];
+  return out;
+}
+
+function base(d: SamplesDataset): Pick<CheckResult, "check" | "dataset" | "references" | "equations"> {
+  return { check: "exchange-fluctuation", dataset: d.id, references: REFERENCES, equations: EQUATIONS };
+}
+
+export function assumptionsFor(d: SamplesDataset): string[] {
+  const out = [
+    "Both reservoirs start in independent grand-canonical states at the declared temperatures and chemical potentials.",
+    "Energies and particle numbers are two-point measurements of the isolated reservoirs (before and after the contact).",
+    "The switching protocol is time-reversal symmetric and there is no magnetic field (or it is reversed in the backward process).",
+    "Realisations are independent and identically prepared.",
+  ];
+  out.push(d.config.work === "zero" ? "The switching work is declared zero (W = 0 in every realisation)." : "The switching work W is measured and enters Σ.");
+  if (!d.hasParticleColumn) out.push("No particle-number column: no particles are exchanged (ΔN = 0).");
+  return out;
+}
+
+function notApplicable(d: SamplesDataset, reason: string): CheckResult {
+  return {
+    ...base(d),
+    status: "not-applicable",
+    summary: `Not applicable: ${reason}`,
+    reason,
+    values: {},
+    criteria: {},
+    assumptions: assumptionsFor(d),
+    tables: [],
+    plots: [],
+  };
+}
+
+interface Test {
+  name: string;
+  p: number;
+  describe: string;
+}
+
+export function exchangeFluctuationForDataset(d: SamplesDataset, ctx: CheckContext): CheckResult {
+  const field = d.config.field ?? 0;
+  if (field !== 0) {
+    return notApplicable(
+      d,
+      `the dataset was taken at a magnetic field of ${fmt(field)} T; the detailed exchange relation links the process at B to the one at −B (Saito & Utsumi 2008), so a single dataset at B ≠ 0 cannot test it. The integral relation still applies.`,
+    );
+  }
+  const { alpha, confidence } = ctx.settings;
+  const margin = numberOption(ctx, "margin", ctx.settings.margin, (v) => v > 0);
+  const minBinCount = numberOption(ctx, "min_bin_count", 10, (v) => Number.isInteger(v) && v >= 5);
+  const z = normalQuantile(1 - (1 - confidence) / 2);
+  const n = d.realisations;
+  const weight = d.weight;
+  const sigma = d.sigma;
+
+  let negative = 0;
+  let positive = 0;
+  for (let i = 0; i < sigma.length; i++) {
+    const w = weight ? weight[i] : 1;
+    if (sigma[i] < 0) negative += w;
+    else if (sigma[i] > 0) positive += w;
+  }
+
+  // (1) Contracted relation: slope c of ln P(Σ)/P(−Σ), fitted without bins.
+  const sigmaVaries = negative + positive > 0;
+  const contracted: LogisticFit | null = sigmaVaries ? fitExchangeLogistic([sigma], weight) : null;
+  const slopeOk = contracted?.status === "converged";
+  const slope = slopeOk ? contracted!.coefficients[0] : Number.NaN;
+  const slopeSe = slopeOk ? contracted!.standardErrors[0] : Number.NaN;
+  const slopeCi: [number, number] = [slope - z * slopeSe, slope + z * slopeSe];
+  const cubic = slopeOk ? logisticScoreTest(contracted!, [sigma], [cubed(sigma)], weight) : null;
+  const ratio: LogRatio = binnedLogRatio(sigma, weight, minBinCount);
+
+  // (2) Joint relation: the coefficients of (W, Q, ΔN).
+  const channels = channelsOf(d);
+  const joint = channels.length ? fitExchangeLogistic(channels.map((c) => c.feature), weight) : null;
+  const jointOk = joint?.status === "converged";
+  const fitted: FittedAffinities = { beta_bar: null, a_Q: null, a_N: null };
+  const coefficientRows: TableSpec["rows"] = [];
+  const tests: Test[] = [];
+  if (slopeOk) tests.push({ name: "slope", p: normalTwoSidedP((slope - 1) / slopeSe), describe: `slope ${fmt(slope)} ≠ 1` });
+  if (jointOk) {
+    channels.forEach((c, j) => {
+      const est = joint!.coefficients[j];
+      const se = joint!.standardErrors[j];
+      fitted[c.key] = est;
+      const p = normalTwoSidedP((est - c.declared) / se);
+      tests.push({ name: c.key, p, describe: `fitted ${c.key} = ${fmt(est)} ${c.unit} differs from the declared ${fmt(c.declared)} ${c.unit}` });
+      coefficientRows.push({ coefficient: c.label, declared: c.declared, fitted: est, se, z: (est - c.declared) / se, p });
+    });
+  }
+  if (ratio.dof > 0) tests.push({ name: "binned", p: ratio.pValue, describe: `the binned log-ratio departs from the line y = Σ (χ² = ${fmt(ratio.chiSquare)}, ${ratio.dof} bins)` });
+  if (cubic && Number.isFinite(cubic.pValue)) tests.push({ name: "cubic", p: cubic.pValue, describe: "a cubic term in ln P(Σ)/P(−Σ) is significant (the ratio is not exponential in Σ)" });
+  const family = holm(tests.map((t) => t.p), alpha);
+  tests.forEach((t, k) => {
+    const row = coefficientRows.find((r) => r.coefficient === channels.find((c) => c.key === t.name)?.label);
+    if (row) row.p_holm = family.adjusted[k];
+  });
+  const effective = effectiveReservoirs(d.reservoirs.A, d.reservoirs.B, fitted);
+
+  const rejected = tests.filter((_, k) => family.rejected[k]);
+  let status: Status;
+  let summary: string;
+  let reason: string | undefined;
+  const effectiveText = describeEffective(d, effective);
+  if (n < MIN_REALISATIONS) {
+    status = "inconclusive";
+    summary = `Only ${n} realisations: too few to test the exchange relation.`;
+    reason = `At least ${MIN_REALISATIONS} realisations, ${MIN_NEGATIVE} of them with Σ < 0, are needed; record more runs.`;
+  } else if (rejected.length > 0) {
+    status = "fail";
+    summary = `The exchange fluctuation relation is violated: ${rejected.map((t) => t.describe).join("; ")} (Holm-adjusted p ≤ ${alpha}).${effectiveText}`;
+  } else if (!sigmaVaries) {
+    status = "inconclusive";
+    summary = "Σ is zero in every realisation, so the contracted relation P(Σ)/P(−Σ) = e^Σ says nothing.";
+    reason = "The declared affinities make Σ vanish (or no energy or particles were exchanged); the relation is tested by data with non-zero Σ.";
+  } else if (negative < MIN_NEGATIVE || contracted?.status === "separable") {
+    status = "inconclusive";
+    summary = `Only ${fmt(negative)} of ${n} realisations have Σ < 0: too few to estimate the slope of ln P(Σ)/P(−Σ).`;
+    reason = `At least ${MIN_NEGATIVE} realisations with negative Σ are needed; a shorter contact time or smaller affinities make them more frequent, or record about ${Math.ceil((MIN_NEGATIVE / Math.max(negative, 0.5)) * n).toLocaleString("en")} runs.`;
+  } else if (!slopeOk) {
+    status = "inconclusive";
+    summary = "The slope of ln P(Σ)/P(−Σ) could not be estimated.";
+    reason = `${contracted?.message ?? "The fit failed"}; please report this dataset if it has many realisations of both signs.`;
+  } else if (channels.length > 0 && !jointOk) {
+    status = "inconclusive";
+    summary = `The slope ${fmt(slope)} with ${confidence * 100}% interval ${fmtInterval(slopeCi[0], slopeCi[1])} is consistent with 1, but the coefficients of (W, Q, ΔN) could not be fitted.`;
+    reason = `${joint?.message ?? "joint fit failed"}; more realisations with opposite signs in each channel would allow the joint test.`;
+  } else if (slopeCi[0] >= 1 - margin && slopeCi[1] <= 1 + margin) {
+    status = "pass";
+    summary = `The slope of ln P(Σ)/P(−Σ) is ${fmt(slope)}, ${confidence * 100}% interval ${fmtInterval(slopeCi[0], slopeCi[1])} within 1 ± ${margin}, and no fitted coefficient differs significantly from its declared value.${effectiveText}`;
+  } else {
+    status = "inconclusive";
+    const half = (slopeCi[1] - slopeCi[0]) / 2;
+    const needed = Math.ceil(n * (half / margin) ** 2);
+    summary = `No significant violation, but the slope's ${confidence * 100}% interval ${fmtInterval(slopeCi[0], slopeCi[1])} is wider than 1 ± ${margin}.`;
+    reason = `The slope is known to ±${fmt(half, 2)}; about ${needed.toLocaleString("en")} realisations at this spread would resolve the margin of ${margin}.`;
+  }
+
+  const declaredTemps = { T_A: d.reservoirs.A.T, T_B: d.reservoirs.B.T, delta_mu: d.reservoirs.A.mu - d.reservoirs.B.mu };
+  return {
+    ...base(d),
+    status,
+    summary,
+    ...(reason ? { reason } : {}),
+    values: {
+      slope,
+      slope_ci: slopeCi,
+      slope_standard_error: slopeSe,
+      effective_affinity: { a_Q: fitted.a_Q, a_N: fitted.a_N, ...(fitted.beta_bar !== null ? { beta_bar: fitted.beta_bar } : {}) },
+      effective_affinity_standard_error: Object.fromEntries(channels.map((c, j) => [c.key, jointOk ? joint!.standardErrors[j] : null])),
+      declared_affinity: { a_Q: d.affinity.a_Q, a_N: d.affinity.a_N, beta_bar: d.affinity.beta_bar },
+      effective_reservoirs: effective,
+      declared_reservoirs: declaredTemps,
+      bins_used: ratio.bins.length,
+      binned_chi_square: ratio.dof > 0 ? { statistic: ratio.chiSquare, dof: ratio.dof, p_value: ratio.pValue, exact_values: ratio.discrete } : null,
+      cubic_score_test: cubic && Number.isFinite(cubic.pValue) ? { statistic: cubic.statistic, dof: cubic.dof, p_value: cubic.pValue } : null,
+      tests: tests.map((t, k) => ({ test: t.name, p_value: t.p, p_holm: family.adjusted[k], rejected: family.rejected[k] })),
+      realisations: n,
+      negative_sigma: negative,
+    },
+    criteria: { alpha, margin, confidence },
+    assumptions: assumptionsFor(d),
+    tables: [
+      {
+        id: "coefficients",
+        title: "Fitted coefficients of ln P(z)/P(−z) = θ·z next to the declared ones",
+        columns: [
+          { key: "coefficient", label: "Coefficient" },
+          { key: "declared", label: "Declared" },
+          { key: "fitted", label: "Fitted" },
+          { key: "se", label: "Standard error" },
+          { key: "z", label: "z" },
+          { key: "p", label: "p" },
+          { key: "p_holm", label: "p (Holm)" },
+        ],
+        rows: coefficientRows,
+      },
+      {
+        id: "effective-reservoirs",
+        title: "Reservoir state implied by the fit, next to the declared one",
+        columns: [
+          { key: "quantity", label: "Quantity" },
+          { key: "declared", label: "Declared" },
+          { key: "effective", label: "From the fit" },
+          { key: "unit", label: "Unit" },
+        ],
+        rows: [
+          { quantity: "T_A", declared: d.reservoirs.A.T, effective: channels.some((c) => c.key === "a_Q") ? effective.T_A : null, unit: "K" },
+          { quantity: "T_B", declared: d.reservoirs.B.T, effective: channels.some((c) => c.key === "a_Q") ? effective.T_B : null, unit: "K" },
+          { quantity: "μ_A − μ_B", declared: declaredTemps.delta_mu, effective: effective.delta_mu, unit: "J" },
+          ...(effective.T_particles !== null ? [{ quantity: "T from particle counting", declared: d.reservoirs.A.T, effective: effective.T_particles, unit: "K" }] : []),
+        ],
+      },
+    ],
+    plots: [
+      mirrorHistogramPlot(d),
+      logRatioPlot(ratio, slopeOk ? slope : null),
+      ...(d.hasParticleColumn && channels.some((c) => c.key === "a_N") ? [jointHistogramPlot(d)] : []),
+    ],
+  };
+}
+
+function describeEffective(d: SamplesDataset, e: ReturnType<typeof effectiveReservoirs>): string {
+  const parts: string[] = [];
+  if (e.basis === "both-fitted" && e.T_A !== null && e.T_B !== null) {
+    parts.push(`effective temperatures T_A = ${fmt(e.T_A)} K, T_B = ${fmt(e.T_B)} K (declared ${fmt(d.reservoirs.A.T)} K, ${fmt(d.reservoirs.B.T)} K)`);
+  } else if (e.basis === "other-held-at-declared") {
+    if (e.T_A !== null) parts.push(`effective T_A = ${fmt(e.T_A)} K with T_B as declared (declared T_A = ${fmt(d.reservoirs.A.T)} K)`);
+  }
+  if (e.T_particles !== null) parts.push(`the particle counting shows an effective temperature of ${fmt(e.T_particles)} K (declared ${fmt(d.reservoirs.A.T)} K)`);
+  else if (e.delta_mu !== null && d.reservoirs.A.mu !== d.reservoirs.B.mu) {
+    parts.push(`effective μ_A − μ_B = ${fmt(e.delta_mu / (d.energyUnit.joules))} ${d.energyUnit.name} (declared ${fmt((d.reservoirs.A.mu - d.reservoirs.B.mu) / d.energyUnit.joules)} ${d.energyUnit.name})`);
+  }
+  return parts.length ? ` From the fit: ${parts.join("; ")}.` : "";
+}
+
+export const exchangeFluctuation: CheckDefinition = {
+  id: "exchange-fluctuation",
+  title: "Detailed exchange fluctuation relation",
+  verdictBearing: true,
+  run: perDataset("samples", exchangeFluctuationForDataset),
+};
+

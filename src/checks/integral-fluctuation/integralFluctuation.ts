@@ -1,0 +1,164 @@
+import type { SamplesDataset } from "../../ingest/types.ts";
+import { exponentialConvergence } from "../../physics/exponentialConvergence.ts";
+import { bcaInterval, bcaPValue, bootstrapRatio } from "../../stats/bootstrap.ts";
+import { normalQuantile } from "../../stats/normal.ts";
+import { fmt, fmtInterval, numberOption, perDataset } from "../helpers.ts";
+import type { CheckContext, CheckDefinition, CheckResult, Status } from "../types.ts";
+import type { PlotSpec } from "../plotSpec.ts";
+
+export const MIN_REALISATIONS = 30;
+
+/** Exponents above this are shifted before exp() so that no term overflows. */
+const MAX_EXPONENT = 600;
+
+/**
+ * Running estimate of ⟨e^−Σ⟩ against the number of realisations used, in file
+ * order (histogram cells in file order, each adding its count), with a band of
+ * ± z standard errors from Welford's running variance (Welford,
+ * Technometrics 4, 419 (1962)). Sampled at about 120 logarithmically spaced counts.
+ */
+function runningEstimatePlot(d: SamplesDataset, shift: number, z: number, confidence: number): PlotSpec {
+  const sigma = d.sigma;
+  const total = d.realisations;
+  const marks: number[] = [];
+  for (let k = 0; k <= 120; k++) marks.push(Math.round(Math.exp(Math.log(Math.min(10, total)) + ((Math.log(total) - Math.log(Math.min(10, total))) * k) / 120)));
+  const xs: number[] = [];
+  const ys: number[] = [];
+  const lo: number[] = [];
+  const hi: number[] = [];
+  const scale = Math.exp(shift);
+  let n = 0;
+  let mean = 0;
+  let m2 = 0;
+  let next = 0;
+  for (let i = 0; i < sigma.length && next < marks.length; i++) {
+    const w = d.weight ? d.weight[i] : 1;
+    if (w === 0) continue;
+    const x = Math.exp(-sigma[i] - shift);
+    const nNew = n + w;
+    const delta = x - mean;
+    const r = (delta * w) / nNew;
+    mean += r;
+    m2 += n * delta * r;
+    n = nNew;
+    while (next < marks.length && n >= marks[next]) {
+      const se = n > 1 ? Math.sqrt(m2 / (n - 1) / n) : 0;
+      xs.push(n);
+      ys.push(mean * scale);
+      lo.push((mean - z * se) * scale);
+      hi.push((mean + z * se) * scale);
+      next++;
+    }
+  }
+  return {
+    id: "running-exp-average",
+    title: "Running estimate of ⟨e^−Σ⟩",
+    alt: `The average of e^−Σ over the first n realisations${d.weight ? " (histogram cells in file order)" : " in file order"}, for n from ${xs[0] ?? 0} to ${total} on a logarithmic axis, with a ${confidence * 100}% normal band from the running standard error; the dashed line is the exact value 1. A curve that still drifts or jumps at large n has not converged; sudden upward jumps are rare realisations with negative Σ.`,
+    x: { label: "Realisations used", scale: "log" },
+    y: { label: "⟨e^−Σ⟩" },
+    series: [
+      { type: "band", name: `${confidence * 100}% band (normal)`, x: xs, lower: lo, upper: hi },
+      { type: "line", name: "running estimate", x: xs, y: ys },
+      { type: "rule", name: "exact value 1", axis: "y", value: 1, style: "dashed" },
+    ],
+  };
+}
+
+export function integralFluctuationForDataset(d: SamplesDataset, ctx: CheckContext): CheckResult {
+  const { alpha, confidence } = ctx.settings;
+  const margin = numberOption(ctx, "margin", ctx.settings.margin, (v) => v > 0);
+  const sigma = d.sigma;
+  let maxExp = -Infinity;
+  for (let i = 0; i < sigma.length; i++) if (-sigma[i] > maxExp) maxExp = -sigma[i];
+  const shift = maxExp > MAX_EXPONENT ? maxExp - MAX_EXPONENT : 0;
+  const u = new Float64Array(sigma.length);
+  for (let i = 0; i < sigma.length; i++) u[i] = Math.exp(-sigma[i] - shift);
+  const boot = bootstrapRatio(u, null, d.weight, ctx.rngFor(d.sha256, "exp-average"), { resamples: ctx.settings.resamples });
+  const scale = Math.exp(shift);
+  const mean = boot.estimate * scale;
+  const ciScaled = bcaInterval(boot, confidence);
+  const ci: [number, number] = [ciScaled[0] * scale, ciScaled[1] * scale];
+  const pValue = bcaPValue(boot, 1 / scale);
+  const conv = exponentialConvergence(sigma, d.weight);
+  const n = d.realisations;
+
+  let status: Status;
+  let summary: string;
+  let reason: string | undefined;
+  const estimateText = `⟨e^−Σ⟩ = ${fmt(mean)}, ${confidence * 100}% BCa interval ${fmtInterval(ci[0], ci[1])}`;
+  if (n < MIN_REALISATIONS) {
+    status = "inconclusive";
+    summary = `Only ${n} realisations: too few to estimate ⟨e^−Σ⟩.`;
+    reason = `At least ${MIN_REALISATIONS} realisations are needed; record more runs.`;
+  } else if (pValue <= alpha && mean > 1) {
+    // Undersampling biases a typical estimate downwards, never upwards: an excess is a violation at any sample size.
+    status = "fail";
+    summary = `${estimateText}: significantly above 1 (p = ${fmt(pValue, 3)} ≤ α = ${alpha}); the integral relation is violated.`;
+  } else if (!conv.resolved) {
+    status = "inconclusive";
+    summary = `${estimateText}, but the sample cannot resolve the exponential average.`;
+    reason = `${conv.reason}. More realisations, or a shorter contact (smaller ⟨Σ⟩), would settle it.`;
+  } else if (pValue <= alpha) {
+    status = "fail";
+    summary = `${estimateText}: significantly below 1 (p = ${fmt(pValue, 3)} ≤ α = ${alpha}) although the sample resolves the average; the integral relation is violated.`;
+  } else if (ci[0] >= 1 - margin && ci[1] <= 1 + margin) {
+    status = "pass";
+    summary = `${estimateText}, within 1 ± ${margin}; the sample resolves the average (⟨Σ⟩ = ${fmt(conv.meanSigma)} k_B < ln N = ${fmt(conv.logN)}).`;
+  } else {
+    status = "inconclusive";
+    const half = (ci[1] - ci[0]) / 2;
+    summary = `${estimateText}: consistent with 1 but wider than 1 ± ${margin}.`;
+    reason = `About ${Math.ceil(n * (half / margin) ** 2).toLocaleString("en")} realisations at this spread would resolve the margin of ${margin}.`;
+  }
+  const z = normalQuantile(1 - (1 - confidence) / 2);
+  return {
+    check: "integral-fluctuation",
+    dataset: d.id,
+    status,
+    summary,
+    ...(reason ? { reason } : {}),
+    values: {
+      mean,
+      ci,
+      p_value: pValue,
+      log_mean: Math.log(boot.estimate) + shift,
+      mean_sigma: conv.meanSigma,
+      ln_N: conv.logN,
+      mirror_realisations: conv.mirrorCount,
+      effective_sample_size: conv.effectiveSampleSize,
+      tail_shape: conv.tailShape,
+      resolved: conv.resolved,
+      resamples: boot.replicates.length,
+      exactly_resampled_cells: boot.exactCells,
+      realisations: n,
+    },
+    criteria: { alpha, margin, confidence },
+    assumptions: [
+      "Both reservoirs start in independent grand-canonical states at the declared temperatures and chemical potentials.",
+      "Energies and particle numbers are two-point measurements of the isolated reservoirs.",
+      "Realisations are independent and identically prepared.",
+      "The integral relation holds with or without a magnetic field: it needs the forward process only.",
+      d.config.work === "zero" ? "The switching work is declared zero (W = 0 in every realisation)." : "The switching work W is measured and enters Σ.",
+    ],
+    references: [
+      "C. Jarzynski and D. K. Wójcik, Phys. Rev. Lett. 92, 230602 (2004)",
+      "M. Campisi, P. Hänggi and P. Talkner, Rev. Mod. Phys. 83, 771 (2011)",
+      "C. Jarzynski, Phys. Rev. E 73, 046105 (2006)",
+      "B. Efron and R. J. Tibshirani, An Introduction to the Bootstrap (Chapman & Hall, 1993)",
+      "J. A. Hanley and B. MacGibbon, Comput. Methods Programs Biomed. 83, 57 (2006)",
+    ],
+    equations: [
+      String.raw`\left\langle e^{-\Sigma} \right\rangle = 1`,
+      String.raw`N \gtrsim e^{\langle \Sigma \rangle} \quad\text{(sample size needed to resolve the average)}`,
+    ],
+    tables: [],
+    plots: [runningEstimatePlot(d, shift, z, confidence)],
+  };
+}
+
+export const integralFluctuation: CheckDefinition = {
+  id: "integral-fluctuation",
+  title: "Integral fluctuation relation ⟨e^−Σ⟩ = 1",
+  verdictBearing: true,
+  run: perDataset("samples", integralFluctuationForDataset),
+};

@@ -1,0 +1,150 @@
+import type { SamplesDataset } from "../../ingest/types.ts";
+import { exponentialConvergence } from "../../physics/exponentialConvergence.ts";
+import { bcaInterval, bcaPValue, bootstrapRatio } from "../../stats/bootstrap.ts";
+import { holm } from "../../stats/holm.ts";
+import { fmt, fmtInterval, numberOption, perDataset } from "../helpers.ts";
+import type { CheckContext, CheckDefinition, CheckResult, Status, TableSpec } from "../types.ts";
+
+/**
+ * The weighted identity ⟨x (e^{−β̄W} + e^{−a·x})⟩ = 0 for each current x in
+ * {Q, ΔN}, obtained from the detailed exchange relation by the substitution
+ * (W, x) → (−W, −x) (Andrieux, Gaspard, Monnai & Tasaki, New J. Phys. 11,
+ * 043014 (2009), exchange relation; the identity is derived from it).
+ *
+ * Unit-free scale: r = ⟨x g⟩/⟨|x g|⟩ with g = e^{−β̄W} + e^{−a·x} > 0, the
+ * fraction of the weighted current that fails to cancel; it lies in [−1, 1] and
+ * the margin applies to it directly. Its interval is a weighted bootstrap (BCa)
+ * of the ratio, seeded from the data digest; Holm's correction spans the currents.
+ */
+interface Current {
+  key: "Q" | "dN";
+  label: string;
+  x: Float64Array;
+}
+
+export function weightedIdentityForDataset(d: SamplesDataset, ctx: CheckContext): CheckResult {
+  const refs = [
+    "D. Andrieux, P. Gaspard, T. Monnai and S. Tasaki, New J. Phys. 11, 043014 (2009)",
+    "M. Campisi, P. Hänggi and P. Talkner, Rev. Mod. Phys. 83, 771 (2011)",
+    "B. Efron and R. J. Tibshirani, An Introduction to the Bootstrap (Chapman & Hall, 1993)",
+    "S. Holm, Scand. J. Stat. 6, 65 (1979)",
+  ];
+  const equations = [
+    String.raw`\left\langle x \left( e^{-\bar\beta W} + e^{-a\cdot x} \right) \right\rangle = 0, \qquad x \in \{Q, \Delta N\},\; a\cdot x = a_Q Q + a_N \Delta N`,
+    String.raw`r_x = \frac{\langle x\, g \rangle}{\langle |x\, g| \rangle}, \qquad g = e^{-\bar\beta W} + e^{-a\cdot x}`,
+  ];
+  const assumptions = [
+    "Both reservoirs start in independent grand-canonical states at the declared temperatures and chemical potentials.",
+    "The switching protocol is time-reversal symmetric and there is no magnetic field.",
+    "Realisations are independent and identically prepared.",
+    d.config.work === "zero" ? "The switching work is declared zero (W = 0, so the identity reads ⟨x(1 + e^{−a·x})⟩ = 0)." : "The switching work W is measured.",
+  ];
+  const base = { check: "weighted-identity" as const, dataset: d.id, references: refs, equations, assumptions };
+  const field = d.config.field ?? 0;
+  if (field !== 0) {
+    const reason = `the dataset was taken at a magnetic field of ${fmt(field)} T; the identity follows from the detailed relation, which pairs B with −B (Saito & Utsumi 2008), so one dataset cannot test it.`;
+    return { ...base, status: "not-applicable", summary: `Not applicable: ${reason}`, reason, values: {}, criteria: {}, tables: [], plots: [] };
+  }
+  const currents: Current[] = [];
+  if (d.Q.some((v) => v !== 0)) currents.push({ key: "Q", label: "heat Q", x: d.Q });
+  if (d.dN.some((v) => v !== 0)) currents.push({ key: "dN", label: "particles ΔN", x: d.dN });
+  if (currents.length === 0) {
+    const reason = "no heat or particles were exchanged in any realisation (Q = ΔN = 0).";
+    return { ...base, status: "not-applicable", summary: `Not applicable: ${reason}`, reason, values: {}, criteria: {}, tables: [], plots: [] };
+  }
+  const { alpha, confidence } = ctx.settings;
+  const margin = numberOption(ctx, "margin", ctx.settings.margin, (v) => v > 0);
+  const n = d.rows;
+  const bW = new Float64Array(n);
+  const ax = new Float64Array(n);
+  let shift = -Infinity;
+  for (let i = 0; i < n; i++) {
+    bW[i] = -d.affinity.beta_bar * d.W[i];
+    ax[i] = -(d.sigma[i] + bW[i]); // −a·x = −(Σ − β̄W)
+    shift = Math.max(shift, bW[i], ax[i]);
+  }
+  shift = shift > 600 ? shift - 600 : 0;
+  const g = new Float64Array(n);
+  for (let i = 0; i < n; i++) g[i] = Math.exp(bW[i] - shift) + Math.exp(ax[i] - shift);
+  // Convergence of the exponential weights: judged on the a·x part, which carries the rare events.
+  const aDotX = new Float64Array(n);
+  for (let i = 0; i < n; i++) aDotX[i] = -ax[i];
+  const conv = exponentialConvergence(aDotX, d.weight);
+
+  const results = currents.map((c) => {
+    let scaleX = 0;
+    for (let i = 0; i < n; i++) scaleX = Math.max(scaleX, Math.abs(c.x[i]));
+    const u = new Float64Array(n);
+    const v = new Float64Array(n);
+    for (let i = 0; i < n; i++) {
+      u[i] = (c.x[i] / scaleX) * g[i];
+      v[i] = Math.abs(u[i]);
+    }
+    const boot = bootstrapRatio(u, v, d.weight, ctx.rngFor(d.sha256, `weighted-identity-${c.key}`), { resamples: ctx.settings.resamples });
+    return { current: c, ratio: boot.estimate, ci: bcaInterval(boot, confidence), p: bcaPValue(boot, 0) };
+  });
+  const family = holm(results.map((r) => r.p), alpha);
+  const rejected = results.filter((_, k) => family.rejected[k]);
+  const within = results.every((r) => r.ci[0] >= -margin && r.ci[1] <= margin);
+  const describe = results.map((r) => `r_${r.current.key} = ${fmt(r.ratio)} ${fmtInterval(r.ci[0], r.ci[1])}`).join(", ");
+
+  let status: Status;
+  let summary: string;
+  let reason: string | undefined;
+  if (d.realisations < 30) {
+    status = "inconclusive";
+    summary = `Only ${d.realisations} realisations: too few to test the weighted identity.`;
+    reason = "At least 30 realisations are needed; record more runs.";
+  } else if (!conv.resolved) {
+    status = "inconclusive";
+    summary = `${describe}, but the exponential weights are not resolved by the sample.`;
+    reason = `${conv.reason?.replaceAll("Σ", "a·x")}. More realisations or smaller affinities would settle it.`;
+  } else if (rejected.length) {
+    status = "fail";
+    summary = `The weighted identity fails for ${rejected.map((r) => r.current.label).join(" and ")}: ${describe} (Holm-adjusted p ≤ ${alpha}); the declared affinities do not match the data in that channel.`;
+  } else if (within) {
+    status = "pass";
+    summary = `The weighted currents cancel: ${describe}, each ${confidence * 100}% interval within ±${margin}.`;
+  } else {
+    status = "inconclusive";
+    summary = `No significant departure (${describe}), but not every interval lies within ±${margin}.`;
+    const half = Math.max(...results.map((r) => (r.ci[1] - r.ci[0]) / 2));
+    reason = `About ${Math.ceil(d.realisations * (half / margin) ** 2).toLocaleString("en")} realisations at this spread would resolve the margin of ${margin}.`;
+  }
+  const table: TableSpec = {
+    id: "weighted-currents",
+    title: "Scaled weighted currents r_x (ideal 0)",
+    columns: [
+      { key: "current", label: "Current" },
+      { key: "r", label: "r_x" },
+      { key: "lower", label: `${confidence * 100}% lower` },
+      { key: "upper", label: `${confidence * 100}% upper` },
+      { key: "p", label: "p" },
+      { key: "p_holm", label: "p (Holm)" },
+    ],
+    rows: results.map((r, k) => ({ current: r.current.label, r: r.ratio, lower: r.ci[0], upper: r.ci[1], p: r.p, p_holm: family.adjusted[k] })),
+  };
+  return {
+    ...base,
+    status,
+    summary,
+    ...(reason ? { reason } : {}),
+    values: {
+      currents: Object.fromEntries(results.map((r, k) => [r.current.key, { ratio: r.ratio, ci: r.ci, p_value: r.p, p_holm: family.adjusted[k] }])),
+      effective_sample_size: conv.effectiveSampleSize,
+      tail_shape: conv.tailShape,
+      resolved: conv.resolved,
+      realisations: d.realisations,
+    },
+    criteria: { alpha, margin, confidence },
+    tables: [table],
+    plots: [],
+  };
+}
+
+export const weightedIdentity: CheckDefinition = {
+  id: "weighted-identity",
+  title: "Weighted identity per current",
+  verdictBearing: true,
+  run: perDataset("samples", weightedIdentityForDataset),
+};
