@@ -7,6 +7,7 @@ import { registerInit } from "./commands/init.ts";
 import { registerPublish } from "./commands/publish.ts";
 import { registerVerify } from "./commands/verify.ts";
 import { registerPdf } from "./commands/pdf.ts";
+import { registerSynth } from "./commands/synth.ts";
 
 /** The transport-audit command line: argument parsing and exit codes only; the work lives below. */
 export async function main(argv: string[]): Promise<number> {
@@ -28,6 +29,7 @@ export async function main(argv: string[]): Promise<number> {
   registerPublish(program, setExit);
   registerVerify(program, setExit);
   registerPdf(program, setExit);
+  registerSynth(program, setExit);
   try {
     await program.parseAsync(argv, { from: "user" });
   } catch (err) {

@@ -1,0 +1,5 @@
+export { synthFermions, FERMION_PARAMETERS, FERMION_REFERENCES } from "./fermionsAudit.ts";
+export { synthDot, DOT_PARAMETERS, DOT_REFERENCES } from "./dotAudit.ts";
+export { synthTilted, TILTED_PARAMETERS, TILTED_REFERENCES } from "./tiltedAudit.ts";
+export { writeAuditFolder, type SynthAudit } from "./auditFolder.ts";
+export type { SynthParameter } from "./parameters.ts";
