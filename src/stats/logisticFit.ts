@@ -178,6 +178,14 @@ export function fitExchangeLogistic(features: ArrayLike<number>[], weight: Array
     const decrement = step.reduce((acc, s, j) => acc + s * grad[j], 0); // Newton decrement squared
     // λ²/2 approximates the log-likelihood still to gain; 1e-8 moves θ by ~1e-4 standard errors.
     if (decrement / 2 < CONVERGED) {
+      // Inside the quadratic basin: take the last full Newton step, which squares the remaining error.
+      const last = beta.map((b, j) => b + step[j]);
+      linearPredictor(features, scales, last, trial);
+      const llLast = logLikelihood(trial, weight);
+      if (llLast >= ll) {
+        eta.set(trial);
+        return convergedFit(last, info, scales, llLast, it, eta, weight);
+      }
       return convergedFit(beta, info, scales, ll, it, eta, weight);
     }
     // Armijo backtracking: accept t when ll rises by at least 1e-4 t·(grad·step).
