@@ -5,9 +5,10 @@
 import fs from "node:fs";
 import path from "node:path";
 import { qdHeatExchange, nwSwitchingWork } from "./demo/exchange.ts";
+import { abInterferometerSweep } from "./demo/coefficients.ts";
 import type { DemoAudit } from "./demo/types.ts";
 
-const GENERATORS: (() => DemoAudit)[] = [qdHeatExchange, nwSwitchingWork];
+const GENERATORS: (() => DemoAudit)[] = [qdHeatExchange, nwSwitchingWork, abInterferometerSweep];
 
 const root = path.resolve(process.argv[2] ?? "audits");
 for (const generate of GENERATORS) {

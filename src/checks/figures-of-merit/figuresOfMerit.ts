@@ -94,7 +94,7 @@ function ztPlot(d: CoefficientsDataset, pts: readonly PointFigures[]): PlotSpec 
     title: "Figure of merit ZT across the sweep",
     alt: `ZT = G S² T/K at each row against ${sweepAxisLabel(d)}${d.hasUncertainties ? ", with Monte Carlo standard uncertainties as error bars" : ""}.`,
     x: { label: sweepAxisLabel(d) },
-    y: { label: "ZT", unit: "1" },
+    y: { label: "ZT" },
     series,
   };
 }

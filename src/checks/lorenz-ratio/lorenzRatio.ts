@@ -109,7 +109,7 @@ export function lorenzRatioForDataset(d: CoefficientsDataset, ctx: CheckContext)
             title: "Lorenz ratio across the sweep",
             alt: `K/(G T) in units of the Sommerfeld value L0 at each row against ${sweepAxisLabel(d)}; the dashed line marks the Wiedemann–Franz value 1.`,
             x: { label: sweepAxisLabel(d) },
-            y: { label: "K/(G T L0)", unit: "1" },
+            y: { label: "K/(G T L0)" },
             series,
           },
         ]

@@ -169,20 +169,31 @@ export function decidePositivity(d: CoefficientsDataset, pts: PointPositivity[],
 function eigenvaluePlot(d: CoefficientsDataset, pts: readonly PointPositivity[], confidence: number): PlotSpec {
   const series: Series[] = [];
   const finite = pts.filter((p) => Number.isFinite(p.lambda));
+  const sweepOf = (p: PointPositivity) => d.points[p.index].sweep;
+  if (d.hasUncertainties) {
+    // One band: at each sweep value the envelope of λ ± z u over the fields measured there.
+    const groups = [...groupBy(finite, (p) => String(sweepOf(p))).values()];
+    const xs = groups.map((g) => sweepOf(g[0]));
+    const order = sortedBy(xs);
+    series.push({
+      type: "band",
+      name: `${Math.round((2 * confidence - 1) * 100)} % interval (envelope over the fields)`,
+      x: order.map((k) => xs[k]),
+      lower: order.map((k) => Math.min(...groups[k].map((p) => p.lower as number))),
+      upper: order.map((k) => Math.max(...groups[k].map((p) => p.upper as number))),
+    });
+  }
   for (const [name, ps] of groupBy(finite, (p) => (d.points[p.index].B !== null ? `B = ${fmt(d.points[p.index].B as number)} ${d.fieldUnit}` : "λ_min"))) {
-    const order = sortedBy(ps.map((p) => d.points[p.index].sweep));
-    const s = order.map((k) => ps[k]);
-    const x = s.map((p) => d.points[p.index].sweep);
-    if (d.hasUncertainties) series.push({ type: "band", name: `${Math.round((2 * confidence - 1) * 100)} % interval, ${name}`, x, lower: s.map((p) => p.lower as number), upper: s.map((p) => p.upper as number) });
-    series.push({ type: "points", name, x, y: s.map((p) => p.lambda), ...(d.hasUncertainties ? { yErr: s.map((p) => p.u as number) } : {}) });
+    const s = sortedBy(ps.map(sweepOf)).map((k) => ps[k]);
+    series.push({ type: "points", name, x: s.map(sweepOf), y: s.map((p) => p.lambda) });
   }
   series.push({ type: "rule", name: "positivity boundary", axis: "y", value: 0, style: "dashed" });
   return {
     id: "positivity-eigenvalue",
     title: "Smallest eigenvalue of the normalised symmetric part",
-    alt: `The smallest eigenvalue of Ls_ij/√(Ls_ii Ls_jj) at each row against ${sweepAxisLabel(d)}, with its Monte Carlo band; the second law requires it to stay at or above the dashed line at zero.`,
+    alt: `The smallest eigenvalue of Ls_ij/√(Ls_ii Ls_jj) at each row against ${sweepAxisLabel(d)}${d.hasUncertainties ? ", with the envelope of its Monte Carlo intervals" : ""}; the second law requires it to stay at or above the dashed line at zero.`,
     x: { label: sweepAxisLabel(d) },
-    y: { label: "Smallest normalised eigenvalue λ_min", unit: "1" },
+    y: { label: "Smallest normalised eigenvalue λ_min" },
     series,
   };
 }

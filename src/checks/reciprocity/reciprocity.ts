@@ -13,6 +13,7 @@ import type { CoefficientsDataset } from "../../ingest/types.ts";
 import { holm } from "../../stats/holm.ts";
 import { tost } from "../../stats/tost.ts";
 import { normalQuantile, normalTwoSidedP } from "../../stats/normal.ts";
+import { SIGN_CONVENTION } from "../../physics/thermoelectric.ts";
 import { fmt, numberOption, perDataset } from "../helpers.ts";
 import type { CheckContext, CheckDefinition, CheckResult, Status, TableSpec } from "../types.ts";
 import type { PlotSpec, Series } from "../plotSpec.ts";
@@ -259,19 +260,29 @@ function identityPlot(d: CoefficientsDataset, results: readonly ComparisonResult
 
 function asymmetryPlot(d: CoefficientsDataset, results: readonly ComparisonResult[], margin: number, confidence: number): PlotSpec {
   const series: Series[] = [];
-  for (const [family, rs] of groupBy(results, (r) => `${r.family}${d.points[r.a].B !== null ? ` at |B| = ${fmt(Math.abs(d.points[r.a].B as number))} ${d.fieldUnit}` : ""}`)) {
-    const order = sortedBy(rs.map((r) => r.sweep));
-    const s = order.map((k) => rs[k]);
-    if (d.hasUncertainties) {
-      series.push({
-        type: "band",
-        name: `${Math.round((1 - 2 * (1 - confidence)) * 100)} % interval, ${family}`,
-        x: s.map((r) => r.sweep),
-        lower: s.map((r) => (r.interval ? r.interval[0] / r.scale : r.normalised)),
-        upper: s.map((r) => (r.interval ? r.interval[1] / r.scale : r.normalised)),
-      });
-    }
-    series.push({ type: "points", name: family, x: s.map((r) => r.sweep), y: s.map((r) => r.normalised), ...(d.hasUncertainties ? { yErr: s.map((r) => r.normalisedU as number) } : {}) });
+  const level = Math.round((1 - 2 * (1 - confidence)) * 100);
+  if (d.hasUncertainties) {
+    // One band: at each sweep value the envelope of the equivalence-test intervals of every comparison there,
+    // so the picture reads "all intervals inside the margins" at a glance without one band per relation.
+    const bySweep = groupBy(results, (r) => String(r.sweep));
+    const xs = [...bySweep.values()].map((rs) => rs[0].sweep);
+    const order = sortedBy(xs);
+    const groups = [...bySweep.values()];
+    series.push({
+      type: "band",
+      name: `${level} % intervals (envelope over the relations)`,
+      x: order.map((k) => xs[k]),
+      lower: order.map((k) => Math.min(...groups[k].map((r) => (r.interval ? r.interval[0] / r.scale : r.normalised)))),
+      upper: order.map((k) => Math.max(...groups[k].map((r) => (r.interval ? r.interval[1] / r.scale : r.normalised)))),
+    });
+  }
+  const familyOf = (r: ComparisonResult) => {
+    const B = d.points[r.a].B;
+    return B !== null && B !== 0 ? `${r.family} at |B| = ${fmt(Math.abs(B))} ${d.fieldUnit}` : r.family;
+  };
+  for (const [family, rs] of groupBy(results, familyOf)) {
+    const s = sortedBy(rs.map((r) => r.sweep)).map((k) => rs[k]);
+    series.push({ type: "points", name: family, x: s.map((r) => r.sweep), y: s.map((r) => r.normalised) });
   }
   series.push({ type: "rule", name: `margin +${margin}`, axis: "y", value: margin, style: "dashed" });
   series.push({ type: "rule", name: `margin −${margin}`, axis: "y", value: -margin, style: "dashed" });
@@ -279,9 +290,9 @@ function asymmetryPlot(d: CoefficientsDataset, results: readonly ComparisonResul
   return {
     id: "reciprocity-asymmetry",
     title: "Normalised asymmetry across the sweep",
-    alt: `The difference of each compared pair divided by its scale √(Ls_ii Ls_jj), against ${sweepAxisLabel(d)}, with the interval used by the equivalence test; reciprocity is established where the whole interval lies between the dashed margins ±${margin}.`,
+    alt: `The difference of each compared pair divided by its scale √(Ls_ii Ls_jj), against ${sweepAxisLabel(d)}${d.hasUncertainties ? `, with the envelope of the ${level} % intervals used by the equivalence test` : ""}; reciprocity is established where the intervals lie between the dashed margins ±${margin}.`,
     x: { label: sweepAxisLabel(d) },
-    y: { label: "Normalised asymmetry", unit: "1" },
+    y: { label: "Normalised asymmetry (dimensionless)" },
     series,
   };
 }
@@ -369,7 +380,10 @@ export function reciprocityForDataset(d: CoefficientsDataset, ctx: CheckContext)
     "The standard uncertainties of different entries are independent (no covariance columns), and the compared quantities are normally distributed.",
     `The scale of a pair is √(Ls_ii Ls_jj) of the symmetric part (the largest off-diagonal entry positivity allows), averaged over the two rows; the margin is ${margin} of it.`,
   ];
-  if (d.form === "thermoelectric") assumptions.push("The conductance is even in the field, G(B) = G(−B), so L21(B) = L12(−B) reduces to Π(B) = T S(−B).");
+  if (d.form === "thermoelectric") {
+    assumptions.push("The conductance is even in the field, G(B) = G(−B), so L21(B) = L12(−B) reduces to Π(B) = T S(−B).");
+    assumptions.push(SIGN_CONVENTION);
+  }
   for (const f of d.findings) assumptions.push(`Pairing: ${f.message}.`);
   return {
     ...base,
