@@ -10,6 +10,10 @@ import type { HermitianEigen } from "./hermitianEigen.ts";
  */
 export interface Propagator {
   n: number;
+  /** Eigenvalues λ_k of h. */
+  values: Float64Array;
+  /** G = B† W: the eigenvectors of h in the basis B. */
+  G: ComplexMatrix;
   at(t: number): ComplexMatrix;
 }
 
@@ -19,6 +23,8 @@ export function propagatorIn(eig: HermitianEigen, basis: ComplexMatrix): Propaga
   const Gd = complexAdjoint(G);
   return {
     n,
+    values: eig.values,
+    G,
     at(t: number): ComplexMatrix {
       // Scale the columns of G by the phases, then multiply by G†.
       const scaled = complexZeros(n, n);
