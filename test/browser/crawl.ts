@@ -3,9 +3,9 @@ import path from "node:path";
 import { fileURLToPath } from "node:url";
 import type { Browser, BrowserContextOptions } from "playwright-core";
 
-const PROBE = fs.readFileSync(path.join(path.dirname(fileURLToPath(import.meta.url)), "pageProbe.js"), "utf8");
+export const PROBE = fs.readFileSync(path.join(path.dirname(fileURLToPath(import.meta.url)), "pageProbe.js"), "utf8");
 
-/** What test/browser/pageProbe.js reports about one page. */
+/** What test/browser/pageProbe.js (PROBE, its source) reports about one page. */
 export interface PageProbe {
   url: string;
   title: string;

@@ -7,16 +7,17 @@ import { tickLabelSvg } from "./tickLabel.ts";
 import { richTextSvg } from "./richText.ts";
 
 /*
- * Geometry in SVG user units. The figure is 640 units wide and shown at most
- * 44rem (≈ 12 cm printed, 15 cm at most), so 13-unit tick labels print at about
- * 8–9 pt and axis titles at 9–10 pt: the sizes of a journal figure.
+ * Geometry in SVG user units. The figure is 560 units wide and printed 13 cm
+ * wide, so 14-unit tick labels print at about 9 pt and 15-unit axis titles at
+ * about 10 pt, the sizes of a journal figure; on a 375 px phone the labels are
+ * still about 9 px.
  */
-const W = 640;
-const H = 400;
-const M = { top: 14, right: 22, bottom: 60, left: 84 };
+const W = 560;
+const H = 370;
+const M = { top: 14, right: 20, bottom: 62, left: 88 };
 const PW = W - M.left - M.right;
 const PH = H - M.top - M.bottom;
-const LEGEND_ROW = 19;
+const LEGEND_ROW = 20;
 
 type Scale = ScaleContinuousNumeric<number, number>;
 
@@ -265,7 +266,7 @@ export function renderPlot(spec: PlotSpec, idPrefix = ""): string {
     ...xTicks.filter((t) => t.label).map((t) => `<path d="M${f2(x(t.value))},0V${PH}"/>`),
   ].join("");
   const xAxis = xTicks
-    .map((t) => `<g transform="translate(${f2(x(t.value))},${PH})"><path d="M0,0V${t.label ? 6 : 3}"/>${t.label ? `<text y="20" text-anchor="middle" stroke="none">${t.label}</text>` : ""}</g>`)
+    .map((t) => `<g transform="translate(${f2(x(t.value))},${PH})"><path d="M0,0V${t.label ? 6 : 3}"/>${t.label ? `<text y="21" text-anchor="middle" stroke="none">${t.label}</text>` : ""}</g>`)
     .join("");
   const yAxis = yTicks
     .map((t) => `<g transform="translate(0,${f2(y(t.value))})"><path d="M${t.label ? -6 : -3},0H0"/>${t.label ? `<text x="-9" dy="0.34em" text-anchor="end" stroke="none">${t.label}</text>` : ""}</g>`)
@@ -286,7 +287,7 @@ export function renderPlot(spec: PlotSpec, idPrefix = ""): string {
   const height = H + rendered.length * LEGEND_ROW + 6;
   const description = `${spec.alt} ${describePlot(spec, x.domain() as [number, number], y.domain() as [number, number])}`;
   return [
-    `<svg xmlns="http://www.w3.org/2000/svg" class="plot" viewBox="0 0 ${W} ${height}" width="${W}" height="${height}" role="img" aria-labelledby="${uid}-title ${uid}-desc" font-family="system-ui, 'DejaVu Sans', sans-serif" font-size="13">`,
+    `<svg xmlns="http://www.w3.org/2000/svg" class="plot" viewBox="0 0 ${W} ${height}" width="${W}" height="${height}" role="img" aria-labelledby="${uid}-title ${uid}-desc" font-family="system-ui, 'DejaVu Sans', sans-serif" font-size="14">`,
     `<title id="${uid}-title">${escapeHtml(spec.title)}</title>`,
     `<desc id="${uid}-desc">${escapeHtml(description)}</desc>`,
     `<defs><clipPath id="${uid}-clip"><rect width="${PW}" height="${PH}"/></clipPath>${defs}</defs>`,
@@ -296,8 +297,8 @@ export function renderPlot(spec: PlotSpec, idPrefix = ""): string {
     `<rect class="frame" width="${PW}" height="${PH}" fill="none" stroke="currentColor" stroke-opacity="0.75"/>`,
     `<g class="axis x" stroke="currentColor" fill="currentColor">${xAxis}</g>`,
     `<g class="axis y" stroke="currentColor" fill="currentColor">${yAxis}</g>`,
-    `<text class="axis-title" x="${PW / 2}" y="${PH + 46}" text-anchor="middle" fill="currentColor" font-size="14">${richTextSvg(axisTitle(spec.x))}</text>`,
-    `<text class="axis-title" transform="translate(${-M.left + 18},${PH / 2}) rotate(-90)" text-anchor="middle" fill="currentColor" font-size="14">${richTextSvg(axisTitle(spec.y))}</text>`,
+    `<text class="axis-title" x="${PW / 2}" y="${PH + 48}" text-anchor="middle" fill="currentColor" font-size="15">${richTextSvg(axisTitle(spec.x))}</text>`,
+    `<text class="axis-title" transform="translate(${-M.left + 18},${PH / 2}) rotate(-90)" text-anchor="middle" fill="currentColor" font-size="15">${richTextSvg(axisTitle(spec.y))}</text>`,
     `</g>`,
     `<g class="legend" transform="translate(${M.left},${H + 8})" fill="currentColor">${legend}</g>`,
     `</svg>`,
