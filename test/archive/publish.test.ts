@@ -102,6 +102,21 @@ describe("publishAudit", () => {
     expect(checkArchive(a.auditDir).problems).toEqual([]);
   });
 
+  it("refuses to add a version on top of a damaged one, naming the damaged file", async () => {
+    const a = makeTempArchive();
+    await publishAudit(a.auditDir, { now: fixedClock("2026-11-30T09:00:00Z") });
+    const file = path.join(versionDir(a.auditDir, 1), "audit.yaml");
+    const original = fs.readFileSync(file, "utf8");
+    const edited = original.replace("margin: 0.05", "margin: 0.5");
+    fs.writeFileSync(file, edited);
+    a.writeData(380, 1, "second batch");
+    await expect(publishAudit(a.auditDir)).rejects.toThrow(
+      `${path.join(a.auditDir, "versions")}: the published versions are damaged, so no version is added on top of them:\n` +
+        `  versions/1/audit.yaml: altered after publication: its digest is sha256:${sha256Hex(edited)}, the version record says sha256:${sha256Hex(original)}`,
+    );
+    expect(listVersionNumbers(a.auditDir)).toEqual([1]);
+  });
+
   it("does not take a number another publisher took while it was writing (rename onto a non-empty folder fails)", async () => {
     const a = makeTempArchive();
     await publishAudit(a.auditDir, { now: fixedClock("2026-11-30T09:00:00Z") });

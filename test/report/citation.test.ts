@@ -191,6 +191,7 @@ describe("LaTeX table", () => {
     );
     // Neighbouring symbols share one formula: `$a$$b$` would open display math in TeX.
     expect(latexText("⟨Σ⟩ = 0.2 ± 0.1 k_B")).toBe("$\\langle \\Sigma \\rangle$ = 0.2 $\\pm$ 0.1 $k_\\mathrm{B}$");
+    expect(latexText("<x xᵀ>₀ < 1")).toBe("\\textless{}x x$^\\mathsf{T}$\\textgreater{}$_0$ \\textless{} 1");
   });
 
   it("lists every check with its verdict, with balanced braces, and names the DOI and fingerprint", () => {

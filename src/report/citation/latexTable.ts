@@ -11,9 +11,11 @@ const UNICODE_MATH: Record<string, string> = {
   "→": "\\to", "∞": "\\infty", "⟨": "\\langle", "⟩": "\\rangle", "°": "^\\circ", "²": "^2", "³": "^3", "√": "\\surd",
   α: "\\alpha", β: "\\beta", γ: "\\gamma", Δ: "\\Delta", δ: "\\delta", ε: "\\varepsilon", η: "\\eta", θ: "\\theta",
   κ: "\\kappa", λ: "\\lambda", μ: "\\mu", Π: "\\Pi", π: "\\pi", ρ: "\\rho", Σ: "\\Sigma", σ: "\\sigma", τ: "\\tau",
-  Φ: "\\Phi", φ: "\\phi", χ: "\\chi", ω: "\\omega",
+  Φ: "\\Phi", φ: "\\phi", χ: "\\chi", ω: "\\omega", "ᵀ": "^\\mathsf{T}", "⁻": "^-", "¹": "^1",
+  "₀": "_0", "₁": "_1", "₂": "_2", "₃": "_3", "₄": "_4", "₅": "_5", "₆": "_6", "₇": "_7", "₈": "_8", "₉": "_9",
 };
-const UNICODE_TEXT: Record<string, string> = { "…": "\\ldots{}", "–": "--", "—": "---", "✓": "", "✗": "" };
+// `<` and `>` print as ¡ and ¿ in the default OT1 font encoding, so they get their text commands.
+const UNICODE_TEXT: Record<string, string> = { "…": "\\ldots{}", "–": "--", "—": "---", "✓": "", "✗": "", "<": "\\textless{}", ">": "\\textgreater{}" };
 const SPECIAL_TEXT: Record<string, string> = {
   "\\": "\\textbackslash{}", "{": "\\{", "}": "\\}", $: "\\$", "&": "\\&", "#": "\\#", "%": "\\%", _: "\\_",
   "^": "\\textasciicircum{}", "~": "\\textasciitilde{}",
