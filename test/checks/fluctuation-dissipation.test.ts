@@ -7,6 +7,7 @@ import { renderEquation } from "../../src/report/equations.ts";
 import { rngFromText } from "../../src/stats/rng.ts";
 import { expectClose } from "../helpers/expectClose.ts";
 import { E0, samplesDataset, tiltedGaussian } from "./fluctuation-dissipation.fixtures.ts";
+import { texValue } from "../../src/checks/fluctuation-dissipation/presentation.ts";
 
 const TAU = 1e-9;
 const SETTINGS = { alpha: 0.01, margin: 0.05, confidence: 0.95, seed: "auto" as const, resamples: 2000 };
@@ -222,5 +223,15 @@ describe("fluctuation-dissipation verdicts and applicability", () => {
   it("returns nothing when no dataset names a sweep", () => {
     const ds = noWorkSweep("test:fd:none", 50).map((d) => ({ ...d, config: { ...d.config, sweep: undefined } }));
     expect(runFluctuationDissipation(auditOf(ds), ctx)).toEqual([]);
+  });
+});
+
+describe("texValue", () => {
+  it("writes a value with its uncertainty in the concise notation of the GUM", () => {
+    // JCGM 100:2008 (GUM) §7.2.2 (from memory): the form "100.02147(35) g", uncertainty in units of the last digits shown.
+    expect(texValue(1.9578e-40, 1.589e-42)).toBe("1.958(16)\\times 10^{-40}");
+    expect(texValue(0.5, 0.012)).toBe("0.500(12)");
+    expect(texValue(-2.5e6, 2.6e4)).toBe("-2.500(26)\\times 10^{6}");
+    expect(renderEquation(texValue(1.9578e-40, 1.589e-42))).toContain("katex");
   });
 });

@@ -297,9 +297,14 @@ function sweepResult(sweep: Sweep, ctx: CheckContext): CheckResult {
 
   const equations = [
     String.raw`J = \frac{\langle x\rangle}{\tau} = s + L\,a, \qquad \tilde J = \frac{\langle x\,(1+e^{-\bar\beta W})\rangle}{2\tau} = \tilde s + \tilde L\,a, \qquad L_{\mathrm{fluct}} = \frac{\langle x\,x^{\mathsf T}\rangle_0}{2\tau}, \qquad D = L - \tilde L`,
-    String.raw`L = ${texMatrix(L)}, \quad \tilde L = ${texMatrix(Lw)}, \quad L_{\mathrm{fluct}} = ${texMatrix(Lf)}`,
-    String.raw`\tfrac12(L + L^{\mathsf T}) = ${texMatrix(Lsym)}, \quad \tfrac12(L - L^{\mathsf T}) = ${texMatrix(Lanti)}`,
-    String.raw`s = ${texColumn(s)}\ \mathrm{(${channels.map((c) => (c === "Q" ? "W" : "s^{-1}")).join(",\\ ")})}, \quad \tilde s = ${texColumn(sw)}, \quad D = ${texMatrix(D)}`,
+    // The compared pair side by side (L~ with work, L without), then the other matrix and D.
+    sweep.work
+      ? String.raw`\small \tilde L = ${texMatrix(Lw)}, \quad L_{\mathrm{fluct}} = ${texMatrix(Lf)}`
+      : String.raw`\small L = ${texMatrix(L)}, \quad L_{\mathrm{fluct}} = ${texMatrix(Lf)}`,
+    sweep.work ? String.raw`\small L = ${texMatrix(L)}, \quad D = L - \tilde L = ${texMatrix(D)}` : String.raw`\tilde L = L, \qquad D = 0 \quad \text{(no work)}`,
+    String.raw`\tfrac12(L + L^{\mathsf T}) = ${texMatrix(Lsym)}`,
+    String.raw`\tfrac12(L - L^{\mathsf T}) = ${texMatrix(Lanti)}`,
+    String.raw`s = ${texColumn(s)}, \qquad \tilde s = ${texColumn(sw)} \qquad \mathrm{(${channels.map((c) => (c === "Q" ? "W" : "s^{-1}")).join(",\\ ")})}`,
     String.raw`\text{units of the matrix entries (SI): } ${texUnits(channels)}, \qquad x = (${channels.map((c) => (c === "Q" ? "Q" : "\\Delta N")).join(",\\ ")}),\ a = (${channels.map((c) => (c === "Q" ? "a_Q" : "a_N")).join(",\\ ")})`,
   ];
   const first = sweep.datasets[0];

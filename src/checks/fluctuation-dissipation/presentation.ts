@@ -3,7 +3,12 @@ import { fmt } from "../helpers.ts";
 import type { EstimatedMatrix, EstimatedVector, ResponseFit } from "./responseFit.ts";
 import type { Channel } from "./sweep.ts";
 
-/** A value with its standard uncertainty as TeX: (1.234 \pm 0.012)\times10^{-37}. */
+/**
+ * A value with its standard uncertainty as TeX in the concise notation of the
+ * GUM (JCGM 100:2008, §7.2.2): 1.958(16)\times10^{-40}, the digits in
+ * parentheses being the uncertainty in units of the last digit shown (two
+ * significant digits of the uncertainty fix the decimals, common practice).
+ */
 export function texValue(value: number, se: number): string {
   const size = Math.max(Math.abs(value), Math.abs(se));
   if (size === 0 || !Number.isFinite(size)) return Number.isFinite(value) ? "0" : String(value);
@@ -11,11 +16,9 @@ export function texValue(value: number, se: number): string {
   const exp = Math.abs(e) <= 2 ? 0 : e;
   const v = value / 10 ** exp;
   const u = se / 10 ** exp;
-  // Two significant digits of the uncertainty fix the decimals shown (common practice).
   const decimals = u > 0 ? Math.min(8, Math.max(0, 1 - Math.floor(Math.log10(u)))) : 4;
-  const body = se > 0 ? `${v.toFixed(decimals)} \\pm ${u.toFixed(decimals)}` : v.toFixed(decimals);
-  if (exp === 0) return se > 0 ? `(${body})` : body;
-  return `${se > 0 ? `(${body})` : body}\\times 10^{${exp}}`;
+  const body = u > 0 ? `${v.toFixed(decimals)}(${Math.round(u * 10 ** decimals)})` : v.toFixed(decimals);
+  return exp === 0 ? body : `${body}\\times 10^{${exp}}`;
 }
 
 export function texMatrix(m: { value: number[][]; se: number[][] }): string {
