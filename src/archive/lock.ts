@@ -31,13 +31,14 @@ function readLock(file: string): LockRecord | null {
  * Take an exclusive lock by creating `file` with O_EXCL: of two processes that
  * try at once, exactly one succeeds (POSIX open(2), O_CREAT|O_EXCL). A lock
  * left by a process on this host that no longer runs (a killed publish) is
- * taken over. Returns the function that releases the lock.
+ * taken over. `now` (the publish's clock reading) is recorded for the message
+ * another process shows. Returns the function that releases the lock.
  */
-export function acquireLock(file: string, label: string): () => void {
+export function acquireLock(file: string, label: string, now: Date): () => void {
   for (let attempt = 0; attempt < 2; attempt++) {
     try {
       const fd = fs.openSync(file, fs.constants.O_CREAT | fs.constants.O_EXCL | fs.constants.O_WRONLY, 0o644);
-      const record: LockRecord = { pid: process.pid, host: os.hostname(), since: new Date().toISOString() };
+      const record: LockRecord = { pid: process.pid, host: os.hostname(), since: now.toISOString() };
       fs.writeSync(fd, JSON.stringify(record));
       fs.closeSync(fd);
       return () => {

@@ -84,8 +84,9 @@ export async function publishAudit(auditDir: string, options: PublishOptions = {
   const result = resultDocumentOf(audit, runChecks(audit));
   const resultText = canonicalJson(result);
 
+  const publishedAt = now(); // the one clock reading: the publication date
   fs.mkdirSync(versionsDir(auditDir), { recursive: true });
-  const release = acquireLock(path.join(versionsDir(auditDir), LOCK_FILE), path.join(auditDir, VERSIONS_DIR));
+  const release = acquireLock(path.join(versionsDir(auditDir), LOCK_FILE), path.join(auditDir, VERSIONS_DIR), publishedAt);
   let staging: string | null = null;
   try {
     const state = checkArchive(auditDir);
@@ -108,7 +109,7 @@ export async function publishAudit(auditDir: string, options: PublishOptions = {
       format: MANIFEST_FORMAT,
       audit: result.audit,
       version: number,
-      published: utcTimestamp(now()),
+      published: utcTimestamp(publishedAt),
       tool: { name: result.tool.name, version: result.tool.version },
       fingerprint: result.fingerprint,
       stamp: result.stamp,
