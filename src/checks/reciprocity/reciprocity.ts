@@ -170,7 +170,7 @@ export function decideReciprocity(
 ): ReciprocityDecision {
   const where = (r: ComparisonResult) => `${pointLabel(d, d.points[r.a])}: ${r.relation}`;
   const blocking = d.findings.filter((f) => f.kind !== "temperature-mismatch" && !(f.kind === "duplicate" && (f.B === null || f.B === 0)));
-  const law = d.form === "thermoelectric" ? "the Kelvin relation Π(B) = T S(−B)" : "Onsager–Casimir reciprocity";
+  const law = d.form === "thermoelectric" ? (d.hasField ? "the Kelvin relation Π(B) = T S(−B)" : "the Kelvin relation Π = T S") : d.hasField ? "Onsager–Casimir reciprocity" : "Onsager reciprocity";
   if (results.length === 0) {
     return {
       status: "inconclusive",
