@@ -70,6 +70,8 @@ export interface PageVersioning {
   downloads: DownloadLink[];
   citationText?: string;
   verifyCommand?: string;
+  /** Where to clone the archive from, if archive.yaml says. */
+  repository?: string;
   publishCommand: string;
   fingerprint: string;
   versionDigest?: string;
@@ -189,6 +191,7 @@ export function planAuditVersions(input: AuditVersionsInput): AuditVersionsPlan 
       downloads: VERSION_DOWNLOADS.map((d) => ({ ...d, href: `${downloadPrefix}${d.file}` })),
       citationText: plainCitation(s).trim(),
       verifyCommand: verifyCommand(v.number),
+      ...(archive.repository ? { repository: archive.repository } : {}),
       publishCommand,
       fingerprint: v.manifest.fingerprint,
       versionDigest: v.manifestDigest,

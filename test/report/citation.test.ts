@@ -115,9 +115,11 @@ describe("CITATION.cff", () => {
     expect(doc.doi).toBeUndefined();
   });
 
-  it("carries the DOI once the audit has one", () => {
-    const doc = parseYaml(citationCff(citationSubject(result({ doi: DOI }), { number: 3, date: "2026-12-01" }, archive))) as Record<string, unknown>;
+  it("carries the DOI once the audit has one, and the archive's repository when declared", () => {
+    const withRepository = { ...archive, repository: "https://audits.example.org/varga-lab/transport-audits.git" };
+    const doc = parseYaml(citationCff(citationSubject(result({ doi: DOI }), { number: 3, date: "2026-12-01" }, withRepository))) as Record<string, unknown>;
     expect(doc.doi).toBe(DOI);
+    expect(doc.repository).toBe("https://audits.example.org/varga-lab/transport-audits.git");
     expect((doc.identifiers as { type: string; value: string }[])[0]).toMatchObject({ type: "doi", value: DOI });
   });
 });

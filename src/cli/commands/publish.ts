@@ -9,6 +9,7 @@ export function registerPublish(program: Command, setExit: (code: number) => voi
     .description("run the audit and freeze its result as the next immutable version under <audit-dir>/versions/<N>/")
     .argument("<audit-dir>", "folder holding audit.yaml and its data")
     .action(async (dir: string) => {
+      if (process.stderr.isTTY) process.stderr.write(`running ${dir} before freezing it…\n`);
       const out = await publishAudit(dir);
       const failed = out.result.checks.filter((c) => c.status === "fail").length;
       process.stdout.write(

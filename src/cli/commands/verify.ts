@@ -15,6 +15,7 @@ export function registerVerify(program: Command, setExit: (code: number) => void
     .option("--version <N>", "the version to verify (default: the latest)", versionNumber)
     .option("--json", "print the verification report as JSON on stdout")
     .action(async (dir: string, opts: { version?: number; json?: boolean }) => {
+      if (process.stderr.isTTY) process.stderr.write(`re-running ${dir} from its data…\n`);
       const report = await verifyVersion(dir, { version: opts.version });
       if (opts.json) process.stdout.write(`${JSON.stringify(report, null, 2)}\n`);
       else process.stdout.write(`${formatVerifyReport(report, dir)}\n`);

@@ -6,7 +6,7 @@ import type { CitationSubject } from "./citationSubject.ts";
  * CITATION.cff for one published version, following the Citation File Format
  * 1.2.0 (Druskat et al., 2021, https://citation-file-format.github.io/):
  * the required keys cff-version, message, title and authors, then type
- * `dataset`, version, date-released, doi, url, license and identifiers.
+ * `dataset`, version, date-released, doi, url, repository, license and identifiers.
  */
 export function citationCff(s: CitationSubject): string {
   const authors = s.authors.map((a) => {
@@ -34,6 +34,7 @@ export function citationCff(s: CitationSubject): string {
     "date-released": s.date,
     ...(s.doi ? { doi: s.doi } : {}),
     ...(s.url ? { url: s.url } : {}),
+    ...(s.repository ? { repository: s.repository } : {}),
     license: s.license,
     identifiers,
     keywords: ["transport audit", "Onsager reciprocity", "fluctuation relations", ...(s.device ? [s.device] : [])],

@@ -16,6 +16,8 @@ export interface CitationSubject {
   license: string;
   publisher: string;
   archiveName: string;
+  /** Where the archive (definitions, data, versions) can be cloned, if declared. */
+  repository?: string;
   fingerprint: string;
   stamp: Stamp;
   tool: { name: string; version: string };
@@ -42,6 +44,7 @@ export function citationSubject(result: ResultDocument, version: { number: numbe
     license: result.license ?? archive.license,
     publisher: archive.publisher,
     archiveName: archive.name,
+    ...(archive.repository ? { repository: archive.repository } : {}),
     fingerprint: result.fingerprint,
     stamp: result.stamp,
     tool: result.tool,
