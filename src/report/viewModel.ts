@@ -105,7 +105,7 @@ export function checkView(c: CheckResult): CheckView {
     statusSymbol: STATUS_SYMBOL[c.status],
     summary: c.summary,
     ...(c.reason ? { reason: c.reason } : {}),
-    criteria: criteriaText(c.criteria),
+    criteria: criteriaText(c.criteria ?? {}),
     // Frozen results from older tool versions may lack members added since; show what they have.
     assumptions: c.assumptions ?? [],
     references: c.references ?? [],
