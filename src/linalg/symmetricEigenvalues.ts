@@ -11,6 +11,7 @@ import { copyMatrix, squareSize } from "./matrix.ts";
  */
 export function symmetricEigenvalues(s: readonly (readonly number[])[]): number[] {
   const n = squareSize(s, "symmetricEigenvalues: the matrix");
+  if (n === 2) return eigenvalues2x2(s[0][0], (s[0][1] + s[1][0]) / 2, s[1][1]);
   const a = copyMatrix(s);
   for (let i = 0; i < n; i++) {
     for (let j = i + 1; j < n; j++) {
@@ -54,6 +55,18 @@ export function symmetricEigenvalues(s: readonly (readonly number[])[]): number[
     }
   }
   return a.map((row, i) => row[i]).sort((x, y) => x - y);
+}
+
+/**
+ * Closed form for [[a, b], [b, d]]: (a + d)/2 ∓ √(((a − d)/2)² + b²), with hypot
+ * against overflow; the Jacobi rotation gives the same numbers for n = 2 and
+ * this path is several times faster in Monte Carlo loops.
+ */
+function eigenvalues2x2(a: number, b: number, d: number): number[] {
+  if (![a, b, d].every(Number.isFinite)) throw new RangeError("symmetricEigenvalues: the matrix has a non-finite entry");
+  const mean = (a + d) / 2;
+  const radius = Math.hypot((a - d) / 2, b);
+  return [mean - radius, mean + radius];
 }
 
 /** The smallest eigenvalue of a real symmetric matrix. */

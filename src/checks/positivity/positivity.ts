@@ -32,6 +32,17 @@ import { groupBy, pointLabel, sortedBy, sweepAxisLabel } from "../reciprocity/po
  * when a diagonal entry is exactly zero (no scale).
  */
 export function smallestNormalisedEigenvalue(L: readonly (readonly number[])[]): number {
+  const n = L.length;
+  if (n === 2) {
+    // Closed form: [[s1, r], [r, s2]] with s_i = sign(L_ii), r = Ls12/√(|L11 L22|); λ_min = (s1 + s2)/2 − √(((s1 − s2)/2)² + r²).
+    const a = L[0][0];
+    const d = L[1][1];
+    if (a === 0 || d === 0 || !Number.isFinite(a) || !Number.isFinite(d)) return Number.NaN;
+    const r = (L[0][1] + L[1][0]) / 2 / Math.sqrt(Math.abs(a * d));
+    const s1 = Math.sign(a);
+    const s2 = Math.sign(d);
+    return (s1 + s2) / 2 - Math.hypot((s1 - s2) / 2, r);
+  }
   const s = symmetricPart(L);
   const d = s.map((row, i) => Math.sqrt(Math.abs(row[i])));
   if (d.some((v) => !(v > 0) || !Number.isFinite(v))) return Number.NaN;
