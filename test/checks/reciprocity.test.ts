@@ -64,6 +64,35 @@ describe("reciprocity", () => {
     expectClose(r.values.max_abs_z as number, 0.4 / (0.002 * Math.SQRT2), { rtol: 1e-9, source: "exact construction" });
   });
 
+  it("in thermoelectric form with a field tests Π(B) = T S(−B), not Π(B) = T S(B), and states the sign convention", async () => {
+    // S(B) = S0 + s1 B with an odd part s1 = 10 µV/K per tesla. Correct data: Π(B) = T S(−B); wrong data: Π(B) = T S(B).
+    const T = 2;
+    const build = (correct: boolean): TableSpecInput => {
+      const rows: number[][] = [];
+      for (let k = 0; k < 4; k++) {
+        const S0 = -40 + 10 * k;
+        for (const B of [1, -1]) {
+          const S = S0 + 10 * B;
+          const Pi = T * (correct ? S0 - 10 * B : S);
+          rows.push([k, B, 20, S, Pi, 2, 0.02, 0.1, 0.2, 0.01]);
+        }
+      }
+      return {
+        form: "thermoelectric",
+        header: ["Vg", "B", "G", "S", "Pi", "K", "u_G", "u_S", "u_Pi", "u_K"],
+        rows,
+        dataset: `    temperature: { value: ${T} }\n    field: { column: B }\n    point: [Vg]\n    units: { G: uS, S: uV/K, Pi: uV, K: pW/K }`,
+      };
+    };
+    const good = await runCheck(reciprocity, build(true));
+    expect(good.status).toBe("pass");
+    expect(good.assumptions.some((a) => a.startsWith("Currents count positive from terminal 1 into terminal 2"))).toBe(true);
+    const bad = await runCheck(reciprocity, build(false));
+    expect(bad.status).toBe("fail");
+    // |Π(B) − T S(−B)| = 2 T s1 = 40 µV with u = √(0.2² + (2·0.1)²) µV: z = 141.42 (exact construction).
+    expectClose(bad.values.max_abs_z as number, 40 / Math.hypot(0.2, 0.2), { rtol: 1e-9, source: "exact construction" });
+  });
+
   it("fails a significant violation L12(B) = 1.2 L21(−B) and reports the contract values", async () => {
     const r = await runCheck(reciprocity, casimirSweep(0.002, (row, k, B) => { if (k === 3 && B === 1) row[3] *= 1.2; }));
     expect(r.status).toBe("fail");

@@ -156,6 +156,20 @@ describe("loadCoefficients, onsager form", () => {
     expect(d.points[0].L).toEqual([[1, 2], [3, 4]]);
   });
 
+  it("converts declared units of the 2×2 charge–heat entries exactly (L11 in S K, L12 and L21 in A K, L22 in W K)", async () => {
+    const d = await load(`${ds}\n    units: { L11: uS K, L12: nA K, L21: nA*K, L22: pW K }`, "Vg,L11,L12,L21,L22\n0,3,2,2,5\n");
+    expect(d.points[0].L).toEqual([[3e-6, 2e-9], [2e-9, 5e-12]]);
+    expect(d.units).toEqual({ L11: "uS K", L12: "nA K", L21: "nA*K", L22: "pW K" });
+  });
+
+  it("refuses units for a matrix larger than 2×2", async () => {
+    const header = "L11,L12,L13,L21,L22,L23,L31,L32,L33";
+    const e = await failure(`${ds.replace("    point: [Vg]", "")}\n    units: { L11: uS K }`, `${header}\n1,0,0,0,1,0,0,0,1\n`);
+    expect(e.message).toBe(
+      "audit.yaml datasets[0].units.L11: units are accepted only for the 2×2 charge–heat matrix (L11 in S K, L12 and L21 in A K, L22 in W K); give the 3×3 entries in SI and drop units",
+    );
+  });
+
   it("refuses a parity list of the wrong length", async () => {
     const e = await failure(`${ds}\n    parity: [1, -1, 1]`, "Vg,L11,L12,L21,L22\n0,1,2,3,4\n");
     expect(e.message).toBe("audit.yaml datasets[0].parity: lists 3 parities but the matrix has 2 fluxes; give one +1 or -1 per flux");
