@@ -4,12 +4,12 @@
 //   npm run demo:generate
 import fs from "node:fs";
 import path from "node:path";
-import { qdHeatExchange, nwSwitchingWork } from "./demo/exchange.ts";
+import { qdHeatExchange, nwSwitchingWork, ddCountingBackaction } from "./demo/exchange.ts";
 import { abInterferometerSweep } from "./demo/coefficients.ts";
 import { vq5BiasSweep, lc60Series } from "./demo/sweep.ts";
 import type { DemoAudit } from "./demo/types.ts";
 
-const GENERATORS: (() => DemoAudit)[] = [qdHeatExchange, nwSwitchingWork, abInterferometerSweep, vq5BiasSweep, lc60Series];
+const GENERATORS: (() => DemoAudit)[] = [qdHeatExchange, nwSwitchingWork, ddCountingBackaction, abInterferometerSweep, vq5BiasSweep, lc60Series];
 
 const root = path.resolve(process.argv[2] ?? "audits");
 for (const generate of GENERATORS) {

@@ -11,6 +11,7 @@
  * realisations are reached.
  */
 export function hillTailShape(x: ArrayLike<number>, weight: ArrayLike<number> | null = null): number {
+  if (!weight) return hillUnweighted(x);
   const idx: number[] = [];
   let total = 0;
   for (let i = 0; i < x.length; i++) {
@@ -54,4 +55,20 @@ export function hillTailShape(x: ArrayLike<number>, weight: ArrayLike<number> | 
   if (k >= top.length) return Number.NaN;
   const threshold = Math.log(x[top[k]]);
   return sumLog / taken - threshold;
+}
+
+/** The same estimator for one realisation per value: a native sort of the positive values. */
+function hillUnweighted(x: ArrayLike<number>): number {
+  let count = 0;
+  for (let i = 0; i < x.length; i++) if (x[i] > 0) count++;
+  const values = new Float64Array(count);
+  let k = 0;
+  for (let i = 0; i < x.length; i++) if (x[i] > 0) values[k++] = x[i];
+  values.sort();
+  const M = Math.floor(Math.min(count / 5, 3 * Math.sqrt(count)));
+  if (M < 5) return Number.NaN;
+  const threshold = Math.log(values[count - M - 1]);
+  let sumLog = 0;
+  for (let j = count - M; j < count; j++) sumLog += Math.log(values[j]);
+  return sumLog / M - threshold;
 }

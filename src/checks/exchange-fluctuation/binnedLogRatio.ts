@@ -126,21 +126,42 @@ export function binnedLogRatio(sigma: ArrayLike<number>, weight: ArrayLike<numbe
     }
   }
   if (negTotal < minCount) return finish([], false, 0);
-  order.sort((a, b) => sigma[b] - sigma[a]); // ascending |Σ|
+  if (weight) order.sort((a, b) => sigma[b] - sigma[a]); // ascending |Σ|
+  else {
+    // One realisation per row: a native numeric sort of the values, then their rows are not needed for the edges.
+    const values = new Float64Array(order.length);
+    for (let j = 0; j < order.length; j++) values[j] = sigma[order[j]];
+    values.sort(); // most negative first
+    values.reverse(); // ascending |Σ|
+    return mirrorBins(sigma, null, minCount, negTotal, (j) => -values[j], values.length);
+  }
+  return mirrorBins(sigma, weight, minCount, negTotal, (j) => -sigma[order[j]], order.length, (j) => weight[order[j]]);
+}
+
+/** Bins in |Σ| with equal negative weight, given the negative side's |Σ| in ascending order. */
+function mirrorBins(
+  sigma: ArrayLike<number>,
+  weight: ArrayLike<number> | null,
+  minCount: number,
+  negTotal: number,
+  absAt: (j: number) => number,
+  count: number,
+  weightAt: (j: number) => number = () => 1,
+): LogRatio {
   const perBin = Math.max(minCount, negTotal / MAX_BINS);
   // Edges in |Σ| at equal negative weight.
   const edges: number[] = [0];
   let acc = 0;
-  for (let j = 0; j < order.length; j++) {
-    acc += weight ? weight[order[j]] : 1;
+  for (let j = 0; j < count; j++) {
+    acc += weightAt(j);
     const remaining = negTotal - acc;
-    if (acc >= perBin * (edges.length) && remaining >= perBin && j + 1 < order.length) {
-      const a = -sigma[order[j]];
-      const b = -sigma[order[j + 1]];
+    if (acc >= perBin * edges.length && remaining >= perBin && j + 1 < count) {
+      const a = absAt(j);
+      const b = absAt(j + 1);
       if (b > a) edges.push((a + b) / 2);
     }
   }
-  edges.push(-sigma[order[order.length - 1]] * (1 + 1e-12) + 1e-300);
+  edges.push(absAt(count - 1) * (1 + 1e-12) + 1e-300);
   const K = edges.length - 1;
   const nNeg = new Float64Array(K);
   const nPos = new Float64Array(K);

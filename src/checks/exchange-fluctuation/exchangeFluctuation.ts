@@ -43,7 +43,7 @@ function channelsOf(d: SamplesDataset): Channel[] {
   const out: Channel[] = [];
   if (d.config.work === "measured" && nonzero(d.W)) out.push({ key: "beta_bar", label: "β̄ (work)", feature: d.W, declared: d.affinity.beta_bar, unit: "1/J" });
   if (nonzero(d.Q)) out.push({ key: "a_Q", label: "a_Q (heat)", feature: d.Q, declared: d.affinity.a_Q, unit: "1/J" });
-  if (nonzero(d.dN)) out.push({ key: "a_N", label: "a_N (particles)", feature: d.dN, declared: d.affinity.a_N, unit: "1" });
+  if (nonzero(d.dN)) out.push({ key: "a_N", label: "a_N (particles)", feature: d.dN, declared: d.affinity.a_N, unit: "" });
   return out;
 }
 
@@ -137,7 +137,7 @@ export function exchangeFluctuationForDataset(d: SamplesDataset, ctx: CheckConte
       const se = joint!.standardErrors[j];
       fitted[c.key] = est;
       const p = normalTwoSidedP((est - c.declared) / se);
-      tests.push({ name: c.key, p, describe: `fitted ${c.key} = ${fmt(est)} ${c.unit} differs from the declared ${fmt(c.declared)} ${c.unit}` });
+      tests.push({ name: c.key, p, describe: `fitted ${c.key} = ${fmt(est)}${c.unit ? ` ${c.unit}` : ""} differs from the declared ${fmt(c.declared)}${c.unit ? ` ${c.unit}` : ""}` });
       coefficientRows.push({ coefficient: c.label, declared: c.declared, fitted: est, se, z: (est - c.declared) / se, p });
     });
   }
