@@ -19,10 +19,10 @@ const ROOT = path.resolve(path.dirname(fileURLToPath(import.meta.url)), "..", ".
 /** SHA-256 computed here with node:crypto, independently of the archive code. */
 const sha256Hex = (bytes: Buffer | string) => createHash("sha256").update(bytes).digest("hex");
 
-/** Run the CLI in a child process (for concurrency and kill tests). */
-function cli(args: string[], env: Record<string, string> = {}): Promise<{ code: number | null; signal: NodeJS.Signals | null; stdout: string; stderr: string }> {
+/** Publish in a child process (for concurrency and kill tests); exit status 2 on a refusal, as the CLI. */
+function publishInChild(auditDir: string, env: Record<string, string> = {}): Promise<{ code: number | null; signal: NodeJS.Signals | null; stdout: string; stderr: string }> {
   return new Promise((resolve) => {
-    const child = spawn(process.execPath, ["--import", "tsx", path.join(ROOT, "src", "cli", "main.ts"), ...args], {
+    const child = spawn(process.execPath, ["--import", "tsx", path.join(ROOT, "test", "archive", "publishProcess.ts"), auditDir], {
       cwd: ROOT,
       env: { ...process.env, ...env },
     });
@@ -160,7 +160,7 @@ describe("publishAudit", () => {
 
   it("lets exactly one of two publishes started at the same time take the next number", async () => {
     const a = makeTempArchive();
-    const [p, q] = await Promise.all([cli(["publish", a.auditDir]), cli(["publish", a.auditDir])]);
+    const [p, q] = await Promise.all([publishInChild(a.auditDir), publishInChild(a.auditDir)]);
     const codes = [p.code, q.code].sort();
     expect(codes).toEqual([0, 2]);
     const loser = p.code === 2 ? p : q;
@@ -215,7 +215,7 @@ describe("a publish that fails half-way", () => {
     await publishAudit(a.auditDir, { now: fixedClock("2026-11-30T09:00:00Z") });
     a.writeData(380, 1, "second batch");
     const before = snapshot(a.auditDir);
-    const killed = await cli(["publish", a.auditDir], { [KILL_AT_ENV]: "staged-manifest" });
+    const killed = await publishInChild(a.auditDir, { [KILL_AT_ENV]: "staged-manifest" });
     expect(killed.signal).toBe("SIGKILL");
     expect(listVersionNumbers(a.auditDir)).toEqual([1]);
     for (const [file, digest] of Object.entries(before)) expect(snapshot(a.auditDir)[file]).toBe(digest);
