@@ -7,9 +7,9 @@ import { tickLabelSvg } from "./tickLabel.ts";
 import { richTextSvg } from "./richText.ts";
 
 /*
- * Geometry in SVG user units. The figure is 560 units wide and printed 13 cm
- * wide, so 14-unit tick labels print at about 9 pt and 15-unit axis titles at
- * about 10 pt, the sizes of a journal figure; on a 375 px phone the labels are
+ * Geometry in SVG user units. The figure is 560 units wide and printed 11.5 cm
+ * wide, so 14-unit tick labels print at about 8 pt and 15-unit axis titles at
+ * about 9 pt, the sizes of a journal figure; on a 375 px phone the labels are
  * still about 9 px.
  */
 const W = 560;
