@@ -21,7 +21,9 @@ export const coefficientsDatasetSchema = z
     units: z.record(z.string(), text("a unit")).optional(),
     /** time-reversal parity of each flux, +1 or -1 (default +1: charge and heat). */
     parity: z.array(z.union([z.literal(1), z.literal(-1)])).optional(),
+    /** column plotted on the abscissa of sweep plots (default: the first `point` column). */
     sweep_variable: text("a CSV column name").optional(),
+    /** unit of the field column, for labels only (pairing uses the sign); default T. */
     field_unit: text().optional(),
     nominal: finite("").optional(),
   })

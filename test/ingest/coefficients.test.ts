@@ -78,6 +78,15 @@ describe("loadCoefficients, thermoelectric form", () => {
     );
   });
 
+  it("reports paired rows measured at different temperatures, and keeps the pair", async () => {
+    const ds = thermo.replace("temperature: { value: 2.0 }", "temperature: { column: T }");
+    const d = await load(ds, "Vg,B,T,G,S,Pi,K\n0.1,0.5,2.0,20,-30,-60,4\n0.1,-0.5,2.1,20,-30,-60,4\n");
+    expect(d.pairs).toEqual([[0, 1]]);
+    expect(d.findings.map((f) => f.message)).toEqual([
+      "rows 2 and 3 (Vg = 0.1, ±0.5 T) were measured at 2 K and 2.1 K; they are paired at their mean temperature",
+    ]);
+  });
+
   it("sets Π(B) = T S(−B) from the partner when there is no Pi column", async () => {
     const d = await load(thermo.replace(", Pi: uV", ""), "Vg,B,G,S,K\n0.1,0.5,20,-30,4\n0.1,-0.5,20,-10,4\n");
     expect(d.kelvinAssumed).toBe(true);

@@ -299,15 +299,18 @@ function asymmetryPlot(d: CoefficientsDataset, results: readonly ComparisonResul
 
 function comparisonTable(d: CoefficientsDataset, results: readonly ComparisonResult[]): TableSpec {
   const kelvin = d.form === "thermoelectric";
+  // Volts with a readable prefix in Kelvin form; Onsager entries stay in SI (entries of one table may differ in unit).
+  const { factor, prefix } = kelvin ? engineeringScale(results.flatMap((r) => [r.x, r.y])) : { factor: 1, prefix: "" };
+  const unit = kelvin ? `${prefix}V` : "SI";
   return {
     id: "comparisons",
     title: kelvin ? "Kelvin relation at each operating point" : "Reciprocity at each operating point",
     columns: [
       { key: "point", label: "Operating point" },
       { key: "relation", label: "Relation" },
-      { key: "x", label: "Left side", unit: kelvin ? "V" : "SI" },
-      { key: "y", label: "Right side", unit: kelvin ? "V" : "SI" },
-      { key: "u", label: "u(difference)", unit: kelvin ? "V" : "SI" },
+      { key: "x", label: "Left side", unit },
+      { key: "y", label: "Right side", unit },
+      { key: "u", label: "u(difference)", unit },
       { key: "normalised", label: "Asymmetry / scale", unit: "1" },
       { key: "z", label: "z" },
       { key: "p_holm", label: "Holm p" },
@@ -317,9 +320,9 @@ function comparisonTable(d: CoefficientsDataset, results: readonly ComparisonRes
     rows: results.map((r) => ({
       point: pointLabel(d, d.points[r.a]),
       relation: r.relation,
-      x: r.x,
-      y: r.y,
-      u: r.u,
+      x: r.x * factor,
+      y: r.y * factor,
+      u: r.u === null ? null : r.u * factor,
       normalised: r.normalised,
       z: r.z,
       p_holm: r.pHolm,
@@ -378,7 +381,9 @@ export function reciprocityForDataset(d: CoefficientsDataset, ctx: CheckContext)
       ? `Rows at +B are paired with the row at −B of the same operating point (${d.config.point.length ? d.config.point.join(", ") : "no point columns: all rows at one point"}); rows at B = 0 are compared with themselves.`
       : "No field column: every row is taken at zero magnetic field (time-reversal symmetric), so L_ij = L_ji at each row.",
     "The standard uncertainties of different entries are independent (no covariance columns), and the compared quantities are normally distributed.",
-    `The scale of a pair is √(Ls_ii Ls_jj) of the symmetric part (the largest off-diagonal entry positivity allows), averaged over the two rows; the margin is ${margin} of it.`,
+    d.form === "thermoelectric"
+      ? `The scale of a pair is √(Ls_11 Ls_22) of the symmetric part (the largest off-diagonal entry positivity allows), expressed in volts as √(L22/L11) by dividing by G T, averaged over the two rows; the margin is ${margin} of it.`
+      : `The scale of a pair is √(Ls_ii Ls_jj) of the symmetric part (the largest off-diagonal entry positivity allows), averaged over the two rows; the margin is ${margin} of it.`,
   ];
   if (d.form === "thermoelectric") {
     assumptions.push("The conductance is even in the field, G(B) = G(−B), so L21(B) = L12(−B) reduces to Π(B) = T S(−B).");
