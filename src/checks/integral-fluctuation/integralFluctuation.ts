@@ -5,6 +5,7 @@ import { normalQuantile } from "../../stats/normal.ts";
 import { fmt, fmtInterval, numberOption, perDataset } from "../helpers.ts";
 import type { CheckContext, CheckDefinition, CheckResult, Status } from "../types.ts";
 import type { PlotSpec } from "../plotSpec.ts";
+import type { Rng } from "../../stats/rng.ts";
 
 export const MIN_REALISATIONS = 30;
 
@@ -13,12 +14,23 @@ const MAX_EXPONENT = 600;
 
 /**
  * Running estimate of ⟨e^−Σ⟩ against the number of realisations used, in file
- * order (histogram cells in file order, each adding its count), with a band of
+ * order (histogram cells in a seeded random order, each adding its count), with a band of
  * ± z standard errors from Welford's running variance (Welford,
  * Technometrics 4, 419 (1962)). Sampled at about 120 logarithmically spaced counts.
  */
-function runningEstimatePlot(d: SamplesDataset, shift: number, z: number, confidence: number): PlotSpec {
+function runningEstimatePlot(d: SamplesDataset, shift: number, z: number, confidence: number, rng: Rng): PlotSpec {
   const sigma = d.sigma;
+  // Histogram cells are often sorted by value; visit them in a seeded random order (Fisher–Yates) instead.
+  const order = new Uint32Array(sigma.length);
+  for (let i = 0; i < order.length; i++) order[i] = i;
+  if (d.weight) {
+    for (let i = order.length - 1; i > 0; i--) {
+      const j = rng.int(i + 1);
+      const t = order[i];
+      order[i] = order[j];
+      order[j] = t;
+    }
+  }
   const total = d.realisations;
   const marks: number[] = [];
   for (let k = 0; k <= 120; k++) marks.push(Math.round(Math.exp(Math.log(Math.min(10, total)) + ((Math.log(total) - Math.log(Math.min(10, total))) * k) / 120)));
@@ -31,7 +43,8 @@ function runningEstimatePlot(d: SamplesDataset, shift: number, z: number, confid
   let mean = 0;
   let m2 = 0;
   let next = 0;
-  for (let i = 0; i < sigma.length && next < marks.length; i++) {
+  for (let k = 0; k < sigma.length && next < marks.length; k++) {
+    const i = order[k];
     const w = d.weight ? d.weight[i] : 1;
     if (w === 0) continue;
     const x = Math.exp(-sigma[i] - shift);
@@ -53,7 +66,7 @@ function runningEstimatePlot(d: SamplesDataset, shift: number, z: number, confid
   return {
     id: "running-exp-average",
     title: "Running estimate of ⟨e^−Σ⟩",
-    alt: `The average of e^−Σ over the first n realisations${d.weight ? " (histogram cells in file order)" : " in file order"}, for n from ${xs[0] ?? 0} to ${total} on a logarithmic axis, with a ${confidence * 100}% normal band from the running standard error; the dashed line is the exact value 1. A curve that still drifts or jumps at large n has not converged; sudden upward jumps are rare realisations with negative Σ.`,
+    alt: `The average of e^−Σ over the first n realisations${d.weight ? " (histogram cells in a seeded random order, each adding its count)" : " in file order"}, for n from ${xs[0] ?? 0} to ${total} on a logarithmic axis, with a ${confidence * 100}% normal band from the running standard error; the dashed line is the exact value 1. A curve that still drifts or jumps at large n has not converged; sudden upward jumps are rare realisations with negative Σ.`,
     x: { label: "Realisations used", scale: "log" },
     y: { label: "⟨e^−Σ⟩" },
     series: [
@@ -152,7 +165,7 @@ export function integralFluctuationForDataset(d: SamplesDataset, ctx: CheckConte
       String.raw`N \gtrsim e^{\langle \Sigma \rangle} \quad\text{(sample size needed to resolve the average)}`,
     ],
     tables: [],
-    plots: [runningEstimatePlot(d, shift, z, confidence)],
+    plots: [runningEstimatePlot(d, shift, z, confidence, ctx.rngFor(d.sha256, "running-order"))],
   };
 }
 
