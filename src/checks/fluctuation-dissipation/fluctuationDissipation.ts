@@ -17,6 +17,7 @@ import {
   type EstimatedMatrix,
   type EstimatedVector,
   type ResponseFit,
+  WeightOverflowError,
 } from "./responseFit.ts";
 import { judgeComparisons, relationSentence, type Comparison, type RelationId } from "./relations.ts";
 import { entryUnit, fluxUnit, sliceplots, texColumn, texMatrix, texUnits } from "./presentation.ts";
@@ -138,6 +139,16 @@ function sweepResult(sweep: Sweep, ctx: CheckContext): CheckResult {
   try {
     r = fitResponse(sweep, ctx.settings.alpha);
   } catch (err) {
+    if (err instanceof WeightOverflowError) {
+      return {
+        ...base(sweep.name),
+        status: "inconclusive",
+        summary: `The weighted fluxes of sweep "${sweep.name}" cannot be formed: ${err.message}.`,
+        reason: `${err.message}; such work values make the exponential average meaningless at any sample size (Jarzynski, Phys. Rev. E 73, 046105 (2006)); check the work column's unit and sign.`,
+        values: { datasets: ids },
+        criteria: { alpha, margin, confidence },
+      };
+    }
     if (err instanceof RankDeficientError || err instanceof SingularCovarianceError) {
       return {
         ...base(sweep.name),

@@ -54,6 +54,11 @@ export interface SweepPoint {
   covariance: number[][];
 }
 
+/** A realisation's weight exp(−β̄W) is beyond double precision (work below about −700 k_B T̄). */
+export class WeightOverflowError extends Error {
+  override name = "WeightOverflowError";
+}
+
 /** Output layout: J (m), then the covariances M (upper triangle, m(m+1)/2), then J~ (m) when there is work. */
 function layout(m: number, work: boolean): ResponseFit["outputs"] & { count: number } {
   const J = Array.from({ length: m }, (_, i) => i);
@@ -77,6 +82,9 @@ export function sweepPoint(d: SamplesDataset, channels: Channel[], tau: number, 
     for (let a = 0; a < m; a++) for (let b = a; b < m; b++) f[lay.M[a][b]] = (unbias * (cols[a][i] - xBar[a]) * (cols[b][i] - xBar[b])) / (2 * tau);
     if (lay.Jw) {
       const factor = (1 + Math.exp(-bb * d.W[i])) / (2 * tau);
+      if (!Number.isFinite(factor)) {
+        throw new WeightOverflowError(`${d.id}: exp(−β̄W) overflows at W = ${d.W[i]} J (β̄W = ${bb * d.W[i]}); the weighted flux cannot be formed in double precision`);
+      }
       for (let c = 0; c < m; c++) f[lay.Jw[c]] = cols[c][i] * factor;
     }
     return f;
