@@ -118,6 +118,21 @@ describe("reciprocity", () => {
     expectClose(r.values.p_value as number, 12 * 0.003731, { rtol: 2e-3, source: "Holm (1979) with m = 12; 2(1 − Φ(2.9)) = 0.003731 (NIST normal table, 4 digits)" });
   });
 
+  it("refers differences to Student's t when the uncertainties carry few degrees of freedom (option dof)", async () => {
+    // One B = 0 row, difference 3·u(difference): with ν = 2, P(|T| > 3) = 1 − 3/√(2 + 9) (exact for ν = 2) = 0.09547.
+    const u = 0.01;
+    const t: TableSpecInput = {
+      form: "onsager",
+      header: ["L11", "L12", "L21", "L22", "u_L11", "u_L12", "u_L21", "u_L22"],
+      rows: [[1, 0.3 + 3 * u * Math.SQRT2, 0.3, 1, u, u, u, u]],
+      dataset: "    temperature: { value: 1.0 }",
+    };
+    const r = await runCheck(reciprocity, t, { dof: 2 });
+    expectClose(r.values.p_value as number, 1 - 3 / Math.sqrt(11), { rtol: 1e-9, source: "exact t distribution with ν = 2" });
+    const z = await runCheck(reciprocity, t);
+    expectClose(z.values.p_value as number, 0.0026998, { rtol: 1e-4, source: "2(1 − Φ(3)) = 0.0026998 (computed; consistent with the NIST/SEMATECH §1.3.6.7.1 table area 0..3 = 0.49865)" });
+  });
+
   it("cannot pass without uncertainties, and says why", async () => {
     const t = casimirSweep(0);
     const r = await runCheck(reciprocity, { ...t, header: t.header.slice(0, 6), rows: t.rows.map((row) => row.slice(0, 6)) });

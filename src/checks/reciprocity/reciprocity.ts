@@ -13,6 +13,7 @@ import type { CoefficientsDataset } from "../../ingest/types.ts";
 import { holm } from "../../stats/holm.ts";
 import { tost } from "../../stats/tost.ts";
 import { normalQuantile, normalTwoSidedP } from "../../stats/normal.ts";
+import { studentTTwoSidedP } from "../../stats/studentT.ts";
 import { SIGN_CONVENTION } from "../../physics/thermoelectric.ts";
 import { fmt, numberOption, perDataset } from "../helpers.ts";
 import type { CheckContext, CheckDefinition, CheckResult, Status, TableSpec } from "../types.ts";
@@ -114,12 +115,13 @@ export function comparisonsOf(d: CoefficientsDataset): Comparison[] {
 }
 
 /** z-test, Holm across the family, TOST against ±margin·scale for every comparison. */
-export function testComparisons(cs: readonly Comparison[], alpha: number, confidence: number, margin: number): ComparisonResult[] {
+export function testComparisons(cs: readonly Comparison[], alpha: number, confidence: number, margin: number, dof = Infinity): ComparisonResult[] {
   const withU = cs.map((c) => {
     if (c.u === null) return { z: null, p: null };
     if (c.u === 0) return { z: c.difference === 0 ? 0 : Math.sign(c.difference) * Infinity, p: c.difference === 0 ? 1 : 0 };
     const z = c.difference / c.u;
-    return { z, p: normalTwoSidedP(z) };
+    // Known standard uncertainties: normal law; uncertainties estimated from few repeats: Student t with `dof`.
+    return { z, p: dof === Infinity ? normalTwoSidedP(z) : studentTTwoSidedP(z, dof) };
   });
   const tested = withU.map((w, k) => ({ w, k })).filter((e) => e.w.p !== null);
   const h = holm(tested.map((e) => e.w.p as number), alpha);
@@ -133,7 +135,7 @@ export function testComparisons(cs: readonly Comparison[], alpha: number, confid
     let interval: [number, number] | null = null;
     let equivalent = false;
     if (c.u !== null && Number.isFinite(marginAbs) && marginAbs > 0) {
-      const t = tost({ estimate: c.difference, se: c.u, lower: -marginAbs, upper: marginAbs, alpha: eqAlpha });
+      const t = tost({ estimate: c.difference, se: c.u, lower: -marginAbs, upper: marginAbs, alpha: eqAlpha, df: dof });
       tostP = t.p;
       interval = t.interval;
       equivalent = t.equivalent;
@@ -344,6 +346,8 @@ const REFERENCES = [
 export function reciprocityForDataset(d: CoefficientsDataset, ctx: CheckContext): CheckResult {
   const { alpha, confidence } = ctx.settings;
   const margin = numberOption(ctx, "margin", ctx.settings.margin, (v) => v > 0 && v < 1);
+  // Degrees of freedom of the stated uncertainties (option `dof`); default: known standard uncertainties.
+  const dof = numberOption(ctx, "dof", Infinity, (v) => v > 0);
   const base = {
     check: "reciprocity" as const,
     dataset: d.id,
@@ -370,7 +374,7 @@ export function reciprocityForDataset(d: CoefficientsDataset, ctx: CheckContext)
       plots: [],
     };
   }
-  const results = testComparisons(comparisonsOf(d), alpha, confidence, margin);
+  const results = testComparisons(comparisonsOf(d), alpha, confidence, margin, dof);
   const decision = decideReciprocity(d, results, alpha, confidence, margin);
   const zs = results.map((r) => r.z).filter((z): z is number => z !== null);
   const ps = results.map((r) => r.pHolm).filter((p): p is number => p !== null);
@@ -380,7 +384,9 @@ export function reciprocityForDataset(d: CoefficientsDataset, ctx: CheckContext)
     d.hasField
       ? `Rows at +B are paired with the row at −B of the same operating point (${d.config.point.length ? d.config.point.join(", ") : "no point columns: all rows at one point"}); rows at B = 0 are compared with themselves.`
       : "No field column: every row is taken at zero magnetic field (time-reversal symmetric), so L_ij = L_ji at each row.",
-    "The standard uncertainties of different entries are independent (no covariance columns), and the compared quantities are normally distributed.",
+    dof === Infinity
+      ? "The standard uncertainties of different entries are independent (no covariance columns) and known: differences are referred to the normal law."
+      : `The standard uncertainties of different entries are independent (no covariance columns) and carry ${dof} degrees of freedom: differences are referred to Student's t.`,
     d.form === "thermoelectric"
       ? `The scale of a pair is √(Ls_11 Ls_22) of the symmetric part (the largest off-diagonal entry positivity allows), expressed in volts as √(L22/L11) by dividing by G T, averaged over the two rows; the margin is ${margin} of it.`
       : `The scale of a pair is √(Ls_ii Ls_jj) of the symmetric part (the largest off-diagonal entry positivity allows), averaged over the two rows; the margin is ${margin} of it.`,
