@@ -121,6 +121,24 @@ describe("linear-growth on samples datasets sharing a series", () => {
     expect(result.summary).toContain("the window reaches the longest contact time sampled, so where finite-size effects set in is not yet seen");
   });
 
+  it("copes with contact times at which nothing has crossed yet (zero standard error)", () => {
+    const rng = rngFromText("test:lg:delayed");
+    const taus = [1, 2, 3, 4, 5, 6, 7, 8, 9].map((x) => x * 1e-9);
+    const datasets = taus.map((tau, k) => {
+      // Nothing crosses before 2.5 ns; afterwards <Q> = E0 (τ − 2.5 ns)/ns with unit-variance scatter per ns of contact.
+      const grown = Math.max(0, tau * 1e9 - 2.5);
+      const q = grown === 0 ? new Float64Array(2000) : tiltedGaussian(rng, [[2 * grown]], [1], 20000)[0];
+      return samplesDataset({ id: `d-${k}`, a_Q: 1 / E0, a_N: 0, beta_bar: 1 / E0, tau, series: "delayed", W: null, Q: q.map((v) => v * E0), dN: null });
+    });
+    const [result] = run(datasets);
+    const q = channel(result, "Q");
+    expect(Number.isFinite(q.flux)).toBe(true);
+    // Exact construction: the first contact time on the ramp is 3 ns; within one sampling step (1 ns).
+    expect(Math.abs(q.window.from - 3e-9)).toBeLessThanOrEqual(1e-9 * (1 + 1e-9));
+    expectClose(q.flux, E0 * 1e9, { atol: 4 * q.flux_se, source: "exact tilted Gaussian, slope E0 per ns; 4 standard errors" });
+    expect(q.transient).toBe(true);
+  });
+
   it("is inconclusive with too few contact times and says what to add", () => {
     const [result] = run(samplesSeries([1e-9, 2e-9, 3e-9], 1000, "test:lg:few"));
     expect(result.status).toBe("inconclusive");

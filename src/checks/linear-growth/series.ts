@@ -25,6 +25,20 @@ export type SeriesOrProblem = { series: GrowthSeries } | { name: string; problem
 
 const nonZero = (y: ArrayLike<number>) => Array.prototype.some.call(y, (v: number) => v !== 0);
 
+/**
+ * Standard errors a weighted fit can use. A dataset whose transfers are all
+ * equal (e.g. nothing has crossed yet at a short contact time) has a zero
+ * standard error; it gets the smallest positive one of the series instead,
+ * so that it neither dominates the fit nor drops out. With no positive error
+ * at all the noise is estimated from the curve (null).
+ */
+function usableErrors(se: number[]): number[] | null {
+  const positive = se.filter((x) => x > 0 && Number.isFinite(x));
+  if (positive.length === 0) return null;
+  const floor = Math.min(...positive);
+  return se.map((x) => (x > 0 && Number.isFinite(x) ? x : floor));
+}
+
 /** Samples datasets sharing `series:`: the mean transfer of each with its standard error, ordered by contact time. */
 export function seriesFromSamples(name: string, datasets: SamplesDataset[]): SeriesOrProblem {
   const ids = datasets.map((d) => d.id);
@@ -45,7 +59,7 @@ export function seriesFromSamples(name: string, datasets: SamplesDataset[]): Ser
   for (const c of channels) {
     if (!c.present) continue;
     const m = sorted.map((d) => weightedMoments(c.of(d), d.weight));
-    curves.push({ channel: c.channel, t, y: m.map((x) => x.mean), u: m.map((x) => x.standardError) });
+    curves.push({ channel: c.channel, t, y: m.map((x) => x.mean), u: usableErrors(m.map((x) => x.standardError)) });
   }
   if (curves.length === 0) return { name, problem: `series "${name}": every recorded transfer is zero`, datasets: ids };
   return { series: { name, source: "samples", datasets: ids, curves, energyUnit: sorted[0].energyUnit } };
