@@ -115,7 +115,7 @@ export function sliceplots(r: ResponseFit, L: EstimatedMatrix, s: EstimatedVecto
       plots.push({
         id: `slice-${ci}-${cj}`,
         title: `${CHANNEL_LABEL[ci]} against ${AFFINITY_LABEL[cj].toLowerCase()}`,
-        alt: `${CHANNEL_LABEL[ci]} of each of the ${r.points.length} datasets of the sweep against ${AFFINITY_LABEL[cj].toLowerCase()}, with the other affinities' share moved to their sweep mean; the solid line is the slice of the fitted plane (slope ${fmt(L.value[i][j])} ${entryUnit(ci, cj)}), the dashed line the prediction of the second moments (slope ${fmt(Lf.value[i][j])} ${entryUnit(ci, cj)}). The two should coincide${Lw ? " for the weighted fluxes J~" : ""} when the fluctuation–dissipation relation holds.`,
+        alt: `${CHANNEL_LABEL[ci]} of each of the ${r.points.length} datasets of the sweep against ${AFFINITY_LABEL[cj].toLowerCase()}, with the other affinities' share moved to their sweep mean; the solid line is the slice of the fitted plane (slope ${fmt(L.value[i][j])} ${entryUnit(ci, cj)}), the dashed line the prediction of the second moments (slope ${fmt(Lf.value[i][j])} ${entryUnit(ci, cj)}). The two should coincide${Lw ? " for the weighted fluxes J~" : ""} when the fluctuation–dissipation relation holds.${r.model === "quadratic" ? " The fit has quadratic terms here, so the lines are tangents at zero affinity and the points curve away from them." : ""}`,
         x: { label: AFFINITY_LABEL[cj], ...(cj === "Q" ? { unit: `1/${units.name}` } : {}) },
         y: { label: CHANNEL_LABEL[ci], unit: ci === "Q" ? `${units.name}/s` : "1/s" },
         series,
