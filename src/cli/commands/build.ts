@@ -17,7 +17,8 @@ export function registerBuild(program: Command, setExit: (code: number) => void)
       for (const b of outcome.broken) process.stderr.write(`could not audit ${b.folder}:\n${b.error}\n`);
       const failed = outcome.audits.filter((a) => a.stamp === "fail").length;
       process.stderr.write(`built ${outcome.audits.length} audit report(s)${failed ? `, ${failed} with a failed check` : ""}\n`);
-      process.stdout.write(`site index: ${path.relative(process.cwd(), outcome.index) || outcome.index}\n`);
+      const relative = path.relative(process.cwd(), outcome.index);
+      process.stdout.write(`site index: ${relative.startsWith("..") ? outcome.index : relative}\n`);
       setExit(outcome.broken.length > 0 ? EXIT.input : EXIT.ok);
     });
 }
