@@ -85,4 +85,10 @@ describe("loadCumulants", () => {
       'data/curve.csv:1: no column "electrons" (needed for dN, the mean particles gained by B); the header has "tau", "dN"',
     );
   });
+
+  it("refuses an unknown role and an unknown time unit in audit.yaml, naming line and key", async () => {
+    await expect(load("    columns: { time: t }\n    time_unit: min\n", "tau,Q\n1,2\n")).rejects.toThrow(
+      'audit.yaml:8 datasets[0].columns.time: is not a role; roles are tau, Q, dN, u_Q, u_dN, found "t"\naudit.yaml:9 datasets[0].time_unit: must be one of s, ms, us, µs, ns, ps, fs, hbar/J, found "min"',
+    );
+  });
 });
