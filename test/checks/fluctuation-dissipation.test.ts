@@ -220,6 +220,14 @@ describe("fluctuation-dissipation verdicts and applicability", () => {
     );
   });
 
+  it("is not applicable when only some datasets record particles", () => {
+    const ds = noWorkSweep("test:fd:mixed", 100);
+    ds[2] = { ...ds[2], hasParticleColumn: false };
+    const result = run(ds);
+    expect(result.status).toBe("not-applicable");
+    expect(result.reason).toBe('sweep "bias-sweep": tilt-2 map no particle column while other datasets record particle transfer; map dN in every dataset of the sweep (or in none).');
+  });
+
   it("returns nothing when no dataset names a sweep", () => {
     const ds = noWorkSweep("test:fd:none", 50).map((d) => ({ ...d, config: { ...d.config, sweep: undefined } }));
     expect(runFluctuationDissipation(auditOf(ds), ctx)).toEqual([]);

@@ -74,6 +74,13 @@ export function prepareSweep(name: string, datasets: SamplesDataset[]): SweepOrP
   if (datasets.some((d) => anyNonZero(d.Q, d.weight))) channels.push("Q");
   if (datasets.some((d) => d.hasParticleColumn && anyNonZero(d.dN, d.weight))) channels.push("dN");
   if (channels.length === 0) return { problem: `sweep "${name}": every recorded transfer is zero`, datasets: ids };
+  const noParticles = datasets.filter((d) => !d.hasParticleColumn).map((d) => d.id);
+  if (channels.includes("dN") && noParticles.length) {
+    return {
+      problem: `sweep "${name}": ${list(noParticles)} map no particle column while other datasets record particle transfer; map dN in every dataset of the sweep (or in none)`,
+      datasets: ids,
+    };
+  }
   const work = datasets.some((d) => anyNonZero(d.W, d.weight));
   if (work && fields[0] !== 0) {
     return {
