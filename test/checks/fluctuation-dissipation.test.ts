@@ -228,6 +228,25 @@ describe("fluctuation-dissipation verdicts and applicability", () => {
     expect(result.reason).toBe('sweep "bias-sweep": tilt-2 map no particle column while other datasets record particle transfer; map dN in every dataset of the sweep (or in none).');
   });
 
+  it("with a magnetic field compares only the symmetric part of L with the fluctuation matrix", () => {
+    const ds = noWorkSweep("test:fd:field", 40000).map((d) => ({ ...d, config: { ...d.config, field: 0.5 } }));
+    const result = run(ds);
+    // physics §3 (Saito & Utsumi 2008): second moments fix only (L + L^T)/2 at B ≠ 0; no reciprocity test at one field.
+    expect((result.values.comparisons as { label: string }[]).map((c) => c.label)).toEqual([
+      "sym L[Q,Q] − L_fluct[Q,Q]",
+      "sym L[Q,N] − L_fluct[Q,N]",
+      "sym L[N,N] − L_fluct[N,N]",
+    ]);
+    expect(result.status).toBe("pass");
+  });
+
+  it("is not applicable when the datasets of a sweep sit at different fields", () => {
+    const ds = noWorkSweep("test:fd:fields", 100).map((d, k) => ({ ...d, config: { ...d.config, field: k === 0 ? 0.5 : 0 } }));
+    expect(run(ds).reason).toBe(
+      'sweep "bias-sweep": the magnetic fields differ (tilt-0: 0.5 T, tilt-1: 0 T, tilt-2: 0 T, tilt-3: 0 T, tilt-4: 0 T, tilt-5: 0 T); a sweep shares one field.',
+    );
+  });
+
   it("returns nothing when no dataset names a sweep", () => {
     const ds = noWorkSweep("test:fd:none", 50).map((d) => ({ ...d, config: { ...d.config, sweep: undefined } }));
     expect(runFluctuationDissipation(auditOf(ds), ctx)).toEqual([]);
