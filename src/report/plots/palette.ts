@@ -9,7 +9,8 @@
  * templates/assets/style.css) with these values as the fallback.
  */
 export const PALETTE = ["#0072B2", "#D55E00", "#009E73", "#CC79A7", "#000000", "#E69F00", "#56B4E9"];
-export const MARKERS = ["circle", "square", "triangle", "diamond", "cross"] as const;
+/** As many shapes as colours, so no two of the first seven series share a marker. */
+export const MARKERS = ["circle", "square", "triangle", "diamond", "cross", "triangle-down", "plus"] as const;
 export const DASHES: Record<string, string> = { solid: "", dashed: "6 4", dotted: "2 3" };
 /** Dash patterns given in turn to data lines that do not ask for a style. */
 export const LINE_CYCLE = ["", "9 3", "2 3", "9 3 2 3"];

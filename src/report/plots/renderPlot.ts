@@ -111,6 +111,10 @@ function marker(kind: (typeof MARKERS)[number], x: number, y: number): string {
       return `<path d="M${f2(x)},${f2(y - r * 1.3)}l${f2(r * 1.3)},${f2(r * 1.3)}l${f2(-r * 1.3)},${f2(r * 1.3)}l${f2(-r * 1.3)},${f2(-r * 1.3)}z"/>`;
     case "cross":
       return `<path d="M${f2(x - r)},${f2(y - r)}l${f2(2 * r)},${f2(2 * r)}m0,${f2(-2 * r)}l${f2(-2 * r)},${f2(2 * r)}" fill="none" stroke="currentColor" stroke-width="1.8"/>`;
+    case "triangle-down":
+      return `<path d="M${f2(x)},${f2(y + r * 1.25)}l${f2(r * 1.15)},${f2(-r * 2)}h${f2(-r * 2.3)}z"/>`;
+    case "plus":
+      return `<path d="M${f2(x - r * 1.2)},${f2(y)}h${f2(2.4 * r)}M${f2(x)},${f2(y - r * 1.2)}v${f2(2.4 * r)}" fill="none" stroke="currentColor" stroke-width="2"/>`;
   }
 }
 
