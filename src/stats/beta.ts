@@ -8,34 +8,13 @@
  * (x < (a + 1)/(a + b + 2)), as in Press et al., Numerical Recipes, 3rd ed.,
  * §6.4. The complement y = 1 − x can be passed separately so that callers
  * that know it exactly (Student t: y = t²/(ν + t²)) lose no digits.
+ * ln Γ comes from gamma.ts (Lanczos, g = 7).
  */
-
-// Lanczos approximation with g = 7, n = 9 (coefficients of P. Godfrey, as
-// used widely; relative error below 1e-15 for Re z > 0.5). Lanczos, SIAM J.
-// Numer. Anal. B 1, 86 (1964).
-const LANCZOS_G = 7;
-const LANCZOS = [
-  0.99999999999980993, 676.5203681218851, -1259.1392167224028, 771.32342877765313, -176.61502916214059, 12.507343278686905,
-  -0.13857109526572012, 9.9843695780195716e-6, 1.5056327351493116e-7,
-];
-const HALF_LOG_TWO_PI = 0.91893853320467274178;
-
-/** ln Γ(z) for z > 0 (Lanczos; reflection is not needed for positive arguments). */
-function logGammaPositive(z: number): number {
-  if (z < 0.5) {
-    // Γ(z) = Γ(z + 1)/z keeps the Lanczos sum in its accurate range.
-    return logGammaPositive(z + 1) - Math.log(z);
-  }
-  const x = z - 1;
-  let sum = LANCZOS[0];
-  for (let i = 1; i < LANCZOS.length; i++) sum += LANCZOS[i] / (x + i);
-  const t = x + LANCZOS_G + 0.5;
-  return HALF_LOG_TWO_PI + (x + 0.5) * Math.log(t) - t + Math.log(sum);
-}
+import { logGamma } from "./gamma.ts";
 
 /** ln B(a, b) = ln Γ(a) + ln Γ(b) − ln Γ(a + b), a, b > 0. */
 export function logBeta(a: number, b: number): number {
-  return logGammaPositive(a) + logGammaPositive(b) - logGammaPositive(a + b);
+  return logGamma(a) + logGamma(b) - logGamma(a + b);
 }
 
 const TINY = 1e-300;
