@@ -1,5 +1,5 @@
 import { z } from "zod";
-import { datasetId, finite, positive, relativeFile, text } from "./common.ts";
+import { datasetId, positive, relativeFile, text } from "./common.ts";
 
 const temperatureSchema = z.union([z.object({ column: text("a CSV column name") }).strict(), z.object({ value: positive("kelvin") }).strict()], {
   errorMap: () => ({ message: "must be { column: <name> } or { value: <kelvin> }" }),
@@ -25,7 +25,6 @@ export const coefficientsDatasetSchema = z
     sweep_variable: text("a CSV column name").optional(),
     /** unit of the field column, for labels only (pairing uses the sign); default T. */
     field_unit: text().optional(),
-    nominal: finite("").optional(),
   })
   .strict();
 
