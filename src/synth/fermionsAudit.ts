@@ -8,7 +8,7 @@ import type { LatticeKind, LatticeSpec } from "./lattice.ts";
 import { parseParameters, type ParameterValues, type SynthParameter } from "./parameters.ts";
 import { particleCountingDistribution } from "./particleCounting.ts";
 import { betaPerMeV, fieldForPeierlsPhase, secondsToHbarPerMeV } from "./units.ts";
-import { runBlocks } from "./workerPool.ts";
+import { runBlocks, runBlocksInThread } from "./workerPool.ts";
 
 /** Published sources of the model and the methods, cited in the code, the audit.yaml and expected.json. */
 export const FERMION_REFERENCES = [
@@ -70,7 +70,28 @@ export interface RunOptions {
   onProgress?: (done: number, total: number) => void;
 }
 
+/** Simulate with worker threads (as the command line does). */
 export async function synthFermions(raw: Record<string, string | undefined>, options: RunOptions = {}): Promise<SynthAudit> {
+  const plan = planFermions(raw);
+  const columns = await runBlocks(plan.task, plan.samples, plan.seed, { workers: options.workers, onProgress: options.onProgress });
+  return plan.finish(columns);
+}
+
+/** Simulate in this thread, synchronously; the same data as synthFermions for the same parameters. */
+export function synthFermionsInThread(raw: Record<string, string | undefined>): SynthAudit {
+  const plan = planFermions(raw);
+  return plan.finish(runBlocksInThread(plan.task, plan.samples, plan.seed));
+}
+
+interface FermionPlan {
+  task: ReturnType<typeof fermionTask>;
+  samples: number;
+  seed: string;
+  finish(columns: Float64Array[]): SynthAudit;
+}
+
+/** Everything but the sampling: parameters, the model, its exact expectations; `finish` writes the audit. */
+function planFermions(raw: Record<string, string | undefined>): FermionPlan {
   const v = parseParameters(FERMION_PARAMETERS, raw);
   const A = latticeFrom(v, "a");
   const B = latticeFrom(v, "b");
@@ -101,46 +122,47 @@ export async function synthFermions(raw: Record<string, string | undefined>, opt
   // Klich's formula costs (n + 1)/2 determinants of order n; beyond a few hundred modes it is left out.
   const counting = system.n <= KLICH_MAX_MODES ? particleCountingDistribution(system, u) : null;
   const samples = v.samples as number;
-  const [dE_A, dE_B, dN] = await runBlocks(fermionTask(system, u), samples, String(v.seed), {
-    workers: options.workers,
-    onProgress: options.onProgress,
-  });
-  const a = 1e-9 * (v["lattice-constant"] as number);
-  const field = flux !== 0 ? fieldForPeierlsPhase(flux, a * a) : null;
-  const affinity = {
-    beta_bar_per_meV: (betaPerMeV(TA) + betaPerMeV(TB)) / 2,
-    a_Q_per_meV: betaPerMeV(TB) - betaPerMeV(TA),
-    a_N: betaPerMeV(TA) * muA - betaPerMeV(TB) * muB,
-  };
-  const se = (i: number) => Math.sqrt(moments.covariance[i][i] / samples);
-  const expected = {
-    model: "fermions",
-    about:
-      "Exact expectations of the simulated two-point measurement, computed from single-particle matrices without sampling. Energies in meV, dN in particles gained by B, W = dE_A + dE_B, Q = (dE_B − dE_A)/2.",
-    references: FERMION_REFERENCES,
-    parameters: v,
-    realisations: samples,
-    affinities: affinity,
-    field_tesla: field,
-    relations:
-      field === null
-        ? "Time-reversal symmetric protocol from grand-canonical reservoirs: the exchange fluctuation relation P(W,Q,dN)/P(−W,−Q,−dN) = exp(Σ), the integral relation and the second law hold exactly at this contact time."
-        : "The Peierls phase breaks time reversal: the detailed relation links this field to the reversed one and cannot be tested on this dataset alone; the integral relation ⟨exp(−Σ)⟩ = 1 and the second law still hold exactly.",
-    mean: { dE_A: moments.mean[0], dE_B: moments.mean[1], dN: moments.mean[2], W: whn.mean[0], Q: whn.mean[1] },
-    standard_error_of_sample_mean: { dE_A: se(0), dE_B: se(1), dN: se(2) },
-    covariance: { order: ["dE_A", "dE_B", "dN"], matrix: moments.covariance },
-    covariance_work_heat_particles: { order: ["W", "Q", "dN"], matrix: whn.covariance },
-    dN_distribution: counting
-      ? {
-          method: "Klich determinant formula, inverted exactly on a grid of counting fields",
-          min: counting.qMin,
-          probability: Array.from(counting.probability, (p) => Math.max(0, p)),
-        }
-      : { method: `left out: more than ${KLICH_MAX_MODES} modes`, min: null, probability: [] },
-  };
-  const muLine = (x: number) => String(x);
-  const fieldLine = field !== null ? `    field: ${field}\n` : "";
-  const description = `Simulated two-point energy and particle-number measurements on two finite reservoirs of
+  return {
+    task: fermionTask(system, u),
+    samples,
+    seed: String(v.seed),
+    finish: ([dE_A, dE_B, dN]) => {
+      const a = 1e-9 * (v["lattice-constant"] as number);
+      const field = flux !== 0 ? fieldForPeierlsPhase(flux, a * a) : null;
+      const affinity = {
+        beta_bar_per_meV: (betaPerMeV(TA) + betaPerMeV(TB)) / 2,
+        a_Q_per_meV: betaPerMeV(TB) - betaPerMeV(TA),
+        a_N: betaPerMeV(TA) * muA - betaPerMeV(TB) * muB,
+      };
+      const se = (i: number) => Math.sqrt(moments.covariance[i][i] / samples);
+      const expected = {
+        model: "fermions",
+        about:
+          "Exact expectations of the simulated two-point measurement, computed from single-particle matrices without sampling. Energies in meV, dN in particles gained by B, W = dE_A + dE_B, Q = (dE_B − dE_A)/2.",
+        references: FERMION_REFERENCES,
+        parameters: v,
+        realisations: samples,
+        affinities: affinity,
+        field_tesla: field,
+        relations:
+          field === null
+            ? "Time-reversal symmetric protocol from grand-canonical reservoirs: the exchange fluctuation relation P(W,Q,dN)/P(−W,−Q,−dN) = exp(Σ), the integral relation and the second law hold exactly at this contact time."
+            : "The Peierls phase breaks time reversal: the detailed relation links this field to the reversed one and cannot be tested on this dataset alone; the integral relation ⟨exp(−Σ)⟩ = 1 and the second law still hold exactly.",
+        mean: { dE_A: moments.mean[0], dE_B: moments.mean[1], dN: moments.mean[2], W: whn.mean[0], Q: whn.mean[1] },
+        standard_error_of_sample_mean: { dE_A: se(0), dE_B: se(1), dN: se(2) },
+        covariance: { order: ["dE_A", "dE_B", "dN"], matrix: moments.covariance },
+        covariance_work_heat_particles: { order: ["W", "Q", "dN"], matrix: whn.covariance },
+        dN_distribution: counting
+          ? {
+              method: "Klich determinant formula, inverted exactly on a grid of counting fields",
+              min: counting.qMin,
+              probability: Array.from(counting.probability, (p) => Math.max(0, p)),
+            }
+          : { method: `left out: more than ${KLICH_MAX_MODES} modes`, min: null, probability: [] },
+      };
+      const muLine = (x: number) => String(x);
+      const fieldLine = field !== null ? `    field: ${field}\n` : "";
+      const description = `Simulated two-point energy and particle-number measurements on two finite reservoirs of
 non-interacting spinless fermions: A is a ${describeLattice(A)} (hopping ${A.hopping} meV, on-site ${A.onsite} meV),
 B a ${describeLattice(B)} (hopping ${B.hopping} meV, on-site ${B.onsite} meV), each prepared grand-canonically,
 joined by ${bonds} contact bond(s) of ${v.contact} meV${flux !== 0 ? ` with a Peierls phase of ${flux} rad per contact loop (field ${field!.toPrecision(4)} T for a lattice constant of ${v["lattice-constant"]} nm)` : ""}
@@ -152,7 +174,7 @@ determinantal point process (Hough, Krishnapur, Peres & Virág, Probab. Surveys 
 covariances and the distribution of dN (Klich's determinant formula; Schönhammer, PRB 75, 205329 (2007)) are in
 \`data/expected.json\`. ${expected.relations}
 `;
-  const yaml = `# Written by \`transport-audit synth fermions\`: simulated data with known exact properties.
+      const yaml = `# Written by \`transport-audit synth fermions\`: simulated data with known exact properties.
 id: synth-fermions
 title: "Simulated exchange between two tight-binding reservoirs (${describeLattice(A)} and ${describeLattice(B)})"
 authors:
@@ -179,12 +201,14 @@ datasets:
     work: measured
 ${fieldLine}checks: all
 `;
-  return {
-    yaml,
-    files: {
-      "data/fermions.csv": columnsToCsv(["dE_A", "dE_B", "dN"], [dE_A, dE_B, dN]),
-      "data/expected.json": `${JSON.stringify(expected, null, 2)}\n`,
+      return {
+        yaml,
+        files: {
+          "data/fermions.csv": columnsToCsv(["dE_A", "dE_B", "dN"], [dE_A, dE_B, dN]),
+          "data/expected.json": `${JSON.stringify(expected, null, 2)}\n`,
+        },
+        summary: `${samples} realisations; exact ⟨dN⟩ = ${moments.mean[2].toPrecision(4)}, ⟨W⟩ = ${whn.mean[0].toPrecision(4)} meV`,
+      };
     },
-    summary: `${samples} realisations; exact ⟨dN⟩ = ${moments.mean[2].toPrecision(4)}, ⟨W⟩ = ${whn.mean[0].toPrecision(4)} meV`,
   };
 }

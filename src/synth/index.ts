@@ -1,4 +1,4 @@
-export { synthFermions, FERMION_PARAMETERS, FERMION_REFERENCES } from "./fermionsAudit.ts";
+export { synthFermions, synthFermionsInThread, FERMION_PARAMETERS, FERMION_REFERENCES } from "./fermionsAudit.ts";
 export { synthDot, DOT_PARAMETERS, DOT_REFERENCES } from "./dotAudit.ts";
 export { synthTilted, TILTED_PARAMETERS, TILTED_REFERENCES } from "./tiltedAudit.ts";
 export { writeAuditFolder, type SynthAudit } from "./auditFolder.ts";

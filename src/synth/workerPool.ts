@@ -24,6 +24,19 @@ function startWorker(): Worker {
   return new Worker(bootstrap, { eval: true });
 }
 
+/** The same blocks drawn in this thread, synchronously (small jobs, scripts that cannot await). */
+export function runBlocksInThread(task: BlockTask, total: number, seed: string, blockSize = 500): Float64Array[] {
+  const blocks = Math.ceil(total / blockSize);
+  const ncol = TASK_COLUMNS[task.kind].length;
+  const out = Array.from({ length: ncol }, () => new Float64Array(total));
+  const run = blockRunner(task);
+  for (let b = 0; b < blocks; b++) {
+    const columns = run(blockRng(seed, b), Math.min(blockSize, total - b * blockSize));
+    for (let c = 0; c < ncol; c++) out[c].set(columns[c], b * blockSize);
+  }
+  return out;
+}
+
 export async function runBlocks(task: BlockTask, total: number, seed: string, options: PoolOptions = {}): Promise<Float64Array[]> {
   const blockSize = options.blockSize ?? 500;
   const blocks = Math.ceil(total / blockSize);
