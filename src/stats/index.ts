@@ -17,3 +17,4 @@ export * from "./poissonDeviate.ts";
 export * from "./bootstrap.ts";
 export * from "./logisticFit.ts";
 export * from "./tailShape.ts";
+export * from "./sampleSize.ts";

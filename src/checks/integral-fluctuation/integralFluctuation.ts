@@ -2,6 +2,7 @@ import type { SamplesDataset } from "../../ingest/types.ts";
 import { exponentialConvergence } from "../../physics/exponentialConvergence.ts";
 import { bcaInterval, bcaPValue, bootstrapRatio } from "../../stats/bootstrap.ts";
 import { normalQuantile } from "../../stats/normal.ts";
+import { resolveSentence } from "../../stats/sampleSize.ts";
 import { fmt, fmtInterval, numberOption, perDataset } from "../helpers.ts";
 import type { CheckContext, CheckDefinition, CheckResult, Status } from "../types.ts";
 import type { PlotSpec } from "../plotSpec.ts";
@@ -154,8 +155,8 @@ export function integralFluctuationForDataset(d: SamplesDataset, ctx: CheckConte
   } else {
     status = "inconclusive";
     const half = (ci[1] - ci[0]) / 2;
-    summary = `${estimateText}: consistent with 1 but wider than 1 ± ${margin}.`;
-    reason = `About ${Math.ceil(n * (half / margin) ** 2).toLocaleString("en")} realisations at this spread would resolve the margin of ${margin}.`;
+    summary = `${estimateText}: consistent with 1 but not within 1 ± ${margin}.`;
+    reason = resolveSentence(n, half, mean - 1, margin);
   }
   const z = normalQuantile(1 - (1 - confidence) / 2);
   return {

@@ -2,6 +2,7 @@ import type { SamplesDataset } from "../../ingest/types.ts";
 import { exponentialConvergence } from "../../physics/exponentialConvergence.ts";
 import { bcaInterval, bcaPValue, bootstrapRatio } from "../../stats/bootstrap.ts";
 import { holm } from "../../stats/holm.ts";
+import { resolveSentence } from "../../stats/sampleSize.ts";
 import { fmt, fmtInterval, numberOption, perDataset } from "../helpers.ts";
 import type { CheckContext, CheckDefinition, CheckResult, Status, TableSpec } from "../types.ts";
 
@@ -108,8 +109,8 @@ export function weightedIdentityForDataset(d: SamplesDataset, ctx: CheckContext)
   } else {
     status = "inconclusive";
     summary = `No significant departure (${describe}), but not every interval lies within ±${margin}.`;
-    const half = Math.max(...results.map((r) => (r.ci[1] - r.ci[0]) / 2));
-    reason = `About ${Math.ceil(d.realisations * (half / margin) ** 2).toLocaleString("en")} realisations at this spread would resolve the margin of ${margin}.`;
+    const worst = results.reduce((a, r) => (Math.max(Math.abs(r.ci[0]), Math.abs(r.ci[1])) > Math.max(Math.abs(a.ci[0]), Math.abs(a.ci[1])) ? r : a));
+    reason = resolveSentence(d.realisations, (worst.ci[1] - worst.ci[0]) / 2, worst.ratio, margin);
   }
   const table: TableSpec = {
     id: "weighted-currents",

@@ -1,6 +1,7 @@
 import type { SamplesDataset } from "../../ingest/types.ts";
 import { normalQuantile, normalTwoSidedP } from "../../stats/normal.ts";
 import { weightedMoments } from "../../stats/weightedMoments.ts";
+import { resolveSentence } from "../../stats/sampleSize.ts";
 import { fmt, fmtInterval, numberOption, perDataset } from "../helpers.ts";
 import type { CheckContext, CheckDefinition, CheckResult, Status } from "../types.ts";
 
@@ -149,7 +150,7 @@ export function workForDataset(d: SamplesDataset, ctx: CheckContext): CheckResul
   } else {
     status = "inconclusive";
     summary = `The work in the data is not significantly non-zero, but its mean is not pinned within ±${margin} k_B: ${stats}.`;
-    reason = `About ${Math.ceil(d.realisations * ((ciBW[1] - ciBW[0]) / 2 / margin) ** 2).toLocaleString("en")} realisations would pin it.`;
+    reason = resolveSentence(d.realisations, (ciBW[1] - ciBW[0]) / 2, meanBW, margin);
   }
   return { ...base, status, summary, ...(reason ? { reason } : {}), values, criteria: { alpha, margin, confidence } };
 }
