@@ -7,9 +7,10 @@ import path from "node:path";
 import { qdHeatExchange, nwSwitchingWork, ddCountingBackaction } from "./demo/exchange.ts";
 import { abInterferometerSweep } from "./demo/coefficients.ts";
 import { vq5BiasSweep, lc60Series } from "./demo/sweep.ts";
+import { lr40SimulatedExchange, qd9SimulatedCounting } from "./demo/simulated.ts";
 import type { DemoAudit } from "./demo/types.ts";
 
-const GENERATORS: (() => DemoAudit)[] = [qdHeatExchange, nwSwitchingWork, ddCountingBackaction, abInterferometerSweep, vq5BiasSweep, lc60Series];
+const GENERATORS: (() => DemoAudit)[] = [qdHeatExchange, nwSwitchingWork, ddCountingBackaction, abInterferometerSweep, vq5BiasSweep, lc60Series, lr40SimulatedExchange, qd9SimulatedCounting];
 
 const root = path.resolve(process.argv[2] ?? "audits");
 for (const generate of GENERATORS) {
