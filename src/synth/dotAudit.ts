@@ -71,6 +71,11 @@ export function synthDot(raw: Record<string, string | undefined>): SynthAudit {
     second += p * n * n;
   });
   const affinity = affinityPerElectron(params);
+  // The audit's entropy production here is Σ = A·dN (W = 0, Q = ε dN), so ⟨e^{−Σ}⟩ follows from P(n) exactly.
+  let expMinusSigma = 0;
+  exact.probability.forEach((p, i) => {
+    expMinusSigma += p * Math.exp(-affinity * (exact.nMin + i));
+  });
   const exactRelation =
     start === "equilibrium-a"
       ? "With the dot first in equilibrium with lead A, lead A and the dot form one grand-canonical reservoir and ln P(n)/P(−n) = A n holds exactly at every counting time (path reversal of the Markov process; Esposito, Harbola & Mukamel 2009), so the exchange and integral relations hold exactly."
@@ -87,6 +92,7 @@ export function synthDot(raw: Record<string, string | undefined>): SynthAudit {
     long_time_current_per_ns: meanCurrent(params),
     relations: exactRelation,
     mean: { dN: mean, dE_B: eps * mean, dE_A: -eps * mean, W: 0 },
+    exp_minus_sigma: expMinusSigma,
     variance: { dN: second - mean * mean },
     dN_distribution: { min: exact.nMin, probability: Array.from(exact.probability) },
   };

@@ -178,3 +178,15 @@ describe("dot: long-time counting statistics", () => {
     expectClose(slopeAt(400), A, { rtol: 0.01, source: "long-time fluctuation theorem (Bagrets & Nazarov 2003; Esposito, Harbola & Mukamel 2009)" });
   });
 });
+
+describe("dot: exact expectations written beside the data", () => {
+  it("⟨e^{−Σ}⟩ is 1 when the dot starts in equilibrium with A, and differs from 1 from the stationary state", async () => {
+    const { synthDot } = await import("../../src/synth/dotAudit.ts");
+    const equilibrium = JSON.parse(synthDot({ start: "equilibrium-a", samples: "10" }).files["data/expected.json"]);
+    // Integral relation, exact for the grand-canonical preparation of A with the dot (1e-12: rounding of the sum).
+    expectClose(equilibrium.exp_minus_sigma, 1, { atol: 1e-12, source: "integral fluctuation relation ⟨e^{−Σ}⟩ = 1" });
+    const stationary = JSON.parse(synthDot({ samples: "10" }).files["data/expected.json"]);
+    // From the stationary state the boundary term of the dot's occupation is missing from Σ (Seifert, PRL 95, 040602 (2005)).
+    expect(Math.abs(stationary.exp_minus_sigma - 1)).toBeGreaterThan(1e-3);
+  });
+});
