@@ -19,7 +19,7 @@ function timed<T>(f: () => T): [T, number] {
 }
 
 export async function run(): Promise<Record<string, unknown>> {
-  const realisations = Number(process.env.BENCH_REALISATIONS ?? 100_000);
+  const realisations = Number(process.env.BENCH_SYNTH_REALISATIONS ?? 100_000);
   const workers = Math.min(2, os.availableParallelism());
   // The `synth fermions` defaults: 60- and 40-site chains, 12 K / 8 K, 0.4 meV bias, 0.5 meV contact, 15 ps.
   const [system, tBuild] = timed(() =>
