@@ -31,7 +31,3 @@ export function writeAuditFolder(dir: string, audit: SynthAudit, force = false):
   return written;
 }
 
-/** YAML for a plain number: enough digits to round-trip, in a form YAML reads as a float. */
-export function yamlNumber(x: number): string {
-  return String(x);
-}

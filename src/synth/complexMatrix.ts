@@ -20,11 +20,6 @@ export function complexIdentity(n: number): ComplexMatrix {
   return m;
 }
 
-/** A real matrix as a complex one. */
-export function complexFromReal(rows: number, cols: number, re: Float64Array): ComplexMatrix {
-  return { rows, cols, re: Float64Array.from(re), im: new Float64Array(rows * cols) };
-}
-
 /** The product a·b (or a†·b when `adjointA`), by i-k-j loops over contiguous rows. */
 export function complexMultiply(a: ComplexMatrix, b: ComplexMatrix, adjointA = false): ComplexMatrix {
   const n = adjointA ? a.cols : a.rows;
