@@ -4,6 +4,7 @@ import { bcaInterval, bcaPValue, bootstrapRatio } from "../../stats/bootstrap.ts
 import { normalQuantile } from "../../stats/normal.ts";
 import { resolveSentence } from "../../stats/sampleSize.ts";
 import { fmt, fmtInterval, numberOption, perDataset } from "../helpers.ts";
+import { sigmaVanishesIdentically, trivialAtEquilibrium } from "../equilibriumGuard.ts";
 import type { CheckContext, CheckDefinition, CheckResult, Status } from "../types.ts";
 import type { PlotSpec } from "../plotSpec.ts";
 import type { Rng } from "../../stats/rng.ts";
@@ -112,7 +113,21 @@ function runningEstimatePlot(d: SamplesDataset, shift: number, z: number, confid
   };
 }
 
+const REFERENCES = [
+  "C. Jarzynski and D. K. Wójcik, Phys. Rev. Lett. 92, 230602 (2004)",
+  "M. Campisi, P. Hänggi and P. Talkner, Rev. Mod. Phys. 83, 771 (2011)",
+  "C. Jarzynski, Phys. Rev. E 73, 046105 (2006)",
+  "B. Efron and R. J. Tibshirani, An Introduction to the Bootstrap (Chapman & Hall, 1993)",
+  "J. A. Hanley and B. MacGibbon, Comput. Methods Programs Biomed. 83, 57 (2006)",
+];
+
+const EQUATIONS = [
+  String.raw`\left\langle e^{-\Sigma} \right\rangle = 1`,
+  String.raw`N \gtrsim e^{\langle \Sigma \rangle} \quad\text{(sample size needed to resolve the average)}`,
+];
+
 export function integralFluctuationForDataset(d: SamplesDataset, ctx: CheckContext): CheckResult {
+  if (sigmaVanishesIdentically(d)) return trivialAtEquilibrium("integral-fluctuation", d, EQUATIONS, REFERENCES);
   const { alpha, confidence } = ctx.settings;
   const margin = numberOption(ctx, "margin", ctx.settings.margin, (v) => v > 0);
   const sigma = d.sigma;
@@ -188,17 +203,8 @@ export function integralFluctuationForDataset(d: SamplesDataset, ctx: CheckConte
       "The integral relation holds with or without a magnetic field: it needs the forward process only.",
       d.config.work === "zero" ? "The switching work is declared zero (W = 0 in every realisation)." : "The switching work W is measured and enters Σ.",
     ],
-    references: [
-      "C. Jarzynski and D. K. Wójcik, Phys. Rev. Lett. 92, 230602 (2004)",
-      "M. Campisi, P. Hänggi and P. Talkner, Rev. Mod. Phys. 83, 771 (2011)",
-      "C. Jarzynski, Phys. Rev. E 73, 046105 (2006)",
-      "B. Efron and R. J. Tibshirani, An Introduction to the Bootstrap (Chapman & Hall, 1993)",
-      "J. A. Hanley and B. MacGibbon, Comput. Methods Programs Biomed. 83, 57 (2006)",
-    ],
-    equations: [
-      String.raw`\left\langle e^{-\Sigma} \right\rangle = 1`,
-      String.raw`N \gtrsim e^{\langle \Sigma \rangle} \quad\text{(sample size needed to resolve the average)}`,
-    ],
+    references: REFERENCES,
+    equations: EQUATIONS,
     tables: [],
     plots: [runningEstimatePlot(d, shift, z, confidence, ctx.rngFor(d.sha256, "running-order"), mean)],
   };

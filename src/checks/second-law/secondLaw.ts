@@ -3,6 +3,7 @@ import { normalQuantile, normalCdf } from "../../stats/normal.ts";
 import { weightedMeanOf, weightedMoments } from "../../stats/weightedMoments.ts";
 import { freedmanDiaconisBins, histogram, linearEdges } from "../../stats/histogram.ts";
 import { fmt, fmtInterval, numberOption, perDataset } from "../helpers.ts";
+import { sigmaVanishesIdentically, trivialAtEquilibrium } from "../equilibriumGuard.ts";
 import type { CheckContext, CheckDefinition, CheckResult, Status } from "../types.ts";
 import type { PlotSpec } from "../plotSpec.ts";
 
@@ -72,7 +73,19 @@ function sigmaHistogramPlot(d: SamplesDataset): PlotSpec {
   };
 }
 
+const REFERENCES = [
+  "C. Jarzynski and D. K. Wójcik, Phys. Rev. Lett. 92, 230602 (2004)",
+  "D. Andrieux, P. Gaspard, T. Monnai and S. Tasaki, New J. Phys. 11, 043014 (2009)",
+  "U. Seifert, Rep. Prog. Phys. 75, 126001 (2012)",
+];
+
+const EQUATIONS = [
+  String.raw`\Sigma = \beta_A\,(\Delta E_A - \mu_A \Delta N_A) + \beta_B\,(\Delta E_B - \mu_B \Delta N_B) = \bar\beta\, W + a_Q\, Q + a_N\, \Delta N`,
+  String.raw`\langle \Sigma \rangle \;\ge\; 0 \qquad \text{(from } \langle e^{-\Sigma}\rangle = 1 \text{ and Jensen's inequality)}`,
+];
+
 export function secondLawForDataset(d: SamplesDataset, ctx: CheckContext): CheckResult {
+  if (sigmaVanishesIdentically(d)) return trivialAtEquilibrium("second-law", d, EQUATIONS, REFERENCES);
   const { alpha, confidence } = ctx.settings;
   const margin = numberOption(ctx, "margin", ctx.settings.margin, (v) => v > 0);
   const m = weightedMoments(d.sigma, d.weight);
@@ -109,15 +122,8 @@ export function secondLawForDataset(d: SamplesDataset, ctx: CheckContext): Check
     },
     criteria: { alpha, margin, confidence },
     assumptions,
-    references: [
-      "C. Jarzynski and D. K. Wójcik, Phys. Rev. Lett. 92, 230602 (2004)",
-      "D. Andrieux, P. Gaspard, T. Monnai and S. Tasaki, New J. Phys. 11, 043014 (2009)",
-      "U. Seifert, Rep. Prog. Phys. 75, 126001 (2012)",
-    ],
-    equations: [
-      String.raw`\Sigma = \beta_A\,(\Delta E_A - \mu_A \Delta N_A) + \beta_B\,(\Delta E_B - \mu_B \Delta N_B) = \bar\beta\, W + a_Q\, Q + a_N\, \Delta N`,
-      String.raw`\langle \Sigma \rangle \;\ge\; 0 \qquad \text{(from } \langle e^{-\Sigma}\rangle = 1 \text{ and Jensen's inequality)}`,
-    ],
+    references: REFERENCES,
+    equations: EQUATIONS,
     tables: [
       {
         id: "contributions",
