@@ -31,3 +31,37 @@ export function writeAuditFolder(dir: string, audit: SynthAudit, force = false):
   return written;
 }
 
+
+/** What differs between the simulated audits' headers. */
+export interface SynthAuditHeader {
+  model: string; // synth model name, e.g. "dot"
+  id: string;
+  title: string;
+  description: string; // Markdown, any number of lines
+  keywords: string[];
+}
+
+/**
+ * The common head of a simulated audit.yaml, up to and including `datasets:`:
+ * provenance comment, identity, the simulator as author, licence, the
+ * description as a YAML block and the default settings.
+ */
+export function synthAuditYamlHeader(h: SynthAuditHeader): string {
+  const block = h.description
+    .trimEnd()
+    .split("\n")
+    .map((l) => `  ${l}`)
+    .join("\n");
+  return `# Written by \`transport-audit synth ${h.model}\`: simulated data with known exact properties.
+id: ${h.id}
+title: ${JSON.stringify(h.title)}
+authors:
+  - { name: "transport-audit synth (simulation)" }
+license: CC-BY-4.0
+description: |
+${block}
+keywords: [${h.keywords.join(", ")}]
+settings: { alpha: 0.01, margin: 0.05, confidence: 0.95, seed: auto }
+datasets:
+`;
+}

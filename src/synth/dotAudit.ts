@@ -1,4 +1,4 @@
-import type { SynthAudit } from "./auditFolder.ts";
+import { synthAuditYamlHeader, type SynthAudit } from "./auditFolder.ts";
 import { columnsToCsv } from "./csv.ts";
 import { dotTransferDistribution } from "./dotCounting.ts";
 import { affinityPerElectron, dotRates, meanCurrent, stationaryOccupation, type DotParameters } from "./dotRates.ts";
@@ -105,22 +105,13 @@ Each row is a net number dN of electrons entering B with its count; B gains the 
 with the dot loses it, so W = 0. The exact finite-time distribution (Bagrets & Nazarov, PRB 67, 085316 (2003);
 Esposito, Harbola & Mukamel, RMP 81, 1665 (2009)) is in \`data/expected.json\`. ${exactRelation}
 `;
-  const yaml = `# Written by \`transport-audit synth dot\`: simulated data with known exact properties.
-id: synth-dot
-title: "Simulated electron counting through a single-level dot"
-authors:
-  - { name: "transport-audit synth (simulation)" }
-license: CC-BY-4.0
-description: |
-${description
-  .trimEnd()
-  .split("\n")
-  .map((l) => `  ${l}`)
-  .join("\n")}
-keywords: [simulation, quantum dot, sequential tunnelling, full counting statistics]
-settings: { alpha: 0.01, margin: 0.05, confidence: 0.95, seed: auto }
-datasets:
-  - id: dot
+  const yaml = synthAuditYamlHeader({
+    model: "dot",
+    id: "synth-dot",
+    title: `Simulated electron counting through a single-level dot`,
+    description,
+    keywords: ["simulation", "quantum dot", "sequential tunnelling", "full counting statistics"],
+  }) + `  - id: dot
     kind: samples
     file: data/dot.csv
     columns: { dE_A: dE_A, dE_B: dE_B, dN: dN, count: count }

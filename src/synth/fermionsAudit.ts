@@ -1,5 +1,5 @@
 import { InputError } from "../errors.ts";
-import type { SynthAudit } from "./auditFolder.ts";
+import { synthAuditYamlHeader, type SynthAudit } from "./auditFolder.ts";
 import { fermionTask } from "./blockTask.ts";
 import { columnsToCsv } from "./csv.ts";
 import { exactMoments, transformMoments, WORK_HEAT_PARTICLES } from "./exactMoments.ts";
@@ -174,22 +174,13 @@ determinantal point process (Hough, Krishnapur, Peres & Virág, Probab. Surveys 
 covariances and the distribution of dN (Klich's determinant formula; Schönhammer, PRB 75, 205329 (2007)) are in
 \`data/expected.json\`. ${expected.relations}
 `;
-      const yaml = `# Written by \`transport-audit synth fermions\`: simulated data with known exact properties.
-id: synth-fermions
-title: "Simulated exchange between two tight-binding reservoirs (${describeLattice(A)} and ${describeLattice(B)})"
-authors:
-  - { name: "transport-audit synth (simulation)" }
-license: CC-BY-4.0
-description: |
-${description
-  .trimEnd()
-  .split("\n")
-  .map((l) => `  ${l}`)
-  .join("\n")}
-keywords: [simulation, free fermions, two-point measurement, exchange fluctuation relation]
-settings: { alpha: 0.01, margin: 0.05, confidence: 0.95, seed: auto }
-datasets:
-  - id: fermions
+      const yaml = synthAuditYamlHeader({
+    model: "fermions",
+    id: "synth-fermions",
+    title: `Simulated exchange between two tight-binding reservoirs (${describeLattice(A)} and ${describeLattice(B)})`,
+    description,
+    keywords: ["simulation", "free fermions", "two-point measurement", "exchange fluctuation relation"],
+  }) + `  - id: fermions
     kind: samples
     file: data/fermions.csv
     columns: { dE_A: dE_A, dE_B: dE_B, dN: dN }

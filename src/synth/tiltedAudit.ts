@@ -1,4 +1,4 @@
-import type { SynthAudit } from "./auditFolder.ts";
+import { synthAuditYamlHeader, type SynthAudit } from "./auditFolder.ts";
 import { columnsToCsv } from "./csv.ts";
 import { parseParameters, type SynthParameter } from "./parameters.ts";
 import { sampleTilted, tiltedExponentialMean, tiltedMoments, type TiltedFamily } from "./tiltedFamily.ts";
@@ -94,22 +94,13 @@ symmetric base law (normal in W and Q, Skellam in dN), which obeys the exchange 
 Exact moments are in \`data/expected.json\`.
 `;
   const columns = hasWork ? "{ W: W, Q: Q, dN: dN }" : "{ Q: Q, dN: dN }";
-  const yaml = `# Written by \`transport-audit synth tilted\`: simulated data with known exact properties.
-id: synth-tilted
-title: "Exactly tilted exchange statistics${consistent ? "" : " drawn at other temperatures than declared"}"
-authors:
-  - { name: "transport-audit synth (simulation)" }
-license: CC-BY-4.0
-description: |
-${description
-  .trimEnd()
-  .split("\n")
-  .map((l) => `  ${l}`)
-  .join("\n")}
-keywords: [simulation, exchange fluctuation relation, calibration]
-settings: { alpha: 0.01, margin: 0.05, confidence: 0.95, seed: auto }
-datasets:
-  - id: tilted
+  const yaml = synthAuditYamlHeader({
+    model: "tilted",
+    id: "synth-tilted",
+    title: `Exactly tilted exchange statistics${consistent ? "" : " drawn at other temperatures than declared"}`,
+    description,
+    keywords: ["simulation", "exchange fluctuation relation", "calibration"],
+  }) + `  - id: tilted
     kind: samples
     file: data/tilted.csv
     columns: ${columns}
