@@ -39,6 +39,27 @@ datasets:
       B: { T: 1.00, mu: 0.0 }
     tau: 2.0e-9                       # contact time in seconds (needed for fluxes)
     work: measured                    # measured (W column or dE_A + dE_B) or zero (declared, never assumed)
+    # sweep: bias-sweep               # datasets sharing a sweep name (same tau, different affinities) are
+                                      # audited together by fluctuation-dissipation
+    # series: contact-times           # datasets sharing a series name (different tau) feed linear-growth
+
+  # Linear-response coefficients, one row per operating point (and field):
+  # - id: gate-sweep
+  #   kind: coefficients
+  #   file: data/coefficients.csv
+  #   form: thermoelectric            # columns G S Pi K (Pi optional), u_G … standard uncertainties; or
+  #                                   # form: onsager with columns L11 L12 L21 L22 (u_L11 …)
+  #   units: { G: uS, S: uV/K, Pi: uV, K: pW/K }
+  #   temperature: { value: 1.2 }     # or { column: T }; kelvin
+  #   field: { column: B }            # optional: pairs each +B row with the -B row at the same point
+  #   point: [Vg]                     # columns that identify an operating point
+
+  # Mean transfer against contact time, for linear-growth:
+  # - id: growth
+  #   kind: cumulants
+  #   file: data/cumulants.csv        # columns tau, Q, dN (optional u_Q, u_dN)
+  #   energy_unit: meV
+  #   time_unit: ns
 
 checks: all   # or a list of check ids, e.g. [second-law, integral-fluctuation]
 `;
