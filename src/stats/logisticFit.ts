@@ -1,6 +1,7 @@
 import { CholeskyDecomposition, Matrix } from "ml-matrix";
 import { log1pExp, logistic } from "./logSumExp.ts";
 import { chiSquareSf } from "./chiSquare.ts";
+import { columnDependence } from "./columnDependence.ts";
 
 /**
  * Maximum-likelihood fit of ln P(z)/P(−z) = θ·z from realisations z_i alone.
@@ -17,6 +18,10 @@ import { chiSquareSf } from "./chiSquare.ts";
  * divided by their root mean square first (no centring: the model has no
  * intercept), so energies of order 1e-23 J condition as well as numbers of
  * order 1. Standard errors come from the inverse Fisher information.
+ *
+ * Features that are exactly linearly dependent in the data leave θ identified
+ * only up to the null space; callers fit a basis of the column space instead
+ * (columnDependence) and test the identifiable combinations.
  *
  * The MLE does not exist when some direction θ has θ·z_i ≥ 0 for every
  * realisation (and > 0 for one): the likelihood then grows without bound along
@@ -172,7 +177,13 @@ export function fitExchangeLogistic(features: ArrayLike<number>[], weight: Array
     const chol = new CholeskyDecomposition(new Matrix(info));
     if (!chol.isPositiveDefinite()) {
       const nw = negativeWeightOf(eta, weight);
-      return failed("degenerate", p, "the features are linearly dependent (the information matrix is singular), so the coefficients are not identified separately", eta, scales, it, nw.negative, ll);
+      // Exact dependence in the data (the caller should fit a basis, see columnDependence) or a fit whose
+      // information matrix is singular in floating point although the columns are independent.
+      const exact = columnDependence(features, weight).dependent.length > 0;
+      const message = exact
+        ? "the features are linearly dependent (the information matrix is singular), so the coefficients are not identified separately"
+        : "the information matrix is numerically singular although the features are linearly independent (too few realisations carry information about some combination), so the coefficients are not identified separately";
+      return failed("degenerate", p, message, eta, scales, it, nw.negative, ll);
     }
     const step = chol.solve(Matrix.columnVector(grad)).to1DArray();
     const decrement = step.reduce((acc, s, j) => acc + s * grad[j], 0); // Newton decrement squared

@@ -1,6 +1,7 @@
 import type { SamplesDataset } from "../../ingest/types.ts";
 import { effectiveReservoirs, type FittedAffinities } from "../../physics/affinities.ts";
 import { fitExchangeLogistic, logisticScoreTest, type LogisticFit } from "../../stats/logisticFit.ts";
+import { columnDependence, identifiableCombinations } from "../../stats/columnDependence.ts";
 import { normalQuantile, normalTwoSidedP } from "../../stats/normal.ts";
 import { holm } from "../../stats/holm.ts";
 import { resolveSentence } from "../../stats/sampleSize.ts";
@@ -32,20 +33,114 @@ export const EQUATIONS = [
 
 interface Channel {
   key: "beta_bar" | "a_Q" | "a_N";
+  /** The coefficient's symbol and the variable it multiplies, for sentences. */
+  symbol: string;
+  variable: string;
   label: string;
   feature: Float64Array;
   declared: number;
   unit: string;
+  /** What the variable counts: energies carry the dataset's energy unit in sentences. */
+  dimension: "energy" | "count";
 }
 
-/** Channels that vary in the data and so can be fitted; W only when work is measured. */
+/**
+ * Channels of the joint fit: W only when work is measured, ΔN only when a particle column was given
+ * (otherwise ΔN = 0 is an assumption, stated). A channel may be zero in every realisation or a fixed
+ * combination of the others; identifiableJoint sorts that out.
+ */
 function channelsOf(d: SamplesDataset): Channel[] {
-  const nonzero = (x: Float64Array) => x.some((v) => v !== 0);
   const out: Channel[] = [];
-  if (d.config.work === "measured" && nonzero(d.W)) out.push({ key: "beta_bar", label: "β̄ (work)", feature: d.W, declared: d.affinity.beta_bar, unit: "1/J" });
-  if (nonzero(d.Q)) out.push({ key: "a_Q", label: "a_Q (heat)", feature: d.Q, declared: d.affinity.a_Q, unit: "1/J" });
-  if (nonzero(d.dN)) out.push({ key: "a_N", label: "a_N (particles)", feature: d.dN, declared: d.affinity.a_N, unit: "" });
+  if (d.config.work === "measured") out.push({ key: "beta_bar", symbol: "β̄", variable: "W", label: "β̄ (work)", feature: d.W, declared: d.affinity.beta_bar, unit: "1/J", dimension: "energy" });
+  out.push({ key: "a_Q", symbol: "a_Q", variable: "Q", label: "a_Q (heat)", feature: d.Q, declared: d.affinity.a_Q, unit: "1/J", dimension: "energy" });
+  if (d.hasParticleColumn) out.push({ key: "a_N", symbol: "a_N", variable: "ΔN", label: "a_N (particles)", feature: d.dN, declared: d.affinity.a_N, unit: "", dimension: "count" });
   return out;
+}
+
+/** Relative residuals below this are floating-point rounding of an exact relation: not worth a mention. */
+const ROUNDING = 1e-12;
+
+/** Preferred basis: ΔN (integer counts) first, then Q, then W, so that Q = εΔN keeps ΔN and fits a_Q·ε + a_N. */
+const BASIS_PREFERENCE: Channel["key"][] = ["a_N", "a_Q", "beta_bar"];
+
+/** One identifiable combination φ = θ_basis + Σ_k c_k θ_k, the coefficient of one basis variable. */
+interface Combination {
+  channel: Channel;
+  /** Dependent channels entering φ with their factor c_k (SI) and the symbol used for c_k in sentences. */
+  terms: { channel: Channel; factor: number; symbol: string }[];
+  label: string;
+  declared: number;
+}
+
+interface Identifiability {
+  basis: Channel[];
+  combinations: Combination[];
+  /** Channels whose coefficient the data cannot identify on its own. */
+  notIdentified: Channel["key"][];
+  /** For a person: which relation holds in every realisation and what it leaves identifiable; "" when none. */
+  explanation: string;
+  relations: { variable: string; relation: string; residual: number }[];
+}
+
+/** A factor c in x_k = c·x_j, in the dataset's units. */
+function factorText(d: SamplesDataset, c: number, k: Channel, j: Channel): string {
+  const u = d.energyUnit;
+  if (k.dimension === j.dimension) return fmt(c);
+  if (k.dimension === "energy") return `${fmt(c / u.joules)} ${u.name}`;
+  return `${fmt(c * u.joules)} per ${u.name}`;
+}
+
+/**
+ * Which coefficients of θ·z the data identify. When the channels are exactly linearly dependent in every
+ * realisation (e.g. Q = εΔN through a single level, or measured work that is zero), θ·z depends on θ only
+ * through the coefficients of a basis of the column space, φ_j = θ_j + Σ_k c_jk θ_k; the likelihood is flat
+ * along the rest, whatever the sample size. Golub & Van Loan, Matrix Computations (2013), §5.4.2 (rank
+ * from QR with column pivoting); the model is the logistic form of physics.md §2 restricted to the span.
+ */
+function identifiableJoint(d: SamplesDataset, channels: Channel[], weight: Float64Array | null): Identifiability {
+  const order = BASIS_PREFERENCE.map((k) => channels.findIndex((c) => c.key === k)).filter((i) => i >= 0);
+  const dep = columnDependence(channels.map((c) => c.feature), weight, { order });
+  const declared = identifiableCombinations(dep, channels.map((c) => c.declared));
+  const symbols = ["ε", "κ", "λ", "ν"];
+  const nonzeroFactors = dep.dependent.reduce((acc, k) => acc + k.coefficients.filter((c) => c !== 0).length, 0);
+  let used = 0;
+  const symbolFor = new Map<string, string>();
+  const relations: Identifiability["relations"] = [];
+  const sentences: string[] = [];
+  for (const k of dep.dependent) {
+    const ck = channels[k.index];
+    const parts: string[] = [];
+    const defs: string[] = [];
+    k.coefficients.forEach((c, j) => {
+      if (c === 0) return;
+      const sym = nonzeroFactors === 1 ? symbols[0] : `${symbols[0]}${"₁₂₃₄₅₆₇₈₉"[used] ?? used + 1}`;
+      used++;
+      symbolFor.set(`${k.index}:${j}`, sym);
+      parts.push(`${sym}·${channels[dep.basis[j]].variable}`);
+      defs.push(`${sym} = ${factorText(d, c, ck, channels[dep.basis[j]])}`);
+    });
+    if (parts.length === 0) {
+      relations.push({ variable: ck.variable, relation: `${ck.variable} = 0`, residual: k.residual });
+      sentences.push(`${ck.variable} = 0 in every realisation, so ${ck.symbol} multiplies nothing and is not identifiable`);
+      continue;
+    }
+    const relation = `${ck.variable} = ${parts.join(" + ")} with ${defs.join(", ")}`;
+    relations.push({ variable: ck.variable, relation, residual: k.residual });
+    const involved = [ck, ...k.coefficients.flatMap((c, j) => (c !== 0 ? [channels[dep.basis[j]]] : []))];
+    const combos = k.coefficients.flatMap((c, j) => (c !== 0 ? [j] : []));
+    sentences.push(
+      `${relation} in every realisation${k.residual > ROUNDING ? ` (to ${fmt(k.residual, 2)} of its root-mean-square)` : ""}, so ${involved.map((c) => c.symbol).join(" and ")} are identifiable only as ${combos.length > 1 ? "the combinations" : "the combination"} ${combos.map((j) => "{" + j + "}").join(" and ")}`,
+    );
+  }
+  const combinations: Combination[] = dep.basis.map((b, j) => {
+    const terms = dep.dependent.flatMap((k) => (k.coefficients[j] !== 0 ? [{ channel: channels[k.index], factor: k.coefficients[j], symbol: symbolFor.get(`${k.index}:${j}`)! }] : []));
+    const channel = channels[b];
+    const label = terms.length ? [...terms.map((t) => `${t.channel.symbol}·${t.symbol}`), channel.symbol].join(" + ") : channel.symbol;
+    return { channel, terms, label, declared: declared[j] };
+  });
+  const explanation = sentences.map((t) => t.replace(/\{(\d+)\}/g, (_, j: string) => combinations[Number(j)].label)).join("; ");
+  const notIdentified = channels.filter((c) => !combinations.some((m) => m.channel === c && m.terms.length === 0)).map((c) => c.key);
+  return { basis: dep.basis.map((b) => channels[b]), combinations, notIdentified, explanation: explanation ? `${explanation}.` : "", relations };
 }
 
 function cubed(x: Float64Array): Float64Array {
@@ -124,30 +219,50 @@ export function exchangeFluctuationForDataset(d: SamplesDataset, ctx: CheckConte
   const cubic = slopeOk ? logisticScoreTest(contracted!, [sigma], [cubed(sigma)], weight) : null;
   const ratio: LogRatio = binnedLogRatio(sigma, weight, minBinCount);
 
-  // (2) Joint relation: the coefficients of (W, Q, ΔN).
+  // (2) Joint relation: the coefficients of (W, Q, ΔN), or the combinations of them the data identify.
   const channels = channelsOf(d);
-  const joint = channels.length ? fitExchangeLogistic(channels.map((c) => c.feature), weight) : null;
+  const ident = identifiableJoint(d, channels, weight);
+  const joint = ident.basis.length ? fitExchangeLogistic(ident.basis.map((c) => c.feature), weight) : null;
   const jointOk = joint?.status === "converged";
   const fitted: FittedAffinities = { beta_bar: null, a_Q: null, a_N: null };
+  const fittedSe: Record<string, number | null> = Object.fromEntries(channels.map((c) => [c.key, null]));
   const coefficientRows: TableSpec["rows"] = [];
+  const combinationValues: Record<string, unknown>[] = [];
   const tests: Test[] = [];
   if (slopeOk) tests.push({ name: "slope", p: normalTwoSidedP((slope - 1) / slopeSe), describe: `slope ${fmt(slope)} ≠ 1` });
-  if (jointOk) {
-    channels.forEach((c, j) => {
-      const est = joint!.coefficients[j];
-      const se = joint!.standardErrors[j];
-      fitted[c.key] = est;
-      const p = normalTwoSidedP((est - c.declared) / se);
-      tests.push({ name: c.key, p, describe: `fitted ${c.key} = ${fmt(est)}${c.unit ? ` ${c.unit}` : ""} differs from the declared ${fmt(c.declared)}${c.unit ? ` ${c.unit}` : ""}` });
-      coefficientRows.push({ coefficient: c.label, declared: c.declared, fitted: est, se, z: (est - c.declared) / se, p });
+  ident.combinations.forEach((m, j) => {
+    const est = jointOk ? joint!.coefficients[j] : null;
+    const se = jointOk ? joint!.standardErrors[j] : null;
+    const zScore = est !== null && se !== null ? (est - m.declared) / se : null;
+    const p = zScore !== null ? normalTwoSidedP(zScore) : null;
+    const unit = m.channel.unit ? ` ${m.channel.unit}` : "";
+    if (m.terms.length === 0 && est !== null) {
+      fitted[m.channel.key] = est;
+      fittedSe[m.channel.key] = se;
+    }
+    combinationValues.push({
+      combination: m.label,
+      multiplies: m.channel.variable,
+      terms: Object.fromEntries([[m.channel.key, 1], ...m.terms.map((t) => [t.channel.key, t.factor])]),
+      fitted: est,
+      standard_error: se,
+      declared: m.declared,
+      z: zScore,
+      p_value: p,
     });
-  }
+    if (est === null || p === null) return;
+    tests.push({ name: m.label, p, describe: `fitted ${m.label} = ${fmt(est)}${unit} differs from the declared ${fmt(m.declared)}${unit}` });
+    coefficientRows.push({ coefficient: m.terms.length ? `${m.label} (coefficient of ${m.channel.variable})` : m.channel.label, declared: m.declared, fitted: est, se, z: zScore, p });
+  });
   if (ratio.dof > 0) tests.push({ name: "binned", p: ratio.pValue, describe: `the binned log-ratio departs from the line y = Σ (χ² = ${fmt(ratio.chiSquare)}, ${ratio.dof} bins)` });
   if (cubic && Number.isFinite(cubic.pValue)) tests.push({ name: "cubic", p: cubic.pValue, describe: "a cubic term in ln P(Σ)/P(−Σ) is significant (the ratio is not exponential in Σ)" });
   const family = holm(tests.map((t) => t.p), alpha);
-  tests.forEach((t, k) => {
-    const row = coefficientRows.find((r) => r.coefficient === channels.find((c) => c.key === t.name)?.label);
+  ident.combinations.forEach((m, j) => {
+    const k = tests.findIndex((t) => t.name === m.label);
+    if (k < 0) return;
+    const row = coefficientRows.find((r) => r.coefficient === (m.terms.length ? `${m.label} (coefficient of ${m.channel.variable})` : m.channel.label));
     if (row) row.p_holm = family.adjusted[k];
+    combinationValues[j].p_holm = family.adjusted[k];
   });
   const effective = effectiveReservoirs(d.reservoirs.A, d.reservoirs.B, fitted);
 
@@ -156,13 +271,14 @@ export function exchangeFluctuationForDataset(d: SamplesDataset, ctx: CheckConte
   let summary: string;
   let reason: string | undefined;
   const effectiveText = describeEffective(d, effective);
+  const identText = ident.explanation ? ` ${ident.explanation}${describeCombinations(ident.combinations.filter((m) => m.terms.length > 0), combinationValues)}` : "";
   if (n < MIN_REALISATIONS) {
     status = "inconclusive";
     summary = `Only ${n} realisations: too few to test the exchange relation.`;
     reason = `At least ${MIN_REALISATIONS} realisations, ${MIN_NEGATIVE} of them with Σ < 0, are needed; record more runs.`;
   } else if (rejected.length > 0) {
     status = "fail";
-    summary = `The exchange fluctuation relation is violated: ${rejected.map((t) => t.describe).join("; ")} (Holm-adjusted p ≤ ${alpha}).${effectiveText}`;
+    summary = `The exchange fluctuation relation is violated: ${rejected.map((t) => t.describe).join("; ")} (Holm-adjusted p ≤ ${alpha}).${effectiveText}${identText}`;
   } else if (!sigmaVaries) {
     status = "inconclusive";
     summary = "Σ is zero in every realisation, so the contracted relation P(Σ)/P(−Σ) = e^Σ says nothing.";
@@ -175,17 +291,18 @@ export function exchangeFluctuationForDataset(d: SamplesDataset, ctx: CheckConte
     status = "inconclusive";
     summary = "The slope of ln P(Σ)/P(−Σ) could not be estimated.";
     reason = `${contracted?.message ?? "The fit failed"}; please report this dataset if it has many realisations of both signs.`;
-  } else if (channels.length > 0 && !jointOk) {
+  } else if (ident.basis.length > 0 && !jointOk) {
+    // The channels left are linearly independent in the data, so this is a fit that more data can rescue.
     status = "inconclusive";
-    summary = `The slope ${fmt(slope)} with ${confidence * 100}% interval ${fmtInterval(slopeCi[0], slopeCi[1])} is consistent with 1, but the coefficients of (W, Q, ΔN) could not be fitted.`;
+    summary = `The slope ${fmt(slope)} with ${confidence * 100}% interval ${fmtInterval(slopeCi[0], slopeCi[1])} is consistent with 1, but the coefficients of (W, Q, ΔN) could not be fitted.${identText}`;
     reason = `${joint?.message ?? "joint fit failed"}; more realisations with opposite signs in each channel would allow the joint test.`;
   } else if (slopeCi[0] >= 1 - margin && slopeCi[1] <= 1 + margin) {
     status = "pass";
-    summary = `The slope of ln P(Σ)/P(−Σ) is ${fmt(slope)}, ${confidence * 100}% interval ${fmtInterval(slopeCi[0], slopeCi[1])} within 1 ± ${margin}, and no fitted coefficient differs significantly from its declared value.${effectiveText}`;
+    summary = `The slope of ln P(Σ)/P(−Σ) is ${fmt(slope)}, ${confidence * 100}% interval ${fmtInterval(slopeCi[0], slopeCi[1])} within 1 ± ${margin}, and no fitted coefficient differs significantly from its declared value.${effectiveText}${identText}`;
   } else {
     status = "inconclusive";
     const half = (slopeCi[1] - slopeCi[0]) / 2;
-    summary = `No significant violation, but the slope's ${confidence * 100}% interval ${fmtInterval(slopeCi[0], slopeCi[1])} does not lie within 1 ± ${margin}.`;
+    summary = `No significant violation, but the slope's ${confidence * 100}% interval ${fmtInterval(slopeCi[0], slopeCi[1])} does not lie within 1 ± ${margin}.${identText}`;
     reason = `The slope is known to ±${fmt(half, 2)}. ${resolveSentence(n, half, slope - 1, margin)}`;
   }
 
@@ -200,7 +317,11 @@ export function exchangeFluctuationForDataset(d: SamplesDataset, ctx: CheckConte
       slope_ci: slopeCi,
       slope_standard_error: slopeSe,
       effective_affinity: { a_Q: fitted.a_Q, a_N: fitted.a_N, ...(fitted.beta_bar !== null ? { beta_bar: fitted.beta_bar } : {}) },
-      effective_affinity_standard_error: Object.fromEntries(channels.map((c, j) => [c.key, jointOk ? joint!.standardErrors[j] : null])),
+      effective_affinity_standard_error: fittedSe,
+      identifiable_combinations: combinationValues,
+      not_identifiable: ident.notIdentified,
+      identifiability: ident.explanation || null,
+      exact_relations: ident.relations,
       declared_affinity: { a_Q: d.affinity.a_Q, a_N: d.affinity.a_N, beta_bar: d.affinity.beta_bar },
       effective_reservoirs: effective,
       declared_reservoirs: declaredTemps,
@@ -238,8 +359,8 @@ export function exchangeFluctuationForDataset(d: SamplesDataset, ctx: CheckConte
           { key: "unit", label: "Unit" },
         ],
         rows: [
-          { quantity: "T_A", declared: d.reservoirs.A.T, effective: channels.some((c) => c.key === "a_Q") ? effective.T_A : null, unit: "K" },
-          { quantity: "T_B", declared: d.reservoirs.B.T, effective: channels.some((c) => c.key === "a_Q") ? effective.T_B : null, unit: "K" },
+          { quantity: "T_A", declared: d.reservoirs.A.T, effective: fitted.a_Q !== null ? effective.T_A : null, unit: "K" },
+          { quantity: "T_B", declared: d.reservoirs.B.T, effective: fitted.a_Q !== null ? effective.T_B : null, unit: "K" },
           { quantity: "μ_A − μ_B", declared: declaredTemps.delta_mu, effective: effective.delta_mu, unit: "J" },
           ...(effective.T_particles !== null ? [{ quantity: "T from particle counting", declared: d.reservoirs.A.T, effective: effective.T_particles, unit: "K" }] : []),
         ],
@@ -248,7 +369,7 @@ export function exchangeFluctuationForDataset(d: SamplesDataset, ctx: CheckConte
     plots: [
       mirrorHistogramPlot(d),
       logRatioPlot(ratio, slopeOk ? slope : null),
-      ...(d.hasParticleColumn && channels.some((c) => c.key === "a_N") ? [jointHistogramPlot(d)] : []),
+      ...(d.hasParticleColumn && d.dN.some((v) => v !== 0) ? [jointHistogramPlot(d)] : []),
     ],
   };
 }
@@ -265,6 +386,17 @@ function describeEffective(d: SamplesDataset, e: ReturnType<typeof effectiveRese
     parts.push(`effective μ_A − μ_B = ${fmt(e.delta_mu / (d.energyUnit.joules))} ${d.energyUnit.name} (declared ${fmt((d.reservoirs.A.mu - d.reservoirs.B.mu) / d.energyUnit.joules)} ${d.energyUnit.name})`);
   }
   return parts.length ? ` From the fit: ${parts.join("; ")}.` : "";
+}
+
+/** " Fitted: a_Q·ε + a_N = 0.58 ± 0.01 (declared 0.58)." for the combinations that are not single coefficients. */
+function describeCombinations(combos: Combination[], values: Record<string, unknown>[]): string {
+  const parts = combos.flatMap((m) => {
+    const v = values.find((x) => x.combination === m.label);
+    if (!v || typeof v.fitted !== "number" || typeof v.standard_error !== "number") return [];
+    const unit = m.channel.unit ? ` ${m.channel.unit}` : "";
+    return [`${m.label} = ${fmt(v.fitted)} ± ${fmt(v.standard_error, 2)}${unit} (declared ${fmt(m.declared)}${unit})`];
+  });
+  return parts.length ? ` Fitted: ${parts.join("; ")}.` : "";
 }
 
 export const exchangeFluctuation: CheckDefinition = {
