@@ -48,6 +48,10 @@ export interface LogisticFit {
 
 const CONVERGED = 1e-8;
 
+const DEPENDENT = "the features are linearly dependent (the information matrix is singular), so the coefficients are not identified separately";
+const ILL_CONDITIONED =
+  "the information matrix is numerically singular although the features are linearly independent (too few realisations carry information about some combination of them), so the coefficients are not identified separately";
+
 export interface LogisticOptions {
   maxIterations?: number;
 }
@@ -168,6 +172,9 @@ export function fitExchangeLogistic(features: ArrayLike<number>[], weight: Array
   if (p === 0 || n === 0) return failed("degenerate", p, "no features or no realisations to fit", eta, scales, 0, 0, 0);
   const zero = scales.findIndex((s) => !(s > 0) || !Number.isFinite(s));
   if (zero >= 0) return failed("degenerate", p, `feature ${zero + 1} is zero in every realisation, so its coefficient is not identified`, eta, scales, 0, 0, 0);
+  // Exact dependence must be caught in the data: after scaling, proportional columns are identical and the
+  // rounded information matrix may still pass as positive definite, giving finite nonsense coefficients.
+  if (p > 1 && columnDependence(features, weight).dependent.length > 0) return failed("degenerate", p, DEPENDENT, eta, scales, 0, 0, 0);
 
   let beta = new Array<number>(p).fill(0);
   let ll = logLikelihood(eta, weight);
@@ -177,13 +184,8 @@ export function fitExchangeLogistic(features: ArrayLike<number>[], weight: Array
     const chol = new CholeskyDecomposition(new Matrix(info));
     if (!chol.isPositiveDefinite()) {
       const nw = negativeWeightOf(eta, weight);
-      // Exact dependence in the data (the caller should fit a basis, see columnDependence) or a fit whose
-      // information matrix is singular in floating point although the columns are independent.
-      const exact = columnDependence(features, weight).dependent.length > 0;
-      const message = exact
-        ? "the features are linearly dependent (the information matrix is singular), so the coefficients are not identified separately"
-        : "the information matrix is numerically singular although the features are linearly independent (too few realisations carry information about some combination), so the coefficients are not identified separately";
-      return failed("degenerate", p, message, eta, scales, it, nw.negative, ll);
+      // The columns are independent (checked above), so the realisations that carry weight do not pin some combination.
+      return failed("degenerate", p, ILL_CONDITIONED, eta, scales, it, nw.negative, ll);
     }
     const step = chol.solve(Matrix.columnVector(grad)).to1DArray();
     const decrement = step.reduce((acc, s, j) => acc + s * grad[j], 0); // Newton decrement squared

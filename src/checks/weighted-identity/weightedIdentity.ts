@@ -1,6 +1,7 @@
 import type { SamplesDataset } from "../../ingest/types.ts";
 import { exponentialConvergence } from "../../physics/exponentialConvergence.ts";
 import { bcaInterval, bcaPValue, bootstrapRatio } from "../../stats/bootstrap.ts";
+import { columnDependence } from "../../stats/columnDependence.ts";
 import { holm } from "../../stats/holm.ts";
 import { resolveSentence } from "../../stats/sampleSize.ts";
 import { fmt, fmtInterval, numberOption, perDataset } from "../helpers.ts";
@@ -72,7 +73,16 @@ export function weightedIdentityForDataset(d: SamplesDataset, ctx: CheckContext)
   for (let i = 0; i < n; i++) aDotX[i] = -ax[i];
   const conv = exponentialConvergence(aDotX, d.weight);
 
-  const results = currents.map((c) => {
+  // A current that is a fixed multiple of another in every realisation (Q = εΔN through a single level)
+  // gives r_Q = sign(ε) r_ΔN exactly (r is invariant under x → c x up to the sign of c): the same statement,
+  // tested once so that Holm's family counts only independent identities.
+  const dep = columnDependence(
+    currents.map((c) => c.x),
+    d.weight,
+    { order: [currents.findIndex((c) => c.key === "dN"), currents.findIndex((c) => c.key === "Q")].filter((i) => i >= 0) },
+  );
+  const independent = dep.basis.map((b) => currents[b]);
+  const tested = independent.map((c) => {
     let scaleX = 0;
     for (let i = 0; i < n; i++) scaleX = Math.max(scaleX, Math.abs(c.x[i]));
     const u = new Float64Array(n);
@@ -82,9 +92,28 @@ export function weightedIdentityForDataset(d: SamplesDataset, ctx: CheckContext)
       v[i] = Math.abs(u[i]);
     }
     const boot = bootstrapRatio(u, v, d.weight, ctx.rngFor(d.sha256, `weighted-identity-${c.key}`), { resamples: ctx.settings.resamples });
-    return { current: c, ratio: boot.estimate, ci: bcaInterval(boot, confidence), p: bcaPValue(boot, 0) };
+    return { current: c, ratio: boot.estimate, ci: bcaInterval(boot, confidence), p: bcaPValue(boot, 0), sameAs: null as null | { key: Current["key"]; factor: number } };
   });
-  const family = holm(results.map((r) => r.p), alpha);
+  const testedFamily = holm(tested.map((r) => r.p), alpha);
+  const mirrored = dep.dependent.map((k) => {
+    // Only one current can be dependent on the other here: zero currents were left out above.
+    const j = k.coefficients.findIndex((c) => c !== 0);
+    const src = tested[j];
+    const sign = Math.sign(k.coefficients[j]);
+    const ci: [number, number] = sign > 0 ? [src.ci[0], src.ci[1]] : [-src.ci[1], -src.ci[0]];
+    return { current: currents[k.index], ratio: sign * src.ratio, ci, p: src.p, sameAs: { key: src.current.key, factor: k.coefficients[j] } };
+  });
+  const results = [...tested, ...mirrored].sort((a, b) => currents.indexOf(a.current) - currents.indexOf(b.current));
+  // A mirrored current shares the Holm decision of the current it repeats.
+  const testOf = (r: (typeof results)[number]) => tested.findIndex((t) => t.current.key === (r.sameAs ? r.sameAs.key : r.current.key));
+  const family = { adjusted: results.map((r) => testedFamily.adjusted[testOf(r)]), rejected: results.map((r) => testedFamily.rejected[testOf(r)]) };
+  const sameText = mirrored
+    .map((m) => {
+      const src = currents.find((c) => c.key === m.sameAs.key)!;
+      const factor = m.current.key === "Q" && src.key === "dN" ? `${fmt(m.sameAs.factor / d.energyUnit.joules)} ${d.energyUnit.name}` : fmt(m.sameAs.factor);
+      return ` ${m.current.key} = ${factor} × ${src.key} in every realisation, so r_${m.current.key} = ${m.sameAs.factor > 0 ? "" : "−"}r_${src.key} exactly and the two identities are one test.`;
+    })
+    .join("");
   const rejected = results.filter((_, k) => family.rejected[k]);
   const within = results.every((r) => r.ci[0] >= -margin && r.ci[1] <= margin);
   const describe = results.map((r) => `r_${r.current.key} = ${fmt(r.ratio)} ${fmtInterval(r.ci[0], r.ci[1])}`).join(", ");
@@ -98,17 +127,17 @@ export function weightedIdentityForDataset(d: SamplesDataset, ctx: CheckContext)
     reason = "At least 30 realisations are needed; record more runs.";
   } else if (!conv.resolved) {
     status = "inconclusive";
-    summary = `${describe}, but the exponential weights are not resolved by the sample.`;
+    summary = `${describe}, but the exponential weights are not resolved by the sample.${sameText}`;
     reason = `${conv.reason?.replaceAll("Σ", "a·x")}. More realisations or smaller affinities would settle it.`;
   } else if (rejected.length) {
     status = "fail";
-    summary = `The weighted identity fails for ${rejected.map((r) => r.current.label).join(" and ")}: ${describe} (Holm-adjusted p ≤ ${alpha}); the declared affinities do not match the data in that channel.`;
+    summary = `The weighted identity fails for ${rejected.map((r) => r.current.label).join(" and ")}: ${describe} (Holm-adjusted p ≤ ${alpha}); the declared affinities do not match the data in that channel.${sameText}`;
   } else if (within) {
     status = "pass";
-    summary = `The weighted currents cancel: ${describe}, each ${confidence * 100}% interval within ±${margin}.`;
+    summary = `The weighted currents cancel: ${describe}, each ${confidence * 100}% interval within ±${margin}.${sameText}`;
   } else {
     status = "inconclusive";
-    summary = `No significant departure (${describe}), but not every interval lies within ±${margin}.`;
+    summary = `No significant departure (${describe}), but not every interval lies within ±${margin}.${sameText}`;
     const worst = results.reduce((a, r) => (Math.max(Math.abs(r.ci[0]), Math.abs(r.ci[1])) > Math.max(Math.abs(a.ci[0]), Math.abs(a.ci[1])) ? r : a));
     reason = resolveSentence(d.realisations, (worst.ci[1] - worst.ci[0]) / 2, worst.ratio, margin);
   }
@@ -131,7 +160,10 @@ export function weightedIdentityForDataset(d: SamplesDataset, ctx: CheckContext)
     summary,
     ...(reason ? { reason } : {}),
     values: {
-      currents: Object.fromEntries(results.map((r, k) => [r.current.key, { ratio: r.ratio, ci: r.ci, p_value: r.p, p_holm: family.adjusted[k] }])),
+      currents: Object.fromEntries(
+        results.map((r, k) => [r.current.key, { ratio: r.ratio, ci: r.ci, p_value: r.p, p_holm: family.adjusted[k], ...(r.sameAs ? { same_test_as: r.sameAs.key, factor: r.sameAs.factor } : {}) }]),
+      ),
+      independent_currents: tested.map((r) => r.current.key),
       effective_sample_size: conv.effectiveSampleSize,
       tail_shape: conv.tailShape,
       resolved: conv.resolved,
