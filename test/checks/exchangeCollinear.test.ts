@@ -57,6 +57,7 @@ describe("exchange-fluctuation with Q = εΔN in every realisation (single level
     expect(v.not_identifiable).toEqual(["a_Q", "a_N"]);
     expect(v.identifiability).toBe("Q = ε·ΔN with ε = 1.243e-23 J in every realisation, so a_Q and a_N are identifiable only as the combination a_Q·ε + a_N.");
     // No effective temperature from a combination that mixes both channels.
+    expect(v.effective_reservoirs).toMatchObject({ T_A: null, T_B: null, T_particles: null });
     expect(r.summary).not.toContain("effective T");
     expect(r.summary).toContain(" Fitted: a_Q·ε + a_N = ");
   });

@@ -323,7 +323,8 @@ export function exchangeFluctuationForDataset(d: SamplesDataset, ctx: CheckConte
       identifiability: ident.explanation || null,
       exact_relations: ident.relations,
       declared_affinity: { a_Q: d.affinity.a_Q, a_N: d.affinity.a_N, beta_bar: d.affinity.beta_bar },
-      effective_reservoirs: effective,
+      // Temperatures only where a_Q is identified; otherwise effectiveReservoirs merely echoes the declared ones.
+      effective_reservoirs: fitted.a_Q !== null ? effective : { ...effective, T_A: null, T_B: null },
       declared_reservoirs: declaredTemps,
       bins_used: ratio.bins.length,
       binned_chi_square: ratio.dof > 0 ? { statistic: ratio.chiSquare, dof: ratio.dof, p_value: ratio.pValue, exact_values: ratio.discrete } : null,
