@@ -1,5 +1,6 @@
 import type { SamplesDataset } from "../ingest/types.ts";
 import type { CheckId, CheckResult } from "./types.ts";
+import { notApplicableResult } from "./helpers.ts";
 
 /**
  * True when the entropy production vanishes in every realisation: both
@@ -16,18 +17,13 @@ export function sigmaVanishesIdentically(d: SamplesDataset): boolean {
 export function trivialAtEquilibrium(check: CheckId, d: SamplesDataset, equations: string[], references: string[]): CheckResult {
   const reason =
     "Σ = 0 in every realisation (both reservoirs in the same declared state and no work), so the relation holds with equality whatever the measured transfers are; these data cannot test it. Data taken at a non-zero temperature or chemical-potential difference, or with switching work, can.";
-  return {
+  return notApplicableResult({
     check,
     dataset: d.id,
-    status: "not-applicable",
     summary: "Not applicable: the entropy production vanishes in every realisation, so the law is satisfied trivially.",
     reason,
     values: { realisations: d.realisations },
-    criteria: {},
-    assumptions: [],
     references,
     equations,
-    tables: [],
-    plots: [],
-  };
+  });
 }

@@ -1,5 +1,5 @@
 import type { Dataset, IngestedAudit, SamplesDataset, CoefficientsDataset, CumulantsDataset } from "../ingest/types.ts";
-import type { CheckContext, CheckResult } from "./types.ts";
+import type { CheckContext, CheckId, CheckResult } from "./types.ts";
 
 type KindMap = { samples: SamplesDataset; coefficients: CoefficientsDataset; cumulants: CumulantsDataset };
 
@@ -34,4 +34,36 @@ export function fmtInterval(lo: number, hi: number, digits = 4): string {
 export function numberOption(ctx: CheckContext, key: string, fallback: number, check: (v: number) => boolean = Number.isFinite): number {
   const v = ctx.options[key];
   return typeof v === "number" && check(v) ? v : fallback;
+}
+
+/** What a not-applicable result says besides its status. */
+export interface NotApplicableFields {
+  check: CheckId;
+  dataset: string;
+  /** Why the check cannot run on these data, and what would make it applicable. */
+  reason: string;
+  /** Defaults to "Not applicable: <reason>". */
+  summary?: string;
+  values?: Record<string, unknown>;
+  assumptions?: string[];
+  references?: string[];
+  equations?: string[];
+}
+
+/** A `not-applicable` result: missing inputs, never a verdict. */
+export function notApplicableResult(f: NotApplicableFields): CheckResult {
+  return {
+    check: f.check,
+    dataset: f.dataset,
+    status: "not-applicable",
+    summary: f.summary ?? `Not applicable: ${f.reason}`,
+    reason: f.reason,
+    values: f.values ?? {},
+    criteria: {},
+    assumptions: f.assumptions ?? [],
+    references: f.references ?? [],
+    equations: f.equations ?? [],
+    tables: [],
+    plots: [],
+  };
 }

@@ -1,4 +1,5 @@
 import { CHECKS } from "../checks/index.ts";
+import { notApplicableResult } from "../checks/helpers.ts";
 import type { CheckContext, CheckDefinition, CheckOptions, CheckResult } from "../checks/types.ts";
 import type { AuditDefinition } from "../config/types.ts";
 import { ConfigError } from "../errors.ts";
@@ -54,23 +55,6 @@ export function contextFor(definition: AuditDefinition, options: CheckOptions, c
   };
 }
 
-function notApplicable(id: CheckResult["check"], reason: string): CheckResult {
-  return {
-    check: id,
-    dataset: "—",
-    status: "not-applicable",
-    summary: `Not applicable: ${reason}`,
-    reason,
-    values: {},
-    criteria: {},
-    assumptions: [],
-    references: [],
-    equations: [],
-    tables: [],
-    plots: [],
-  };
-}
-
 /** Run the selected checks on ingested data: pure apart from the check code itself. */
 export function runChecks(audit: IngestedAudit, registry: readonly CheckDefinition[] = CHECKS): CheckResult[] {
   const results: CheckResult[] = [];
@@ -78,7 +62,7 @@ export function runChecks(audit: IngestedAudit, registry: readonly CheckDefiniti
     const ctx = contextFor(audit.definition, selected.options, selected.definition.id);
     const out = selected.definition.run(audit, ctx);
     if (out.length === 0 && selected.explicit) {
-      results.push(notApplicable(selected.definition.id, `no dataset in this audit is of a kind that ${selected.definition.id} examines`));
+      results.push(notApplicableResult({ check: selected.definition.id, dataset: "—", reason: `no dataset in this audit is of a kind that ${selected.definition.id} examines` }));
     }
     results.push(...out);
   }

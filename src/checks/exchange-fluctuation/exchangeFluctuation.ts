@@ -5,7 +5,7 @@ import { columnDependence, identifiableCombinations } from "../../stats/columnDe
 import { normalQuantile, normalTwoSidedP } from "../../stats/normal.ts";
 import { holm } from "../../stats/holm.ts";
 import { resolveSentence } from "../../stats/sampleSize.ts";
-import { fmt, fmtInterval, numberOption, perDataset } from "../helpers.ts";
+import { fmt, fmtInterval, notApplicableResult, numberOption, perDataset } from "../helpers.ts";
 import type { CheckContext, CheckDefinition, CheckResult, Status, TableSpec } from "../types.ts";
 import { binnedLogRatio, type LogRatio } from "./binnedLogRatio.ts";
 import { jointHistogramPlot, logRatioPlot, mirrorHistogramPlot } from "./plots.ts";
@@ -166,17 +166,7 @@ export function assumptionsFor(d: SamplesDataset): string[] {
 }
 
 function notApplicable(d: SamplesDataset, reason: string): CheckResult {
-  return {
-    ...base(d),
-    status: "not-applicable",
-    summary: `Not applicable: ${reason}`,
-    reason,
-    values: {},
-    criteria: {},
-    assumptions: assumptionsFor(d),
-    tables: [],
-    plots: [],
-  };
+  return notApplicableResult({ ...base(d), reason, assumptions: assumptionsFor(d) });
 }
 
 interface Test {

@@ -21,7 +21,7 @@ import {
   thermoelectricFromOnsager,
 } from "../../physics/thermoelectric.ts";
 import { propagateUncertainty } from "../../stats/monteCarlo.ts";
-import { fmt, perDataset } from "../helpers.ts";
+import { fmt, notApplicableResult, perDataset } from "../helpers.ts";
 import type { CheckContext, CheckDefinition, CheckResult, TableSpec } from "../types.ts";
 import type { PlotSpec, Series } from "../plotSpec.ts";
 import { groupBy, pointLabel, sortedBy, sweepAxisLabel } from "../reciprocity/points.ts";
@@ -145,20 +145,13 @@ export function figuresOfMeritForDataset(d: CoefficientsDataset, ctx: CheckConte
     );
   }
   if (d.n !== 2) {
-    return {
+    return notApplicableResult({
       check: "figures-of-merit",
       dataset: d.id,
-      status: "not-applicable",
       summary: `Not applicable: figures of merit are defined for the two-flux charge–heat matrix, and this table has ${d.n} fluxes.`,
       reason: "Give the 2×2 charge–heat block (L11 L12 L21 L22) as its own dataset to see G, S, Π, K and ZT.",
-      values: {},
-      criteria: {},
-      assumptions: [],
       references,
-      equations: [],
-      tables: [],
-      plots: [],
-    };
+    });
   }
   const pts = evaluate(d, ctx);
   const zts = pts.map((p) => p.value.ZT).filter(Number.isFinite);

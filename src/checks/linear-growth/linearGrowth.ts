@@ -1,5 +1,5 @@
 import type { IngestedAudit, SamplesDataset } from "../../ingest/types.ts";
-import { datasetsOfKind, fmt, fmtInterval, numberOption } from "../helpers.ts";
+import { datasetsOfKind, fmt, fmtInterval, notApplicableResult, numberOption } from "../helpers.ts";
 import type { CheckContext, CheckDefinition, CheckResult, Status, TableSpec } from "../types.ts";
 import type { PlotSpec, Series } from "../plotSpec.ts";
 import { texValue } from "../fluctuation-dissipation/presentation.ts";
@@ -241,20 +241,7 @@ function seriesResult(series: GrowthSeries, ctx: CheckContext): CheckResult {
 }
 
 function notApplicable(p: Extract<SeriesOrProblem, { problem: string }>): CheckResult {
-  return {
-    check: "linear-growth",
-    dataset: p.name,
-    status: "not-applicable",
-    summary: `Not applicable: ${p.problem}.`,
-    reason: `${p.problem}.`,
-    values: { datasets: p.datasets },
-    criteria: {},
-    assumptions: [],
-    references: REFERENCES,
-    equations: [],
-    tables: [],
-    plots: [],
-  };
+  return notApplicableResult({ check: "linear-growth", dataset: p.name, reason: `${p.problem}.`, values: { datasets: p.datasets }, references: REFERENCES });
 }
 
 /** One result per series: samples datasets sharing `series:`, and each cumulants table. */

@@ -8,7 +8,7 @@ import type { CoefficientsDataset } from "../../ingest/types.ts";
 import { LORENZ_SOMMERFELD } from "../../physics/constants.ts";
 import { lorenzNumber, onsagerFromInputs, thermoelectricFromOnsager } from "../../physics/thermoelectric.ts";
 import { propagateUncertainty } from "../../stats/monteCarlo.ts";
-import { fmt, perDataset } from "../helpers.ts";
+import { fmt, notApplicableResult, perDataset } from "../helpers.ts";
 import type { CheckContext, CheckDefinition, CheckResult } from "../types.ts";
 import type { Series } from "../plotSpec.ts";
 import { groupBy, pointLabel, sortedBy, sweepAxisLabel } from "../reciprocity/points.ts";
@@ -22,20 +22,13 @@ export function lorenzRatioForDataset(d: CoefficientsDataset, ctx: CheckContext)
   const references = ["A. Sommerfeld, Z. Phys. 47, 1 (1928)", "N. W. Ashcroft and N. D. Mermin, Solid State Physics (1976), ch. 2", "E. Tiesinga et al. (CODATA 2018), Rev. Mod. Phys. 93, 025010 (2021)"];
   const equations = [String.raw`\frac{K}{G\,T} \quad\text{against}\quad L_0 = \frac{\pi^2}{3}\left(\frac{k_B}{e}\right)^2 = 2.443\,004\,5\times 10^{-8}\ \mathrm{W\,\Omega\,K^{-2}}`];
   if (d.n !== 2) {
-    return {
+    return notApplicableResult({
       check: "lorenz-ratio",
       dataset: d.id,
-      status: "not-applicable",
       summary: `Not applicable: the Lorenz ratio needs the two-flux charge–heat matrix, and this table has ${d.n} fluxes.`,
       reason: "Give the 2×2 charge–heat block as its own dataset.",
-      values: {},
-      criteria: {},
-      assumptions: [],
       references,
-      equations: [],
-      tables: [],
-      plots: [],
-    };
+    });
   }
   const rng = ctx.rngFor(d.sha256, "lorenz-ratio");
   const pts = d.points.map((p, index) => {
