@@ -50,6 +50,8 @@ describe("user text is escaped", () => {
     const src = path.join(REPO, "audits", "vq3-heat-exchange");
     const dst = path.join(root, "audits", "vq3-heat-exchange");
     fs.cpSync(src, dst, { recursive: true });
+    // Without published versions the landing page renders the current definition (as a draft).
+    fs.rmSync(path.join(dst, "versions"), { recursive: true, force: true });
     const yamlPath = path.join(dst, "audit.yaml");
     const yaml = fs
       .readFileSync(yamlPath, "utf8")
