@@ -2,7 +2,6 @@ import path from "node:path";
 import { loadAuditDefinition } from "../config/loadAudit.ts";
 import { confinePath } from "../config/confinePath.ts";
 import type { AuditDefinition } from "../config/types.ts";
-import { InputError } from "../errors.ts";
 import { loadSamples } from "./samples.ts";
 import { loadCoefficients } from "./coefficients.ts";
 import { loadCumulants } from "./cumulants.ts";
@@ -33,5 +32,3 @@ export async function ingestDefinition(dir: string, definition: AuditDefinition)
 export async function ingestAudit(dir: string): Promise<IngestedAudit> {
   return ingestDefinition(dir, loadAuditDefinition(dir));
 }
-
-export { InputError };
