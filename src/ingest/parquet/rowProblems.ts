@@ -1,0 +1,107 @@
+import { DataError } from "../../errors.ts";
+
+/** At most this many problems are listed; the rest are counted (as readNumericCsv does). */
+export const MAX_REPORTED = 20;
+
+// Integers of magnitude up to 2^53 are exactly representable as IEEE 754 doubles; above
+// it not every integer is (IEEE 754-2019, binary64 has a 53-bit significand).
+const MAX_EXACT_INTEGER = 2n ** 53n;
+
+interface RowProblem {
+  row: number; // 0-based row in the file
+  columnIndex: number; // position among the requested columns, to order problems in a row
+  column: string;
+  value: unknown;
+}
+
+/** What is wrong with one cell, in the words a user needs to fix it. */
+function describeBadValue(value: unknown): string {
+  if (value === null || value === undefined) return "expected a number, found a missing (null) value";
+  if (typeof value === "number") return `expected a finite number, found ${String(value)}`;
+  if (typeof value === "bigint") {
+    return `expected an integer of magnitude at most 2^53 = 9007199254740992 (beyond it not every integer has an exact double), found ${value.toString()}`;
+  }
+  return `expected a number, found a value of type ${typeof value}`;
+}
+
+function before(a: RowProblem, b: RowProblem): boolean {
+  return a.row < b.row || (a.row === b.row && a.columnIndex < b.columnIndex);
+}
+
+/**
+ * Bad cells of a file, gathered so that a user can fix them in one go. Keeps the
+ * MAX_REPORTED earliest (by row, then column) whatever order the column chunks are
+ * decoded in, and counts the others, so memory stays bounded on a file full of nulls.
+ */
+export class RowProblems {
+  total = 0;
+  private readonly kept: RowProblem[] = [];
+
+  constructor(private readonly label: string) {}
+
+  add(row: number, columnIndex: number, column: string, value: unknown): void {
+    this.total++;
+    const problem = { row, columnIndex, column, value };
+    if (this.kept.length < MAX_REPORTED) {
+      this.kept.push(problem);
+      return;
+    }
+    let latest = 0;
+    for (let i = 1; i < this.kept.length; i++) if (before(this.kept[latest], this.kept[i])) latest = i;
+    if (before(problem, this.kept[latest])) this.kept[latest] = problem;
+  }
+
+  /** One line per kept problem, `file, row N, column "c": …`, rows counted from 1. */
+  toError(): DataError {
+    const lines = [...this.kept]
+      .sort((a, b) => a.row - b.row || a.columnIndex - b.columnIndex)
+      .map((p) => `${this.label}, row ${p.row + 1}, column "${p.column}": ${describeBadValue(p.value)}`);
+    if (this.total > MAX_REPORTED) lines.push(`… and ${this.total - MAX_REPORTED} more problem(s) in ${this.label}`);
+    return new DataError(lines.join("\n"));
+  }
+}
+
+/**
+ * Copy `source[from..to)` into `target` at `at` as doubles, recording every cell that is
+ * not a finite number (null, NaN, ±Infinity, an integer beyond 2^53). `firstRow` is the
+ * file row of `source[from]`.
+ */
+export function copyAsDoubles(
+  source: ArrayLike<unknown>,
+  from: number,
+  to: number,
+  target: Float64Array,
+  at: number,
+  firstRow: number,
+  columnIndex: number,
+  column: string,
+  problems: RowProblems,
+): void {
+  if (source instanceof Int32Array || source instanceof Uint32Array || source instanceof Uint8Array) {
+    // Every 32-bit integer is an exact, finite double.
+    target.set(source.subarray(from, to), at);
+    return;
+  }
+  if (source instanceof Float64Array || source instanceof Float32Array) {
+    for (let i = from, j = at; i < to; i++, j++) {
+      const v = source[i];
+      // v − v is 0 for every finite v and NaN for NaN and ±Infinity.
+      if (v - v !== 0) problems.add(firstRow + (i - from), columnIndex, column, v);
+      target[j] = v;
+    }
+    return;
+  }
+  for (let i = from, j = at; i < to; i++, j++) {
+    const v = source[i];
+    if (typeof v === "number") {
+      if (v - v !== 0) problems.add(firstRow + (i - from), columnIndex, column, v);
+      target[j] = v;
+    } else if (typeof v === "bigint") {
+      if (v > MAX_EXACT_INTEGER || v < -MAX_EXACT_INTEGER) problems.add(firstRow + (i - from), columnIndex, column, v);
+      target[j] = Number(v);
+    } else {
+      problems.add(firstRow + (i - from), columnIndex, column, v);
+      target[j] = Number.NaN;
+    }
+  }
+}
