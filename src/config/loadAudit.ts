@@ -21,7 +21,7 @@ export function loadAuditDefinition(auditDir: string): AuditDefinition {
 export function parseAuditDefinition(source: string, label = AUDIT_FILE): AuditDefinition {
   const doc = parseLocatedYaml(label, source);
   if (doc.value === null || typeof doc.value !== "object" || Array.isArray(doc.value)) {
-    throw new ConfigError(`${label}:1 (top level): must be a map of keys (id, title, authors, datasets, …), found ${doc.value === null ? "an empty file" : typeof doc.value}`);
+    throw new ConfigError(`${label}:1 (top level): must be a map of keys (id, title, authors, datasets, …), found ${doc.value === null ? "an empty file" : Array.isArray(doc.value) ? "a list" : `the single value ${JSON.stringify(doc.value)}`}`);
   }
   return validateLocated(auditSchema, doc) as AuditDefinition;
 }

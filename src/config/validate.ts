@@ -20,6 +20,29 @@ function valueAt(root: unknown, path: readonly (string | number)[]): unknown {
   return v;
 }
 
+/** What a schema type expects, in the words of the audit.yaml reference. */
+const EXPECTED: Record<string, string> = {
+  array: "must be a list",
+  object: "must be a map of keys",
+  string: "must be text",
+  number: "must be a number",
+  integer: "must be a whole number",
+  boolean: "must be true or false",
+};
+
+/**
+ * The issue's message, with zod's built-in English ("Required", "Expected
+ * array, received string") replaced by the wording of our own messages; the
+ * schemas' own messages are kept as written.
+ */
+function plainMessage(issue: z.ZodIssue): string {
+  if (issue.code === "invalid_type") {
+    if (issue.message === "Required") return "is required";
+    if (issue.message.startsWith("Expected ")) return EXPECTED[issue.expected] ?? `must be of type ${issue.expected}`;
+  }
+  return issue.message;
+}
+
 /** Strip wrappers (default, optional, refinements) down to the structural schema. */
 function unwrap(schema: z.ZodTypeAny): z.ZodTypeAny {
   let s = schema;
@@ -79,7 +102,8 @@ export function validateLocated<S extends z.ZodTypeAny>(schema: S, doc: LocatedY
     }
     const found = valueAt(doc.value, issue.path);
     const missing = found === undefined && issue.code === "invalid_type" && issue.received === "undefined";
-    const message = missing ? `is missing; ${issue.message === "is required" ? "it is required" : issue.message}` : issue.message;
+    const said = plainMessage(issue);
+    const message = missing ? `is missing; ${said === "is required" ? "it is required" : said}` : said;
     const foundText = found === undefined ? "" : `, found ${describeFound(found)}`;
     lines.push(`${doc.file}:${doc.lineOf(issue.path) ?? "?"} ${formatKeyPath(issue.path)}: ${message}${foundText}`);
   }
