@@ -89,7 +89,7 @@ function finish(bins: (LogRatioBin & { varX: number })[], discrete: boolean, dro
     bins: bins.map(({ varX: _v, ...rest }) => rest),
     chiSquare: chi,
     dof,
-    pValue: dof > 0 ? chiSquareSf(chi, dof) : Number.NaN,
+    pValue: dof > 0 && !Number.isNaN(chi) ? chiSquareSf(chi, dof) : Number.NaN,
     dropped,
   };
 }

@@ -244,7 +244,8 @@ export function exchangeFluctuationForDataset(d: SamplesDataset, ctx: CheckConte
     tests.push({ name: m.label, p, describe: `fitted ${m.label} = ${fmt(est)}${unit} differs from the declared ${fmt(m.declared)}${unit}` });
     coefficientRows.push({ coefficient: m.terms.length ? `${m.label} (coefficient of ${m.channel.variable})` : m.channel.label, declared: m.declared, fitted: est, se, z: zScore, p });
   });
-  if (ratio.dof > 0) tests.push({ name: "binned", p: ratio.pValue, describe: `the binned log-ratio departs from the line y = Σ (χ² = ${fmt(ratio.chiSquare)}, ${ratio.dof} bins)` });
+  // A χ² that is not a number (weights beyond double precision) is no test rather than a crash.
+  if (ratio.dof > 0 && !Number.isNaN(ratio.chiSquare)) tests.push({ name: "binned", p: ratio.pValue, describe: `the binned log-ratio departs from the line y = Σ (χ² = ${fmt(ratio.chiSquare)}, ${ratio.dof} bins)` });
   if (cubic && Number.isFinite(cubic.pValue)) tests.push({ name: "cubic", p: cubic.pValue, describe: "a cubic term in ln P(Σ)/P(−Σ) is significant (the ratio is not exponential in Σ)" });
   const family = holm(tests.map((t) => t.p), alpha);
   ident.combinations.forEach((m, j) => {
@@ -273,6 +274,11 @@ export function exchangeFluctuationForDataset(d: SamplesDataset, ctx: CheckConte
     status = "inconclusive";
     summary = "Σ is zero in every realisation, so the contracted relation P(Σ)/P(−Σ) = e^Σ says nothing.";
     reason = "The declared affinities make Σ vanish (or no energy or particles were exchanged); the relation is tested by data with non-zero Σ.";
+  } else if (negative >= MIN_NEGATIVE && positive < negative && contracted?.status === "separable") {
+    // The mirror image of the usual shortage: Σ < 0 in (nearly) every realisation, so P(Σ) has no partner P(−Σ).
+    status = "inconclusive";
+    summary = `${positive === 0 ? "No realisation has" : `Only ${fmt(positive)} of ${n} realisations ${positive === 1 ? "has" : "have"}`} Σ > 0 while ${fmt(negative)} have Σ < 0: without mirrored events the slope of ln P(Σ)/P(−Σ) cannot be estimated.`;
+    reason = `The ratio needs realisations of both signs. Σ < 0 in nearly every run contradicts the declared affinities (are reservoirs A and B, or the sign of Q, swapped?); the second-law check judges the mean.`;
   } else if (negative < MIN_NEGATIVE || contracted?.status === "separable") {
     status = "inconclusive";
     summary = `Only ${fmt(negative)} of ${n} realisations have Σ < 0: too few to estimate the slope of ln P(Σ)/P(−Σ).`;

@@ -23,7 +23,7 @@ const MAX_EXPONENT = 600;
  * is then the full average.
  */
 function realisationOrder(d: SamplesDataset, rng: Rng, cap: number): Uint32Array {
-  const m = d.rows;
+  const m = d.sigma.length; // rows, or cells of a reduced file
   if (!d.weight) {
     const order = new Uint32Array(Math.min(m, cap));
     for (let i = 0; i < order.length; i++) order[i] = i;
@@ -144,6 +144,7 @@ export function integralFluctuationForDataset(d: SamplesDataset, ctx: CheckConte
   const pValue = bcaPValue(boot, 1 / scale);
   const conv = exponentialConvergence(sigma, d.weight);
   const n = d.realisations;
+  if (!Number.isFinite(scale)) return overflowingAverage(d, ctx, boot.estimate, boot.replicates, shift, conv);
 
   let status: Status;
   let summary: string;
@@ -207,6 +208,78 @@ export function integralFluctuationForDataset(d: SamplesDataset, ctx: CheckConte
     equations: EQUATIONS,
     tables: [],
     plots: [runningEstimatePlot(d, shift, z, confidence, ctx.rngFor(d.sha256, "running-order"), mean)],
+  };
+}
+
+/**
+ * ⟨e^−Σ⟩ beyond the range of double precision (some −Σ > ~709 k_B, e.g. an
+ * energy unit declared a thousand times too large): the average and its
+ * bootstrap replicates are kept as logarithms, ln⟨e^−Σ⟩ = ln⟨e^{−Σ−s}⟩ + s
+ * (the log-sum-exp shift s; Press et al., Numerical Recipes, 3rd ed., §16.1).
+ * An average that every resample puts above 1 is a violation at any sample
+ * size, as in the finite case (undersampling biases the estimate downwards);
+ * its p-value is bounded by the resolution 1/(B+1) of B resamples.
+ */
+function overflowingAverage(
+  d: SamplesDataset,
+  ctx: CheckContext,
+  estimate: number,
+  replicates: ArrayLike<number>,
+  shift: number,
+  conv: ReturnType<typeof exponentialConvergence>,
+): CheckResult {
+  const { alpha, confidence } = ctx.settings;
+  const margin = numberOption(ctx, "margin", ctx.settings.margin, (v) => v > 0);
+  const logMean = Math.log(estimate) + shift;
+  let lowest = Infinity;
+  for (let i = 0; i < replicates.length; i++) lowest = Math.min(lowest, Math.log(replicates[i]) + shift);
+  const pFloor = 1 / (replicates.length + 1);
+  const n = d.realisations;
+  const decimal = `≈ 10^${fmt(logMean / Math.LN10)}`;
+  let status: Status;
+  let summary: string;
+  let reason: string | undefined;
+  if (n < MIN_REALISATIONS) {
+    status = "inconclusive";
+    summary = `Only ${n} realisations: too few to estimate ⟨e^−Σ⟩.`;
+    reason = `At least ${MIN_REALISATIONS} realisations are needed; record more runs.`;
+  } else if (lowest > 0 && pFloor <= alpha) {
+    status = "fail";
+    summary = `ln⟨e^−Σ⟩ = ${fmt(logMean)} (⟨e^−Σ⟩ ${decimal}, beyond double precision; computed in log space), above 0 in every one of ${replicates.length} bootstrap resamples (p ≤ ${fmt(pFloor, 3)} ≤ α = ${alpha}): the integral relation is violated, or the declared affinities or energy unit do not describe the data.`;
+  } else {
+    status = "inconclusive";
+    summary = `ln⟨e^−Σ⟩ = ${fmt(logMean)} (⟨e^−Σ⟩ ${decimal}, beyond double precision; computed in log space), but the bootstrap cannot tell it from 0.`;
+    reason = `${conv.reason ?? "The exponential average is dominated by a few realisations"}. Check the energy unit and the declared reservoirs; more realisations would settle it.`;
+  }
+  return {
+    check: "integral-fluctuation",
+    dataset: d.id,
+    status,
+    summary,
+    ...(reason ? { reason } : {}),
+    values: {
+      mean: null,
+      ci: [null, null],
+      p_value: status === "fail" ? pFloor : null,
+      log_mean: logMean,
+      log_min_resample: lowest,
+      mean_sigma: conv.meanSigma,
+      ln_N: conv.logN,
+      mirror_realisations: conv.mirrorCount,
+      resolved: conv.resolved,
+      resamples: replicates.length,
+      realisations: n,
+    },
+    criteria: { alpha, margin, confidence },
+    assumptions: [
+      "Both reservoirs start in independent grand-canonical states at the declared temperatures and chemical potentials.",
+      "Realisations are independent and identically prepared.",
+      d.config.work === "zero" ? "The switching work is declared zero (W = 0 in every realisation)." : "The switching work W is measured and enters Σ.",
+    ],
+    references: REFERENCES,
+    equations: EQUATIONS,
+    tables: [],
+    plots: [],
   };
 }
 

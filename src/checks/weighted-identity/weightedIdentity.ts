@@ -56,7 +56,7 @@ export function weightedIdentityForDataset(d: SamplesDataset, ctx: CheckContext)
   }
   const { alpha, confidence } = ctx.settings;
   const margin = numberOption(ctx, "margin", ctx.settings.margin, (v) => v > 0);
-  const n = d.rows;
+  const n = d.sigma.length; // rows, or cells of a reduced file
   const bW = new Float64Array(n);
   const ax = new Float64Array(n);
   let shift = -Infinity;
@@ -81,7 +81,10 @@ export function weightedIdentityForDataset(d: SamplesDataset, ctx: CheckContext)
     d.weight,
     { order: [currents.findIndex((c) => c.key === "dN"), currents.findIndex((c) => c.key === "Q")].filter((i) => i >= 0) },
   );
-  const independent = dep.basis.map((b) => currents[b]);
+  // A current the decomposition could not express through the basis (all coefficients zero: its values
+  // underflow or overflow the norms of the QR) is tested on its own rather than dropped.
+  const orphans = dep.dependent.filter((k) => k.coefficients.every((c) => c === 0)).map((k) => k.index);
+  const independent = [...dep.basis, ...orphans].map((b) => currents[b]);
   const tested = independent.map((c) => {
     let scaleX = 0;
     for (let i = 0; i < n; i++) scaleX = Math.max(scaleX, Math.abs(c.x[i]));
@@ -95,7 +98,7 @@ export function weightedIdentityForDataset(d: SamplesDataset, ctx: CheckContext)
     return { current: c, ratio: boot.estimate, ci: bcaInterval(boot, confidence), p: bcaPValue(boot, 0), sameAs: null as null | { key: Current["key"]; factor: number } };
   });
   const testedFamily = holm(tested.map((r) => r.p), alpha);
-  const mirrored = dep.dependent.map((k) => {
+  const mirrored = dep.dependent.filter((k) => !orphans.includes(k.index)).map((k) => {
     // Only one current can be dependent on the other here: zero currents were left out above.
     const j = k.coefficients.findIndex((c) => c !== 0);
     const src = tested[j];
