@@ -1,17 +1,14 @@
-import { ConfigError, DataError } from "../errors.ts";
+import fs from "node:fs";
+import { ConfigError, DataError, formatCellProblems } from "../errors.ts";
 import type { SamplesDatasetConfig } from "../config/types.ts";
 import { joulesPerEnergyUnit, type EnergyUnit } from "../physics/energyUnits.ts";
 import { affinities, reservoirFromBeta, reservoirFromTemperature, type ReservoirState } from "../physics/affinities.ts";
 import { entropyProduction } from "../physics/entropyProduction.ts";
-import { readNumericCsv, type ColumnRequest } from "./readCsv.ts";
+import type { ColumnRequest } from "./readCsv.ts";
+import { readNumericTable } from "./fast/fastTable.ts";
+import { reduceSamplesFile, REDUCE_ABOVE_BYTES } from "./reduce/reduceSamples.ts";
+import { MAX_ROW_PROBLEMS, newProblemLog, SAMPLE_ROLES, sampleRowsOf, type SampleRole, type SampleRoles } from "./samplesRows.ts";
 import type { SamplesDataset } from "./types.ts";
-
-function scaled(values: Float64Array | undefined, factor: number): Float64Array | null {
-  if (!values) return null;
-  const out = new Float64Array(values.length);
-  for (let i = 0; i < values.length; i++) out[i] = values[i] * factor;
-  return out;
-}
 
 function reservoirState(r: SamplesDatasetConfig["reservoirs"]["A"], joules: number): ReservoirState {
   const mu = r.mu * joules;
@@ -19,36 +16,16 @@ function reservoirState(r: SamplesDatasetConfig["reservoirs"]["A"], joules: numb
   return r.T !== undefined ? reservoirFromTemperature(r.T, mu) : reservoirFromBeta(r.beta! / joules, mu);
 }
 
-const MAX_REPORTED = 20;
-
-/**
- * Rows where a given column disagrees with the value derived from dE_A and dE_B
- * by more than the rounding of a printed number (1e-6 of the largest energy in
- * the row): redundant columns must tell the same story.
- */
-function disagreements(
-  given: Float64Array,
-  derived: Float64Array,
-  dE_A: Float64Array,
-  dE_B: Float64Array,
-  file: string,
-  column: string,
-  formula: string,
-  lineOfRow: Uint32Array,
-): string[] {
-  const out: string[] = [];
-  let total = 0;
-  for (let i = 0; i < given.length; i++) {
-    const scale = Math.max(Math.abs(dE_A[i]), Math.abs(dE_B[i]), Math.abs(given[i]));
-    if (Math.abs(given[i] - derived[i]) > 1e-6 * scale) {
-      total++;
-      if (out.length < MAX_REPORTED) {
-        out.push(`${file}:${lineOfRow[i]}, column "${column}": disagrees with ${formula} from the dE_A and dE_B columns of the same row; map either the column or the energy changes, or correct the row`);
-      }
-    }
-  }
-  if (total > MAX_REPORTED) out.push(`… and ${total - MAX_REPORTED} more row(s) in ${file}`);
-  return out;
+/** How a `samples` file is read: whole, or (large files) reduced to cells while streaming. */
+export interface SamplesReadOptions {
+  /** Files larger than this are reduced to cells (reduce/reduceSamples.ts); default REDUCE_ABOVE_BYTES. */
+  reduceAboveBytes?: number;
+  /** Most cells a reduced dataset keeps; default DEFAULT_CELL_CAPACITY. */
+  cellCapacity?: number;
+  /** Use worker threads for large files (default true; false gives the same result in this thread). */
+  threads?: boolean;
+  /** Bytes of the file processed so far, and its size. */
+  onBytes?: (done: number, total: number) => void;
 }
 
 /**
@@ -56,9 +33,9 @@ function disagreements(
  * derive W and Q from dE_A, dE_B where given, and compute the entropy
  * production of every realisation.
  */
-export async function loadSamples(config: SamplesDatasetConfig, filePath: string, keyPath: string): Promise<SamplesDataset> {
+export async function loadSamples(config: SamplesDatasetConfig, filePath: string, keyPath: string, options: SamplesReadOptions = {}): Promise<SamplesDataset> {
   const where = `audit.yaml ${keyPath}`;
-  const roles = config.columns as Partial<Record<string, string>>;
+  const roles = config.columns as SampleRoles & Partial<Record<string, string>>;
   const hasQ = roles.Q !== undefined;
   const hasBothE = roles.dE_A !== undefined && roles.dE_B !== undefined;
   if (!hasQ && !hasBothE) {
@@ -74,79 +51,53 @@ export async function loadSamples(config: SamplesDatasetConfig, filePath: string
   }
   const joules = joulesPerEnergyUnit(config.energy_unit as EnergyUnit, config.reference_temperature, `${where}.energy_unit`);
 
-  const requests: ColumnRequest[] = Object.entries(roles).map(([role, column]) => ({ role, column: column! }));
-  const table = await readNumericCsv(filePath, config.file, requests);
-  const col = (role: string) => (roles[role] ? table.columns.get(roles[role]!) : undefined);
-
-  const rows = table.rows;
-  const dE_A = scaled(col("dE_A"), joules);
-  const dE_B = scaled(col("dE_B"), joules);
-  let derivedQ: Float64Array | null = null;
-  let derivedW: Float64Array | null = null;
-  if (dE_A && dE_B) {
-    // physics: W = dE_A + dE_B (switching work), Q = (dE_B − dE_A)/2 (symmetric split).
-    derivedQ = new Float64Array(rows);
-    derivedW = new Float64Array(rows);
-    for (let i = 0; i < rows; i++) {
-      derivedQ[i] = (dE_B[i] - dE_A[i]) / 2;
-      derivedW[i] = dE_A[i] + dE_B[i];
-    }
-  }
-  const givenQ = scaled(col("Q"), joules);
-  const givenW = scaled(col("W"), joules);
-  const problems: string[] = [];
-  if (givenQ && derivedQ) problems.push(...disagreements(givenQ, derivedQ, dE_A!, dE_B!, config.file, roles.Q!, "(dE_B − dE_A)/2", table.lineOfRow));
-  if (givenW && derivedW) problems.push(...disagreements(givenW, derivedW, dE_A!, dE_B!, config.file, roles.W!, "dE_A + dE_B", table.lineOfRow));
-  if (problems.length) throw new DataError(problems.join("\n"));
-  const Q = givenQ ?? derivedQ!;
-  const W_data = givenW ?? derivedW;
-  const W = config.work === "zero" ? new Float64Array(rows) : W_data!;
-  const dNraw = col("dN");
-  const dN = dNraw ? Float64Array.from(dNraw) : new Float64Array(rows);
-
-  let weight: Float64Array | null = null;
-  let realisations = rows;
-  const counts = col("count");
-  if (counts) {
-    const bad: string[] = [];
-    realisations = 0;
-    for (let i = 0; i < rows; i++) {
-      const c = counts[i];
-      if (c < 0 || !Number.isInteger(c)) {
-        if (bad.length < MAX_REPORTED) bad.push(`${config.file}:${table.lineOfRow[i]}, column "${roles.count}": expected a count (a whole number ≥ 0), found ${c}`);
-      }
-      realisations += c;
-    }
-    if (bad.length) throw new DataError(bad.join("\n"));
-    if (realisations === 0) throw new DataError(`${config.file}: every count in column "${roles.count}" is zero; there are no realisations`);
-    weight = Float64Array.from(counts);
-  }
-
   const A = reservoirState(config.reservoirs.A, joules);
   const B = reservoirState(config.reservoirs.B, joules);
   const affinity = affinities(A, B);
-  const sigma = entropyProduction(affinity, W, Q, dN);
+  const base = { config, reservoirs: { A, B }, affinity, energyUnit: { name: config.energy_unit, joules }, hasParticleColumn: roles.dN !== undefined, tau: config.tau ?? null };
 
+  // Columns in the order audit.yaml maps them (messages list problems in that order).
+  const requests: ColumnRequest[] = Object.entries(roles).map(([role, column]) => ({ role, column: column! }));
+  if (fileSize(filePath) > (options.reduceAboveBytes ?? REDUCE_ABOVE_BYTES)) {
+    const reduced = await reduceSamplesFile({ filePath, label: config.file, requests, roles, joules, affinity, workZero: config.work === "zero" }, options);
+    if (reduced !== null) return { kind: "samples", id: config.id, file: config.file, ...base, ...reduced };
+  }
+
+  const table = await readNumericTable(filePath, config.file, requests, { onBytes: options.onBytes });
+  const raw: Partial<Record<SampleRole, Float64Array>> = {};
+  for (const role of SAMPLE_ROLES) if (roles[role] !== undefined) raw[role] = table.columns.get(roles[role]!);
+  const problems = newProblemLog();
+  const rows = sampleRowsOf(raw, roles, joules, table.rows, table.lineOfRow, problems);
+  if (problems.count > 0) throw new DataError(formatCellProblems(config.file, problems.problems, MAX_ROW_PROBLEMS, problems.count));
+  const W_data = rows.W_data;
+  const W = config.work === "zero" ? new Float64Array(table.rows) : W_data!;
+  const dN = rows.dN ?? new Float64Array(table.rows);
+  const realisations = rows.weight ? rows.weight.reduce((a, c) => a + c, 0) : table.rows;
+  if (rows.weight && realisations === 0) throw new DataError(`${config.file}: every count in column "${roles.count}" is zero; there are no realisations`);
   return {
     kind: "samples",
     id: config.id,
     file: config.file,
     sha256: table.sha256,
-    rows,
-    config,
+    rows: table.rows,
+    ...base,
     W,
     W_data,
-    Q,
+    Q: rows.Q,
     dN,
-    dE_A,
-    dE_B,
-    weight,
+    dE_A: rows.dE_A,
+    dE_B: rows.dE_B,
+    weight: rows.weight,
     realisations,
-    sigma,
-    reservoirs: { A, B },
-    affinity,
-    energyUnit: { name: config.energy_unit, joules },
-    hasParticleColumn: dNraw !== undefined,
-    tau: config.tau ?? null,
+    sigma: entropyProduction(affinity, W, rows.Q, dN),
+    reduction: null,
   };
+}
+
+function fileSize(filePath: string): number {
+  try {
+    return fs.statSync(filePath).size;
+  } catch {
+    return 0; // the reader words the problem
+  }
 }

@@ -36,6 +36,28 @@ export interface SamplesDataset extends DatasetRecord {
   energyUnit: { name: string; joules: number };
   hasParticleColumn: boolean;
   tau: number | null;
+  /**
+   * Large files are summarised while they are read: realisations pooled into
+   * cells (the arrays above then hold one entry a cell, `weight` its number of
+   * realisations). Null when every row is kept as read.
+   */
+  reduction: SamplesReduction | null;
+}
+
+/** How a large `samples` file was summarised into cells (src/ingest/reduce). */
+export interface SamplesReduction {
+  /** Cells kept: the length of the dataset's arrays. */
+  cells: number;
+  /** Columns forming the cell key, and each one's cell width at the level reached (J; ΔN in counts). */
+  steps: Record<string, number>;
+  /** Grid level reached: 0 is the finest grid, each level doubles the widths of the continuous columns. */
+  level: number;
+  /** Largest difference of Σ between two realisations pooled into one cell, k_B (0: only equal rows were pooled). */
+  maxSigmaSpread: number;
+  /** Fraction of the realisations that share a cell with a realisation of different Σ. */
+  pooledFraction: number;
+  /** Parts the file was cut into and reduced separately before merging. */
+  parts: number;
 }
 
 /** Linear-response coefficients at one row of a coefficients table (one operating point at one field). */

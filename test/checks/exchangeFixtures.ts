@@ -101,6 +101,7 @@ export function fixtureDataset(spec: FixtureSpec): SamplesDataset {
     energyUnit: { name: "J", joules: 1 },
     hasParticleColumn: spec.dN !== null,
     tau: null,
+    reduction: null,
   };
 }
 

@@ -65,6 +65,7 @@ export function samplesDataset(spec: DatasetSpec): SamplesDataset {
     energyUnit: { name: "J", joules: 1 },
     hasParticleColumn: spec.dN !== null,
     tau: spec.tau,
+    reduction: null,
   };
 }
 

@@ -92,7 +92,7 @@ export function sweepPoint(d: SamplesDataset, channels: Channel[], tau: number, 
   // Pass 1: the mean of x, about which the covariance features are formed.
   const xBar = new Array<number>(m).fill(0);
   let n = 0;
-  for (let i = 0; i < d.rows; i++) {
+  for (let i = 0; i < d.sigma.length; i++) {
     const w = d.weight ? d.weight[i] : 1;
     if (w === 0) continue;
     n += w;
@@ -101,7 +101,7 @@ export function sweepPoint(d: SamplesDataset, channels: Channel[], tau: number, 
   const unbias = n / (n - 1);
   const mean = new Array<number>(O).fill(0);
   n = 0;
-  for (let i = 0; i < d.rows; i++) {
+  for (let i = 0; i < d.sigma.length; i++) {
     const w = d.weight ? d.weight[i] : 1;
     if (w === 0) continue;
     const v = features(i);
@@ -109,7 +109,7 @@ export function sweepPoint(d: SamplesDataset, channels: Channel[], tau: number, 
     for (let o = 0; o < O; o++) mean[o] += (w / n) * (v[o] - mean[o]); // running weighted mean (West 1979)
   }
   const cov = Array.from({ length: O }, () => new Array<number>(O).fill(0));
-  for (let i = 0; i < d.rows; i++) {
+  for (let i = 0; i < d.sigma.length; i++) {
     const w = d.weight ? d.weight[i] : 1;
     if (w === 0) continue;
     const v = features(i);

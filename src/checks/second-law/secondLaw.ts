@@ -94,7 +94,7 @@ export function secondLawForDataset(d: SamplesDataset, ctx: CheckContext): Check
   const decision = decideSecondLaw(m.n, m.mean, m.standardError, alpha, confidence, margin);
   const a = d.affinity;
   // Per-channel contributions to <Sigma> (information): beta_bar<W>, a_Q<Q>, a_N<dN>.
-  const channel = (f: (i: number) => number) => weightedMeanOf(d.rows, f, d.weight);
+  const channel = (f: (i: number) => number) => weightedMeanOf(d.sigma.length, f, d.weight);
   const work = channel((i) => a.beta_bar * d.W[i]);
   const heat = channel((i) => a.a_Q * d.Q[i]);
   const particles = channel((i) => a.a_N * d.dN[i]);

@@ -1,0 +1,117 @@
+import fs from "node:fs";
+import { createHash } from "node:crypto";
+import { Worker } from "node:worker_threads";
+import type { ScanLayout } from "../fast/scanLines.ts";
+import { reduceFileRange, type SamplesPartSummary, type SamplesReductionSpec } from "./samplesSink.ts";
+
+/** One thread's share of a file. */
+export interface RangeJob {
+  file: string;
+  start: number;
+  end: number;
+  layout: ScanLayout;
+  spec: SamplesReductionSpec;
+}
+
+/**
+ * The file is cut into this many parts whatever the machine: the parts' sums
+ * are added in part order, so a fixed split keeps results bit-identical from
+ * one machine to the next (a published version must reproduce exactly).
+ */
+export const PARTS = 2;
+
+/** Start a worker that runs worker.ts through tsx's loader (plain Node cannot load .ts files). */
+function startWorker(job: RangeJob): Worker {
+  const loader = import.meta.resolve("tsx/esm/api");
+  const script = new URL("./worker.ts", import.meta.url).href;
+  const bootstrap = `import { register } from ${JSON.stringify(loader)}; register(); await import(${JSON.stringify(script)});`;
+  return new Worker(bootstrap, { eval: true, workerData: job });
+}
+
+/** Byte offsets that cut [from, to) into `parts` ranges, each beginning at a line start. */
+export function lineAlignedCuts(fd: number, from: number, to: number, parts: number): number[] {
+  const cuts = [from];
+  const probe = Buffer.allocUnsafe(64 * 1024);
+  for (let k = 1; k < parts; k++) {
+    let at = Math.max(cuts[cuts.length - 1], from + Math.floor(((to - from) * k) / parts));
+    // Move forward to the byte after the next newline.
+    let found = -1;
+    while (at < to && found < 0) {
+      const got = fs.readSync(fd, probe, 0, Math.min(probe.length, to - at), at);
+      if (got === 0) break;
+      const nl = probe.subarray(0, got).indexOf(10);
+      if (nl >= 0) found = at + nl + 1;
+      else at += got;
+    }
+    cuts.push(found < 0 ? to : found);
+  }
+  cuts.push(to);
+  return cuts;
+}
+
+/** SHA-256 of a whole file, streamed. */
+export function digestOfFile(file: string): Promise<string> {
+  return new Promise((resolve, reject) => {
+    const hash = createHash("sha256");
+    fs.createReadStream(file, { highWaterMark: 4 << 20 })
+      .on("data", (chunk) => hash.update(chunk))
+      .on("error", reject)
+      .on("end", () => resolve(hash.digest("hex")));
+  });
+}
+
+/**
+ * Reduce the data lines [from, to) of a file in PARTS ranges, on worker threads
+ * (or all in this thread with `threads: false`, same result), while this
+ * thread computes the file's digest.
+ */
+export async function reduceInParts(
+  file: string,
+  from: number,
+  to: number,
+  layout: ScanLayout,
+  spec: SamplesReductionSpec,
+  options: { threads?: boolean; onBytes?: (bytes: number) => void } = {},
+): Promise<{ parts: SamplesPartSummary[]; sha256: string }> {
+  const fd = fs.openSync(file, "r");
+  let cuts: number[];
+  try {
+    cuts = lineAlignedCuts(fd, from, to, PARTS);
+  } finally {
+    fs.closeSync(fd);
+  }
+  const jobs: RangeJob[] = [];
+  for (let k = 0; k < PARTS; k++) jobs.push({ file, start: cuts[k], end: cuts[k + 1], layout, spec });
+  if (options.threads === false) {
+    const sha256 = await digestOfFile(file);
+    return { parts: jobs.map((j) => reduceFileRange(j.file, j.start, j.end, j.layout, j.spec, options.onBytes)), sha256 };
+  }
+  const digest = digestOfFile(file);
+  const parts = await Promise.all(jobs.map((job) => runJob(job, options.onBytes)));
+  return { parts, sha256: await digest };
+}
+
+function runJob(job: RangeJob, onBytes?: (bytes: number) => void): Promise<SamplesPartSummary> {
+  return new Promise((resolve, reject) => {
+    const worker = startWorker(job);
+    let settled = false;
+    worker.on("message", (msg: { type: string; bytes?: number; summary?: SamplesPartSummary; message?: string }) => {
+      if (msg.type === "bytes") onBytes?.(msg.bytes!);
+      else if (msg.type === "done") {
+        settled = true;
+        resolve(msg.summary!);
+        void worker.terminate();
+      } else if (msg.type === "error") {
+        settled = true;
+        reject(new Error(`reduction worker failed: ${msg.message}`));
+        void worker.terminate();
+      }
+    });
+    worker.on("error", (err) => {
+      if (!settled) reject(err);
+    });
+    worker.on("exit", (code) => {
+      if (!settled) reject(new Error(`reduction worker stopped with exit code ${code}`));
+    });
+  });
+}

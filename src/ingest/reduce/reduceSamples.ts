@@ -1,0 +1,242 @@
+import fs from "node:fs";
+import { DataError, formatCellProblems, type CellProblem } from "../../errors.ts";
+import type { Affinities } from "../../physics/affinities.ts";
+import { entropyProduction } from "../../physics/entropyProduction.ts";
+import type { ColumnRequest } from "../readCsv.ts";
+import { openPlain } from "../fast/fastTable.ts";
+import type { RowChunk } from "../fast/scanLines.ts";
+import { scanFileRange } from "../fast/scanRange.ts";
+import { MAX_ROW_PROBLEMS, newProblemLog, sampleRowsOf, type SampleRole, type SampleRoles } from "../samplesRows.ts";
+import type { SamplesDataset, SamplesReduction } from "../types.ts";
+import { mergeCellTables, type GridSpec } from "./cellTable.ts";
+import { PARTS, reduceInParts } from "./parallelReduce.ts";
+import type { SampleColumn, SamplesPartSummary, SamplesReductionSpec } from "./samplesSink.ts";
+
+/**
+ * Files above this size are summarised while they are read instead of being
+ * held row by row. 64 MB of CSV is about 2–3 million realisations: below it the
+ * checks' own work on raw rows takes seconds; above it, memory and time grow
+ * with the file while the summary does not.
+ */
+export const REDUCE_ABOVE_BYTES = 64 << 20;
+
+/**
+ * Most cells a summary keeps. The checks' work grows with the number of cells;
+ * 2^17 cells keeps it well under a second while leaving each continuous column
+ * hundreds of cells across its range (the Σ ranges reported with the result
+ * say what pooling cost).
+ */
+export const DEFAULT_CELL_CAPACITY = 1 << 17;
+
+/**
+ * The finest cell width of a continuous column, relative to the largest value
+ * seen at the start of the file: 2^-24 (6e-8) is below the printed resolution
+ * of any measured or simulated energy, so at the finest level distinct values
+ * stay in distinct cells.
+ */
+const FINEST_RELATIVE_STEP = 2 ** -24;
+
+/** Rows read from the start of the file to choose the grid. */
+const PROBE_BYTES = 1 << 20;
+
+export interface ReduceInput {
+  filePath: string;
+  label: string;
+  requests: ColumnRequest[];
+  roles: SampleRoles;
+  joules: number;
+  affinity: Affinities;
+  workZero: boolean;
+}
+
+type ReducedFields = Pick<
+  SamplesDataset,
+  "sha256" | "rows" | "W" | "W_data" | "Q" | "dN" | "dE_A" | "dE_B" | "weight" | "realisations" | "sigma" | "reduction"
+>;
+
+/**
+ * Read a large `samples` file into a cell summary (see cellTable.ts) on worker
+ * threads, and return the dataset's arrays over cells. Returns null when the
+ * file is not in the plain layout the fast scanner reads (the caller then uses
+ * the reference reader, which reads or words it).
+ */
+export async function reduceSamplesFile(
+  input: ReduceInput,
+  options: { cellCapacity?: number; threads?: boolean; onBytes?: (done: number, total: number) => void } = {},
+): Promise<ReducedFields | null> {
+  const opened = openPlain(input.filePath, input.label, input.requests);
+  if (opened === null) return null;
+  const { header, size } = opened;
+  let spec: SamplesReductionSpec | null;
+  try {
+    spec = reductionSpec(input, opened.fd, header.dataStart, size, header.layout.slotNames, options.cellCapacity ?? DEFAULT_CELL_CAPACITY, header.layout);
+  } finally {
+    fs.closeSync(opened.fd);
+  }
+  if (spec === null) return null;
+  let done = header.dataStart;
+  const { parts, sha256 } = await reduceInParts(input.filePath, header.dataStart, size, header.layout, spec, {
+    threads: options.threads,
+    onBytes: (n) => {
+      done += n;
+      options.onBytes?.(done, size);
+    },
+  });
+  if (parts.some((p) => p.state.structural !== null)) return null;
+  const rows = parts.reduce((a, p) => a + p.state.rows, 0);
+  if (rows === 0) return null;
+  throwPartProblems(input.label, parts, header.headerLines, (p) => p.state.problems, (p) => p.state.problemCount);
+  throwPartProblems(input.label, parts, header.headerLines, (p) => p.rowProblems.problems, (p) => p.rowProblems.count);
+  const merged = mergeCellTables(spec.grid, parts.map((p) => p.table));
+  return fieldsFromCells(input, spec, merged, rows, sha256);
+}
+
+/** Problems of all parts, in file order with absolute lines, thrown as one message (or nothing). */
+function throwPartProblems(
+  label: string,
+  parts: SamplesPartSummary[],
+  headerLines: number,
+  problemsOf: (p: SamplesPartSummary) => CellProblem[],
+  countOf: (p: SamplesPartSummary) => number,
+): void {
+  const total = parts.reduce((a, p) => a + countOf(p), 0);
+  if (total === 0) return;
+  const located: CellProblem[] = [];
+  let offset = headerLines;
+  for (const part of parts) {
+    for (const p of problemsOf(part)) located.push({ ...p, row: p.row + offset });
+    offset += part.state.line;
+  }
+  throw new DataError(formatCellProblems(label, located.slice(0, MAX_ROW_PROBLEMS), MAX_ROW_PROBLEMS, total));
+}
+
+/** Key and stored columns, and the grid: chosen from the rows at the start of the file. */
+function reductionSpec(
+  input: ReduceInput,
+  fd: number,
+  dataStart: number,
+  size: number,
+  slotNames: string[],
+  capacity: number,
+  layout: Parameters<typeof scanFileRange>[3],
+): SamplesReductionSpec | null {
+  const { roles } = input;
+  const slotOfRole: Partial<Record<SampleRole, number>> = {};
+  for (const [role, column] of Object.entries(roles)) {
+    const slot = slotNames.indexOf(column!);
+    if (slot >= 0) slotOfRole[role as SampleRole] = slot;
+  }
+  const hasE = roles.dE_A !== undefined && roles.dE_B !== undefined;
+  const keyColumns: SampleColumn[] = hasE ? ["dE_A", "dE_B"] : ["Q"];
+  if (roles.dN !== undefined) keyColumns.push("dN");
+  if (!hasE && roles.W !== undefined) keyColumns.push("W");
+  const storedColumns: SampleColumn[] = ["Q"];
+  if (roles.W !== undefined || hasE) storedColumns.push("W");
+  if (roles.dN !== undefined) storedColumns.push("dN");
+  if (hasE) storedColumns.push("dE_A", "dE_B");
+
+  // The probe: rows of the first block, in J.
+  let probe: RowChunk | null = null;
+  const state = scanFileRange(fd, dataStart, Math.min(size, dataStart + PROBE_BYTES), layout, (chunk) => {
+    if (probe === null) probe = { rows: chunk.rows, values: chunk.values.map((v) => Float64Array.from(v)), lines: Uint32Array.from(chunk.lines) };
+  });
+  const first = probe as RowChunk | null;
+  if (state.structural !== null && first === null) return null;
+  const raw: Partial<Record<SampleRole, Float64Array>> = {};
+  for (const [role, slot] of Object.entries(slotOfRole)) if (first) raw[role as SampleRole] = first.values[slot!];
+  const sample = first ? sampleRowsOf(raw, roles, input.joules, first.rows, first.lines, newProblemLog()) : null;
+  const columnOf = (c: SampleColumn): Float64Array | null =>
+    sample === null ? null : { Q: sample.Q, W: sample.W_data, dN: sample.dN, dE_A: sample.dE_A, dE_B: sample.dE_B }[c];
+
+  const step0 = new Float64Array(keyColumns.length);
+  const coarsenable = new Uint8Array(keyColumns.length);
+  keyColumns.forEach((c, d) => {
+    const values = columnOf(c);
+    let maxAbs = 0;
+    let whole = c === "dN";
+    if (values) {
+      for (let i = 0; i < values.length; i++) {
+        const v = values[i];
+        if (Number.isFinite(v)) maxAbs = Math.max(maxAbs, Math.abs(v));
+        if (!Number.isInteger(v)) whole = false;
+      }
+    }
+    if (whole) {
+      step0[d] = 1; // counts stay apart at every level
+      coarsenable[d] = 0;
+    } else {
+      const scale = maxAbs > 0 ? maxAbs : input.joules;
+      step0[d] = 2 ** Math.ceil(Math.log2(scale * FINEST_RELATIVE_STEP));
+      coarsenable[d] = 1;
+    }
+  });
+  if (!coarsenable.some((x) => x === 1)) coarsenable.fill(1);
+  const a = input.affinity;
+  return {
+    label: input.label,
+    roles,
+    slotOfRole,
+    joules: input.joules,
+    sigma: { cW: input.workZero ? 0 : a.beta_bar, cQ: a.a_Q, cN: a.a_N },
+    keyColumns,
+    storedColumns,
+    grid: { dims: keyColumns.length, step0, coarsenable, stored: storedColumns.length, capacity },
+  };
+}
+
+/** The dataset's arrays over the merged cells: column means, multiplicities, Σ of each cell's mean. */
+function fieldsFromCells(input: ReduceInput, spec: SamplesReductionSpec, cells: ReturnType<typeof mergeCellTables>, rows: number, sha256: string): ReducedFields {
+  const n = cells.cells;
+  const S = spec.storedColumns.length;
+  const mean = (c: SampleColumn): Float64Array | null => {
+    const s = spec.storedColumns.indexOf(c);
+    if (s < 0) return null;
+    const out = new Float64Array(n);
+    for (let i = 0; i < n; i++) out[i] = cells.sums[i * S + s] / cells.count[i];
+    return out;
+  };
+  const Q = mean("Q")!;
+  const W_data = mean("W");
+  const dNmean = mean("dN");
+  const dN = dNmean ?? new Float64Array(n);
+  const W = input.workZero ? new Float64Array(n) : W_data!;
+  // Σ is linear in (W, Q, ΔN), so Σ of a cell's means is the mean Σ of its realisations.
+  const sigma = entropyProduction(input.affinity, W, Q, dN);
+  let realisations = 0;
+  let pooled = 0;
+  let maxSpread = 0;
+  for (let i = 0; i < n; i++) {
+    realisations += cells.count[i];
+    const spread = cells.sigmaMax[i] - cells.sigmaMin[i];
+    if (spread > 0) pooled += cells.count[i];
+    if (spread > maxSpread) maxSpread = spread;
+  }
+  if (realisations === 0) throw new DataError(`${input.label}: every count in column "${input.roles.count}" is zero; there are no realisations`);
+  const steps: Record<string, number> = {};
+  spec.keyColumns.forEach((c, d) => {
+    steps[c] = spec.grid.step0[d] * (spec.grid.coarsenable[d] ? 2 ** cells.level : 1);
+  });
+  const reduction: SamplesReduction = {
+    cells: n,
+    steps,
+    level: cells.level,
+    maxSigmaSpread: maxSpread,
+    pooledFraction: pooled / realisations,
+    parts: PARTS,
+  };
+  return {
+    sha256,
+    rows,
+    W,
+    W_data,
+    Q,
+    dN,
+    dE_A: mean("dE_A"),
+    dE_B: mean("dE_B"),
+    weight: Float64Array.from(cells.count),
+    realisations,
+    sigma,
+    reduction,
+  };
+}
+

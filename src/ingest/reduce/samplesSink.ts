@@ -1,0 +1,85 @@
+import fs from "node:fs";
+import { CellTable, type CellTableData, type GridSpec } from "./cellTable.ts";
+import { newProblemLog, sampleRowsOf, type ProblemLog, type SampleRole, type SampleRoles } from "../samplesRows.ts";
+import type { RowChunk, ScanLayout, ScanState } from "../fast/scanLines.ts";
+import { scanFileRange } from "../fast/scanRange.ts";
+
+/** Everything a thread needs to reduce its share of a `samples` file (plain data: it crosses to workers). */
+export interface SamplesReductionSpec {
+  label: string;
+  roles: SampleRoles;
+  /** Slot of each mapped role in the scanner's output. */
+  slotOfRole: Partial<Record<SampleRole, number>>;
+  joules: number;
+  /** Σ = cW W + cQ Q + cN ΔN per realisation (cW = 0 when work: zero is declared). */
+  sigma: { cW: number; cQ: number; cN: number };
+  /** Columns forming the grid key, and columns whose sums are kept. */
+  keyColumns: SampleColumn[];
+  storedColumns: SampleColumn[];
+  grid: GridSpec;
+}
+
+/** Columns of the reduced rows (J; ΔN as counted). */
+export type SampleColumn = "Q" | "W" | "dN" | "dE_A" | "dE_B";
+
+export interface SamplesPartSummary {
+  state: Pick<ScanState, "rows" | "line" | "problems" | "problemCount" | "structural">;
+  rowProblems: ProblemLog;
+  table: CellTableData;
+}
+
+/** A sink that turns chunks of raw rows into cells. */
+export class SamplesReducer {
+  readonly table: CellTable;
+  readonly rowProblems = newProblemLog();
+  private readonly x: Float64Array;
+  private readonly v: Float64Array;
+
+  constructor(readonly spec: SamplesReductionSpec) {
+    this.table = new CellTable({ ...spec.grid, coarsenable: Uint8Array.from(spec.grid.coarsenable), step0: Float64Array.from(spec.grid.step0) });
+    this.x = new Float64Array(spec.keyColumns.length);
+    this.v = new Float64Array(spec.storedColumns.length);
+  }
+
+  accept(chunk: RowChunk): void {
+    const { spec } = this;
+    const raw: Partial<Record<SampleRole, Float64Array>> = {};
+    for (const [role, slot] of Object.entries(spec.slotOfRole)) raw[role as SampleRole] = chunk.values[slot!];
+    const rows = sampleRowsOf(raw, spec.roles, spec.joules, chunk.rows, chunk.lines, this.rowProblems);
+    if (this.rowProblems.count > 0) return; // the file is refused; only the problems matter now
+    const columns: Record<SampleColumn, Float64Array | null> = { Q: rows.Q, W: rows.W_data, dN: rows.dN, dE_A: rows.dE_A, dE_B: rows.dE_B };
+    const key = spec.keyColumns.map((c) => columns[c]!);
+    const stored = spec.storedColumns.map((c) => columns[c]!);
+    const { cW, cQ, cN } = spec.sigma;
+    const W = rows.W_data;
+    const dN = rows.dN;
+    const Q = rows.Q;
+    const weight = rows.weight;
+    const x = this.x;
+    const v = this.v;
+    for (let i = 0; i < chunk.rows; i++) {
+      const w = weight ? weight[i] : 1;
+      if (w === 0) continue;
+      for (let d = 0; d < key.length; d++) x[d] = key[d][i];
+      for (let s = 0; s < stored.length; s++) v[s] = stored[s][i];
+      const sigma = (W ? cW * W[i] : 0) + cQ * Q[i] + (dN ? cN * dN[i] : 0);
+      this.table.add(x, v, w, sigma);
+    }
+  }
+}
+
+/** Scan one byte range of a file and reduce it: the work of one thread. */
+export function reduceFileRange(file: string, start: number, end: number, layout: ScanLayout, spec: SamplesReductionSpec, onBytes?: (n: number) => void): SamplesPartSummary {
+  const fd = fs.openSync(file, "r");
+  try {
+    const reducer = new SamplesReducer(spec);
+    const state = scanFileRange(fd, start, end, layout, (chunk) => reducer.accept(chunk), { onBytes });
+    return {
+      state: { rows: state.rows, line: state.line, problems: state.problems, problemCount: state.problemCount, structural: state.structural },
+      rowProblems: reducer.rowProblems,
+      table: reducer.table.export(),
+    };
+  } finally {
+    fs.closeSync(fd);
+  }
+}

@@ -1,0 +1,115 @@
+import type { CellProblem } from "../errors.ts";
+
+/**
+ * Row rules of a `samples` dataset, shared by the whole-table reader and the
+ * streaming reduction: energies converted to J, W and Q derived from dE_A and
+ * dE_B where those are mapped, redundant columns held to agree, and counts held
+ * to be whole numbers. Problems are logged with the row's line, not thrown, so
+ * a caller can gather them over a whole file (or over a worker's share of it).
+ */
+
+/** Role → column name, as mapped in audit.yaml. */
+export interface SampleRoles {
+  Q?: string;
+  W?: string;
+  dN?: string;
+  dE_A?: string;
+  dE_B?: string;
+  count?: string;
+}
+
+export const SAMPLE_ROLES = ["dE_A", "dE_B", "Q", "dN", "W", "count"] as const;
+export type SampleRole = (typeof SAMPLE_ROLES)[number];
+
+/** The first problems found, and how many there were. */
+export interface ProblemLog {
+  problems: CellProblem[];
+  count: number;
+}
+
+export const MAX_ROW_PROBLEMS = 20;
+
+export function newProblemLog(): ProblemLog {
+  return { problems: [], count: 0 };
+}
+
+function log(problems: ProblemLog, row: number, column: string, message: string): void {
+  problems.count++;
+  if (problems.problems.length < MAX_ROW_PROBLEMS) problems.problems.push({ row, column, message });
+}
+
+/** One chunk of rows in SI (J) with their multiplicities. Arrays are `rows` long. */
+export interface SampleRows {
+  rows: number;
+  Q: Float64Array;
+  /** Work found in the data (W column, or dE_A + dE_B), null when the data carry none. */
+  W_data: Float64Array | null;
+  dN: Float64Array | null;
+  dE_A: Float64Array | null;
+  dE_B: Float64Array | null;
+  /** The `count` column, null when every row is one realisation. */
+  weight: Float64Array | null;
+}
+
+/**
+ * Rows from the raw columns of a file (declared energy unit), `joules` per
+ * unit. `lines[i]` is row i's line; problems name it and the column.
+ */
+export function sampleRowsOf(
+  raw: Partial<Record<SampleRole, Float64Array>>,
+  roles: SampleRoles,
+  joules: number,
+  rows: number,
+  lines: ArrayLike<number>,
+  problems: ProblemLog,
+): SampleRows {
+  const scaled = (values: Float64Array | undefined) => {
+    if (!values) return null;
+    const out = new Float64Array(rows);
+    for (let i = 0; i < rows; i++) out[i] = values[i] * joules;
+    return out;
+  };
+  const dE_A = scaled(raw.dE_A);
+  const dE_B = scaled(raw.dE_B);
+  const givenQ = scaled(raw.Q);
+  const givenW = scaled(raw.W);
+  let Q = givenQ;
+  let W = givenW;
+  if (dE_A && dE_B) {
+    // physics §1: W = dE_A + dE_B (switching work), Q = (dE_B − dE_A)/2 (symmetric split).
+    const derivedQ = new Float64Array(rows);
+    const derivedW = new Float64Array(rows);
+    for (let i = 0; i < rows; i++) {
+      derivedQ[i] = (dE_B[i] - dE_A[i]) / 2;
+      derivedW[i] = dE_A[i] + dE_B[i];
+      // Redundant columns must tell the same story, to the rounding of a printed number
+      // (1e-6 of the largest energy in the row).
+      const scale = Math.max(Math.abs(dE_A[i]), Math.abs(dE_B[i]));
+      if (givenQ && Math.abs(givenQ[i] - derivedQ[i]) > 1e-6 * Math.max(scale, Math.abs(givenQ[i]))) {
+        log(problems, lines[i], roles.Q!, "disagrees with (dE_B − dE_A)/2 from the dE_A and dE_B columns of the same row; map either the column or the energy changes, or correct the row");
+      }
+      if (givenW && Math.abs(givenW[i] - derivedW[i]) > 1e-6 * Math.max(scale, Math.abs(givenW[i]))) {
+        log(problems, lines[i], roles.W!, "disagrees with dE_A + dE_B from the dE_A and dE_B columns of the same row; map either the column or the energy changes, or correct the row");
+      }
+    }
+    Q = givenQ ?? derivedQ;
+    W = givenW ?? derivedW;
+  }
+  let weight: Float64Array | null = null;
+  if (raw.count) {
+    weight = Float64Array.from(raw.count.subarray(0, rows));
+    for (let i = 0; i < rows; i++) {
+      const c = weight[i];
+      if (c < 0 || !Number.isInteger(c)) log(problems, lines[i], roles.count!, `expected a count (a whole number ≥ 0), found ${c}`);
+    }
+  }
+  return {
+    rows,
+    Q: Q!,
+    W_data: W,
+    dN: raw.dN ? Float64Array.from(raw.dN.subarray(0, rows)) : null,
+    dE_A,
+    dE_B,
+    weight,
+  };
+}
