@@ -65,6 +65,37 @@ describe("Parquet column checks", () => {
     );
   });
 
+  it("refuses nested columns (a group, a list) and reads a plain column beside them", async () => {
+    const nested = tempPath();
+    // Apache Parquet LogicalTypes.md, "Lists": an annotated group holding a repeated group
+    // holding the element; "pos" is a plain group (a struct) of two doubles.
+    parquetWriteFile({
+      filename: nested,
+      schema: [
+        { name: "root", num_children: 3 },
+        { name: "Q", type: "DOUBLE", repetition_type: "REQUIRED" },
+        { name: "pos", num_children: 2, repetition_type: "REQUIRED" },
+        { name: "x", type: "DOUBLE", repetition_type: "REQUIRED" },
+        { name: "y", type: "DOUBLE", repetition_type: "REQUIRED" },
+        { name: "hist", num_children: 1, repetition_type: "OPTIONAL", converted_type: "LIST" },
+        { name: "list", num_children: 1, repetition_type: "REPEATED" },
+        { name: "element", type: "DOUBLE", repetition_type: "REQUIRED" },
+      ],
+      columnData: [
+        { name: "Q", data: Float64Array.from([1.5, -2]) },
+        { name: "pos", data: [{ x: 1, y: 2 }, { x: 3, y: 4 }] },
+        { name: "hist", data: [[1, 2], [3]] },
+      ],
+    });
+    expect(await dataErrorOf(table(nested, ["Q", "pos", "hist"]))).toBe(
+      [
+        'data/samples.parquet, column "pos": expected numbers (a DOUBLE, FLOAT, INT32 or INT64 column), found a nested column (a group of 2 field(s))',
+        'data/samples.parquet, column "hist": expected numbers (a DOUBLE, FLOAT, INT32 or INT64 column), found a nested column (LIST)',
+      ].join("\n"),
+    );
+    expect(Array.from((await readParquetTable(nested, LABEL, ["Q"])).columns.get("Q")!)).toEqual([1.5, -2]);
+  });
+
   it("checks the columns before yielding any batch when streaming", async () => {
     const batches: number[] = [];
     const message = await dataErrorOf(async () => {

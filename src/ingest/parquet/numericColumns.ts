@@ -19,7 +19,7 @@ function describeColumn(node: SchemaTree): string {
   const { element } = node;
   if (node.children.length > 0) {
     const annotation = element.logical_type?.type ?? element.converted_type;
-    return `a nested column${annotation ? ` (${annotation})` : ""} of ${node.children.length} field(s)`;
+    return `a nested column (${annotation ?? `a group of ${node.children.length} field(s)`})`;
   }
   const annotation = element.logical_type?.type ?? element.converted_type;
   const stored = `${element.type ?? "no physical type"}${annotation ? ` (${annotation})` : ""}`;

@@ -38,7 +38,14 @@ export async function readRowRange(
       const to = Math.min(end, chunk.rowEnd);
       if (from >= to) return;
       const offset = chunk.rowStart;
-      copyAsDoubles(chunk.columnData, from - offset, to - offset, target, from - start, from, columnIndex.get(chunk.columnName)!, chunk.columnName, problems);
+      copyAsDoubles(chunk.columnData, from - offset, to - offset, {
+        target,
+        at: from - start,
+        firstRow: from,
+        columnIndex: columnIndex.get(chunk.columnName)!,
+        column: chunk.columnName,
+        problems,
+      });
       filled.set(chunk.columnName, filled.get(chunk.columnName)! + (to - from));
     } catch (err) {
       callbackError ??= err;
