@@ -1,6 +1,7 @@
 import fs from "node:fs";
 import path from "node:path";
 import { ConfigError } from "../errors.ts";
+import { confinePath } from "./confinePath.ts";
 import { auditSchema } from "./auditSchema.ts";
 import { parseLocatedYaml } from "./yamlDocument.ts";
 import { validateLocated } from "./validate.ts";
@@ -14,7 +15,12 @@ export function loadAuditDefinition(auditDir: string): AuditDefinition {
   if (!fs.existsSync(file)) {
     throw new ConfigError(`${file}: not found; an audit folder must contain ${AUDIT_FILE} (create one with: transport-audit init ${auditDir})`);
   }
-  return parseAuditDefinition(fs.readFileSync(file, "utf8"), AUDIT_FILE);
+  if (!fs.statSync(file).isFile()) throw new ConfigError(`${file}: is not a file; ${AUDIT_FILE} must be a text file holding the audit's definition`);
+  const definition = parseAuditDefinition(fs.readFileSync(file, "utf8"), AUDIT_FILE);
+  // Every data path is confined before any dataset is read: an audit that names
+  // one file outside its folder is refused as a whole, with nothing read.
+  definition.datasets.forEach((d, i) => confinePath(auditDir, d.file, `datasets[${i}].file`));
+  return definition;
 }
 
 /** Validate audit.yaml text; `label` is the file name used in messages. */
