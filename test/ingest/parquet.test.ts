@@ -211,7 +211,7 @@ describe("readParquetColumns", () => {
 
   it("streams a file in consecutive batches of at most batchRows that reassemble the columns", async () => {
     for (const file of [manyGroups, indexed, unindexed]) {
-      for (const batchRows of [1000, 2500, 300, 7, n, 3 * n]) {
+      for (const batchRows of [1000, 2500, 300, 97, n, 3 * n]) {
         const batches = await collect(file, ["W", "Q"], batchRows);
         let next = 0;
         for (const b of batches) {
