@@ -7,7 +7,8 @@ import { loadArchiveDefinition, type ArchiveDefinition } from "../config/archive
 import { AUDIT_FILE } from "../config/loadAudit.ts";
 import { InputError } from "../errors.ts";
 import { TOOL } from "../version.ts";
-import { runAudit } from "./runAudit.ts";
+import { resultCacheDir, runAuditCached } from "./resultCache.ts";
+import type { ResultDocument } from "./resultDocument.ts";
 import { auditPageModel, type AuditPageModel } from "./viewModel.ts";
 import { checkArchive } from "../archive/integrity.ts";
 import { sha256Of } from "../archive/digest.ts";
@@ -20,6 +21,20 @@ export interface BuildOptions {
   root: string; // archive root, holding audits/ and optionally archive.yaml
   out: string; // output folder
   onProgress?: (done: number, total: number, auditId: string) => void;
+  /**
+   * Result cache under `<root>/.cache/transport-audit/results`: "use" takes the
+   * stored result of an unchanged audit (the default), "refresh" recomputes
+   * every audit and stores the new results.
+   */
+  cache?: "use" | "refresh";
+}
+
+/** How many audits took their result from the cache and how many were run. */
+export interface CacheStatistics {
+  reused: number;
+  recomputed: number;
+  /** Recomputed results that could not be stored (read-only archive, full disk). */
+  unstored: number;
 }
 
 /** An audit that could not be audited: listed on the index with its error, never silently dropped. */
@@ -38,6 +53,7 @@ export interface BuildOutcome {
   /** Unpublished changes since the latest version, at `<audit-id>/draft/`. */
   draftPages: AuditPageModel[];
   broken: BrokenAudit[];
+  cache: CacheStatistics;
 }
 
 export interface SiteData {
@@ -103,13 +119,19 @@ export async function buildSite(options: BuildOptions): Promise<BuildOutcome> {
   const draftPages: AuditPageModel[] = [];
   const files: SiteFile[] = [];
   const broken: BrokenAudit[] = [];
+  const cache: CacheStatistics = { reused: 0, recomputed: 0, unstored: 0 };
+  const cacheUse = { dir: resultCacheDir(options.root), read: (options.cache ?? "use") === "use" };
   for (const [i, folder] of folders.entries()) {
     options.onProgress?.(i, folders.length, path.basename(folder));
     const folderRel = path.relative(options.root, folder).split(path.sep).join("/");
     const stored = checkArchive(folder);
-    let current: Awaited<ReturnType<typeof runAudit>>["result"] | null = null;
+    let current: ResultDocument | null = null;
     try {
-      current = (await runAudit(folder)).result;
+      const run = await runAuditCached(folder, cacheUse);
+      current = run.result;
+      if (run.fromCache) cache.reused++;
+      else cache.recomputed++;
+      if (!run.stored) cache.unstored++;
     } catch (err) {
       if (!(err instanceof InputError)) throw err;
       broken.push({ folder: folderRel, error: err.message });
@@ -139,5 +161,5 @@ export async function buildSite(options: BuildOptions): Promise<BuildOutcome> {
   }
   fs.rmSync(options.out, { recursive: true, force: true });
   await renderSite(options.out, { archive, audits, versionPages, draftPages, broken, files });
-  return { out: options.out, index: path.join(options.out, "index.html"), audits, versionPages, draftPages, broken };
+  return { out: options.out, index: path.join(options.out, "index.html"), audits, versionPages, draftPages, broken, cache };
 }

@@ -38,9 +38,29 @@ export function selectChecks(definition: AuditDefinition, registry: readonly Che
  * fingerprint must give the same result document.
  */
 export function fingerprintOf(audit: IngestedAudit): string {
+  return fingerprintFromDigests(
+    audit.definition,
+    audit.datasets.map((d) => ({ id: d.id, file: d.file, sha256: d.sha256 })),
+  );
+}
+
+/** One input of the fingerprint: a dataset's id, its file as written in audit.yaml and the hex digest of its bytes. */
+export interface InputDigest {
+  id: string;
+  file: string;
+  sha256: string;
+}
+
+/**
+ * The same fingerprint from the definition and the digests of its data files
+ * alone, so that it can be formed without parsing the data (the result cache
+ * of a site build looks results up by it). `inputs` are in the order of
+ * `definition.datasets`.
+ */
+export function fingerprintFromDigests(definition: AuditDefinition, inputs: readonly InputDigest[]): string {
   return canonicalDigest({
-    definition: audit.definition,
-    inputs: audit.datasets.map((d) => ({ id: d.id, file: d.file, sha256: d.sha256 })),
+    definition,
+    inputs: inputs.map((d) => ({ id: d.id, file: d.file, sha256: d.sha256 })),
     tool: TOOL,
   });
 }
