@@ -93,8 +93,17 @@ function criteriaText(c: CheckResult["criteria"]): string {
 
 const TITLES = new Map(CHECKS.map((c) => [c.id as string, c.title]));
 
-export function checkView(c: CheckResult): CheckView {
-  const anchor = `${c.check}-${c.dataset}`.toLowerCase().replace(/[^a-z0-9_-]+/g, "-");
+/** The page anchor of a check's section before duplicates are numbered. */
+function anchorOf(c: CheckResult): string {
+  return `${c.check}-${c.dataset}`.toLowerCase().replace(/[^a-z0-9_-]+/g, "-");
+}
+
+/**
+ * The view of one check. `anchor` must be unique on the page; `plotOrdinal`
+ * numbers its plots among the page's (element ids then depend only on the
+ * page, so the same result always gives the same bytes).
+ */
+export function checkView(c: CheckResult, anchor = anchorOf(c), plotOrdinal?: () => number): CheckView {
   return {
     anchor,
     check: c.check,
@@ -111,19 +120,20 @@ export function checkView(c: CheckResult): CheckView {
     references: c.references ?? [],
     equationsHtml: (c.equations ?? []).map((tex) => renderEquation(tex, true)),
     tables: (c.tables ?? []).map(tableView),
-    plots: (c.plots ?? []).map((p) => ({ id: `${anchor}-${p.id}`, title: p.title, alt: p.alt, svg: renderPlot(p, `${anchor}-`) })),
+    plots: (c.plots ?? []).map((p) => ({ id: `${anchor}-${p.id}`, title: p.title, alt: p.alt, svg: renderPlot(p, `${anchor}-`, plotOrdinal?.()) })),
   };
 }
 
 /** Everything a report page shows, precomputed: equations typeset, plots drawn, numbers formatted. */
 export function auditPageModel(doc: ResultDocument, versioning?: PageVersioning): AuditPageModel {
   const seen = new Map<string, number>();
+  let plots = 0;
+  const nextPlot = () => ++plots;
   const checks = doc.checks.map((c) => {
-    const view = checkView(c);
-    const n = seen.get(view.anchor) ?? 0;
-    seen.set(view.anchor, n + 1);
-    if (n > 0) view.anchor = `${view.anchor}-${n + 1}`;
-    return view;
+    const base = anchorOf(c);
+    const n = seen.get(base) ?? 0;
+    seen.set(base, n + 1);
+    return checkView(c, n > 0 ? `${base}-${n + 1}` : base, nextPlot);
   });
   return {
     id: doc.audit,

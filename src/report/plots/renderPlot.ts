@@ -257,10 +257,12 @@ let plotCounter = 0;
  * written directly: no DOM needed at build time). The SVG is a labelled image
  * for screen readers: its title, then a description made of the spec's text
  * alternative and a plain account of axes, ranges and series. All text from
- * specs is escaped.
+ * specs is escaped. `ordinal` numbers the plot on its page, which keeps the
+ * element ids unique and the page's bytes independent of what else the process
+ * drew before; without it a process-wide counter keeps the ids unique.
  */
-export function renderPlot(spec: PlotSpec, idPrefix = ""): string {
-  const uid = `${idPrefix}${spec.id}-${++plotCounter}`.replace(/[^A-Za-z0-9_-]/g, "-");
+export function renderPlot(spec: PlotSpec, idPrefix = "", ordinal?: number): string {
+  const uid = `${idPrefix}${spec.id}-${ordinal ?? ++plotCounter}`.replace(/[^A-Za-z0-9_-]/g, "-");
   const x = scaleFor(spec.x, extent(spec, "x"), [0, PW]);
   const y = scaleFor(spec.y, extent(spec, "y"), [PH, 0]);
   const xTicks = ticksOf(spec.x, x, spec.x.scale === "log" ? 6 : 7);
