@@ -245,7 +245,7 @@ export function exchangeFluctuationForDataset(d: SamplesDataset, ctx: CheckConte
     coefficientRows.push({ coefficient: m.terms.length ? `${m.label} (coefficient of ${m.channel.variable})` : m.channel.label, declared: m.declared, fitted: est, se, z: zScore, p });
   });
   // A χ² that is not a number (weights beyond double precision) is no test rather than a crash.
-  if (ratio.dof > 0 && !Number.isNaN(ratio.chiSquare)) tests.push({ name: "binned", p: ratio.pValue, describe: `the binned log-ratio departs from the line y = Σ (χ² = ${fmt(ratio.chiSquare)}, ${ratio.dof} bins)` });
+  if (ratio.dof > 0 && !Number.isNaN(ratio.chiSquare)) tests.push({ name: "binned", p: ratio.pValue, describe: `the binned log-ratio departs from the line y = Σ (χ² = ${Number.isFinite(ratio.chiSquare) ? fmt(ratio.chiSquare) : "beyond double precision"}, ${ratio.dof} bins)` });
   if (cubic && Number.isFinite(cubic.pValue)) tests.push({ name: "cubic", p: cubic.pValue, describe: "a cubic term in ln P(Σ)/P(−Σ) is significant (the ratio is not exponential in Σ)" });
   const family = holm(tests.map((t) => t.p), alpha);
   ident.combinations.forEach((m, j) => {
