@@ -10,10 +10,18 @@ const md = new MarkdownIt({ html: false, linkify: true, typographer: false });
  * invented — is refused, and markdown-it then shows the Markdown as text.
  * A scheme is what RFC 3986 §3.1 calls one: a letter, then letters, digits,
  * "+", "-" or ".", then ":". Browsers ignore tabs and line breaks inside a
- * scheme (WHATWG URL Standard, "basic URL parser"), so they are removed first.
+ * scheme (WHATWG URL Standard, "basic URL parser"), so they are removed first,
+ * after percent-decoding.
  */
 export function isAllowedLinkTarget(url: string): boolean {
-  const target = url.replace(/[\u0000-\u0020\u007f]/g, "");
+  // markdown-it hands over the percent-encoded form (a tab arrives as %09): judge the decoded text.
+  let decoded = url;
+  try {
+    decoded = decodeURIComponent(url);
+  } catch {
+    // A malformed escape stays as written; the scheme test below still applies.
+  }
+  const target = decoded.replace(/[\u0000-\u0020\u007f]/g, "");
   const scheme = /^([A-Za-z][A-Za-z0-9+.-]*):/.exec(target);
   if (!scheme) return !target.startsWith("//") && !target.startsWith("\\\\") && !target.startsWith("/\\") && !target.startsWith("\\/");
   return /^https?$/i.test(scheme[1]);
