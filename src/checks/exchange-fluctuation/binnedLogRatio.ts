@@ -94,7 +94,16 @@ function finish(bins: (LogRatioBin & { varX: number })[], discrete: boolean, dro
   };
 }
 
-export function binnedLogRatio(sigma: ArrayLike<number>, weight: ArrayLike<number> | null, minCount: number): LogRatio {
+/**
+ * `sigmaCell`: for a dataset summarised into cells (src/ingest/reduce), the
+ * width of its Σ cells, which are centred on multiples of it and mirrored
+ * about zero. Bin edges are then moved to cell boundaries, (k + ½)·sigmaCell,
+ * so that every cell and its mirror image fall into mirrored bins whole, and
+ * the cells around Σ = 0 (their own mirror images) stay out: each bin pair is
+ * then a union of mirrored cell pairs, for which the relation holds exactly
+ * (see reduceSamples.ts).
+ */
+export function binnedLogRatio(sigma: ArrayLike<number>, weight: ArrayLike<number> | null, minCount: number, sigmaCell: number | null = null): LogRatio {
   const disc = discreteValues(sigma, weight);
   if (disc) {
     const bins: (LogRatioBin & { varX: number })[] = [];
@@ -133,9 +142,26 @@ export function binnedLogRatio(sigma: ArrayLike<number>, weight: ArrayLike<numbe
     for (let j = 0; j < order.length; j++) values[j] = sigma[order[j]];
     values.sort(); // most negative first
     values.reverse(); // ascending |Σ|
-    return mirrorBins(sigma, null, minCount, negTotal, (j) => -values[j], values.length);
+    return mirrorBins(sigma, null, minCount, negTotal, (j) => -values[j], values.length, () => 1, sigmaCell);
   }
-  return mirrorBins(sigma, weight, minCount, negTotal, (j) => -sigma[order[j]], order.length, (j) => weight[order[j]]);
+  return mirrorBins(sigma, weight, minCount, negTotal, (j) => -sigma[order[j]], order.length, (j) => weight[order[j]], sigmaCell);
+}
+
+/**
+ * Move edges (in place) to the nearest cell boundaries (k + ½)·cell, the first
+ * to ½·cell and the last up to the boundary above it, dropping edges that
+ * coincide.
+ */
+function snapToCells(edges: number[], cell: number): void {
+  const last = (Math.ceil(edges[edges.length - 1] / cell - 0.5) + 0.5) * cell;
+  const snapped = [0.5 * cell];
+  for (let k = 1; k < edges.length - 1; k++) {
+    const e = (Math.round(edges[k] / cell - 0.5) + 0.5) * cell;
+    if (e > snapped[snapped.length - 1] && e < last) snapped.push(e);
+  }
+  snapped.push(Math.max(last, 1.5 * cell));
+  edges.length = 0;
+  edges.push(...snapped);
 }
 
 /** Bins in |Σ| with equal negative weight, given the negative side's |Σ| in ascending order. */
@@ -147,6 +173,7 @@ function mirrorBins(
   absAt: (j: number) => number,
   count: number,
   weightAt: (j: number) => number = () => 1,
+  sigmaCell: number | null = null,
 ): LogRatio {
   const perBin = Math.max(minCount, negTotal / MAX_BINS);
   // Edges in |Σ| at equal negative weight.
@@ -162,13 +189,14 @@ function mirrorBins(
     }
   }
   edges.push(absAt(count - 1) * (1 + 1e-12) + 1e-300);
+  if (sigmaCell !== null) snapToCells(edges, sigmaCell);
   const K = edges.length - 1;
   const nNeg = new Float64Array(K);
   const nPos = new Float64Array(K);
   // Per bin: log-sum-exp of |Σ| on the negative side, with its second moment for the variance of x.
   const maxAbs = new Float64Array(K).fill(-Infinity);
   const binOf = (a: number): number => {
-    if (!(a > 0) || a >= edges[K]) return -1;
+    if (!(a > 0) || a < edges[0] || a >= edges[K]) return -1;
     let lo = 0;
     let hi = K;
     while (hi - lo > 1) {

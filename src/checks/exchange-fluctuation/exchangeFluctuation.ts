@@ -207,7 +207,7 @@ export function exchangeFluctuationForDataset(d: SamplesDataset, ctx: CheckConte
   const slopeSe = slopeOk ? contracted!.standardErrors[0] : Number.NaN;
   const slopeCi: [number, number] = [slope - z * slopeSe, slope + z * slopeSe];
   const cubic = slopeOk ? logisticScoreTest(contracted!, [sigma], [cubed(sigma)], weight) : null;
-  const ratio: LogRatio = binnedLogRatio(sigma, weight, minBinCount);
+  const ratio: LogRatio = binnedLogRatio(sigma, weight, minBinCount, d.reduction?.steps.sigma ?? null);
 
   // (2) Joint relation: the coefficients of (W, Q, ΔN), or the combinations of them the data identify.
   const channels = channelsOf(d);

@@ -1,23 +1,26 @@
 /**
  * A mergeable summary of many realisations: realisations with the same key
- * (a point on a grid over a few columns) are pooled into one cell that keeps
- * their number, the sum of every stored column, and the smallest and largest
- * entropy production among them.
+ * (a cell of a grid over a few columns) are pooled into one cell that keeps
+ * their number, the sum of every stored column, the smallest and largest
+ * entropy production Σ among them, and the sum of e^{−Σ}.
  *
- * The grid. Column d is cut at multiples of step_d = step0_d · 2^level (level
- * shared by the coarsenable columns), so a cell at one level is exactly the
- * union of two neighbouring cells at the level below: floor(floor(x/s)/2) =
- * floor(x/2s). When a table holds more than its capacity of cells it goes up
- * one level. Summaries of different parts of a file therefore merge exactly
- * (bring both to the higher level, add cell by cell), and the result depends
- * only on the data and the capacity, not on how the file was split — apart from
- * the order of floating-point additions, which a fixed split fixes.
+ * The grid is centred and mirror-symmetric: at level 0 column d is cut into
+ * cells [(k − ½)s, (k + ½)s) of width s = step0_d, so the mirror image of cell
+ * k is cell −k and a realisation and its time reverse fall into mirrored cells.
+ * Each table level L puts column d at its own level min(max_d, max(0, L − delay_d))
+ * (a column with an infinite delay, such as a count, never widens), and each
+ * column level triples the width: cell j at level l+1 is exactly cells 3j−1,
+ * 3j, 3j+1 at level l (j = ⌊(k+1)/3⌋), so cells stay centred and
+ * mirror-symmetric at every level, and summaries of different
+ * parts of a file merge exactly: bring both to the higher level, add cell by
+ * cell. When a table holds more than its capacity it goes up a level. The
+ * result depends only on the data, the start level and the capacity, not on
+ * where the file was cut — apart from the order of floating-point additions,
+ * which a fixed split fixes.
  *
- * What is kept exactly: the number of realisations, every column's total (so
- * every mean), and, through the Σ range of each cell, a bound on how far any
- * realisation's entropy production is from its cell's mean. With step0 far
- * below the resolution of printed data, distinct printed values fall in
- * distinct cells and nothing is lost; the Σ ranges say whether that happened.
+ * What is kept exactly: the number of realisations, each column's total (so
+ * every mean), the sum of e^{−Σ} (so every exponential average), and the range
+ * of Σ in each cell, which bounds what pooling can have changed.
  */
 
 export interface GridSpec {
@@ -25,12 +28,16 @@ export interface GridSpec {
   dims: number;
   /** Finest step of each key column (a power of two, in the column's unit). */
   step0: Float64Array;
-  /** Columns whose step grows with the level (the others keep step0: whole-number columns). */
-  coarsenable: Uint8Array;
+  /** Table levels before each column starts to widen (Infinity: never, for whole-number columns). */
+  delay: Float64Array;
+  /** Highest level of each column (Infinity: no limit). */
+  maxColumnLevel: Float64Array;
   /** Stored sums per cell. */
   stored: number;
   /** Most cells a table may hold before it coarsens. */
   capacity: number;
+  /** Level a table starts at (chosen from the start of the file, the same for every part). */
+  startLevel: number;
 }
 
 /** The plain-data form of a table: what workers send and what merging takes. */
@@ -45,42 +52,85 @@ export interface CellTableData {
   sums: Float64Array;
   sigmaMin: Float64Array;
   sigmaMax: Float64Array;
+  /** Σ of the first realisation of each cell, and the sum over the cell of w e^{−(Σ − that reference)}. */
+  sigmaRef: Float64Array;
+  expSum: Float64Array;
 }
 
 const EMPTY = -1;
+/** Levels beyond this would need cell indices past 2^53 / 3^L exactness. */
+export const MAX_LEVEL = 30;
+
+/** A column's own level at table level L. */
+export function columnLevel(level: number, delay: number, max = Infinity): number {
+  return Math.min(max, Math.max(0, level - delay));
+}
+
+/** Index at `toLevel` of the cell with index k at `fromLevel` (centred cells, factor 3 a level). */
+export function coarserIndex(k: number, fromLevel: number, toLevel: number): number {
+  if (toLevel === fromLevel) return k;
+  const p = 3 ** (toLevel - fromLevel);
+  return Math.floor((k + (p - 1) / 2) / p);
+}
 
 export class CellTable {
   level = 0;
   size = 0;
   private slots: number;
   private mask: number;
-  private slotCell!: Int32Array;
+  private slotCell: Int32Array | undefined;
   private keys!: Float64Array;
   private count!: Float64Array;
   private sums!: Float64Array;
   private sigmaMin!: Float64Array;
   private sigmaMax!: Float64Array;
+  private sigmaRef!: Float64Array;
+  private expSum!: Float64Array;
   private readonly key: Float64Array;
   private readonly inverseStep: Float64Array;
+  /** 3^(column level) of each column at the current table level. */
+  private readonly factor: Float64Array;
 
   constructor(readonly spec: GridSpec) {
+    this.level = spec.startLevel;
     this.slots = 1;
     while (this.slots < 2 * spec.capacity) this.slots *= 2;
     this.mask = this.slots - 1;
     this.allocate();
     this.key = new Float64Array(spec.dims);
     this.inverseStep = Float64Array.from(spec.step0, (s) => 1 / s);
+    this.factor = new Float64Array(spec.dims);
+    this.setFactors();
+  }
+
+  refreshFactors(): void {
+    this.setFactors();
+  }
+
+  private setFactors(): void {
+    for (let d = 0; d < this.spec.dims; d++) this.factor[d] = 3 ** columnLevel(this.level, this.spec.delay[d], this.spec.maxColumnLevel[d]);
   }
 
   private allocate(): void {
     const { dims, stored, capacity } = this.spec;
     const cells = capacity + 1;
+    if (this.slotCell) {
+      // Reuse the arrays: on this machine class, touching fresh memory costs more than the work itself.
+      this.slotCell.fill(EMPTY);
+      this.count.fill(0);
+      this.sums.fill(0);
+      this.expSum.fill(0);
+      this.size = 0;
+      return;
+    }
     this.slotCell = new Int32Array(this.slots).fill(EMPTY);
     this.keys = new Float64Array(cells * dims);
     this.count = new Float64Array(cells);
     this.sums = new Float64Array(cells * stored);
     this.sigmaMin = new Float64Array(cells);
     this.sigmaMax = new Float64Array(cells);
+    this.sigmaRef = new Float64Array(cells);
+    this.expSum = new Float64Array(cells);
     this.size = 0;
   }
 
@@ -89,19 +139,21 @@ export class CellTable {
    * `values` (length stored) and entropy production `sigma`.
    */
   add(x: Float64Array, values: Float64Array, weight: number, sigma: number): void {
-    const { dims, stored, coarsenable } = this.spec;
+    const { dims, stored } = this.spec;
     const key = this.key;
-    const shift = Math.pow(2, -this.level);
     for (let d = 0; d < dims; d++) {
-      const k = Math.floor(x[d] * this.inverseStep[d]);
-      key[d] = coarsenable[d] ? Math.floor(k * shift) : k;
+      const k = Math.floor(x[d] * this.inverseStep[d] + 0.5);
+      const p = this.factor[d];
+      key[d] = p === 1 ? k : Math.floor((k + (p - 1) / 2) / p);
     }
     const cell = this.cellFor(key);
+    if (this.count[cell] === 0) this.sigmaRef[cell] = sigma;
     this.count[cell] += weight;
     const base = cell * stored;
     for (let s = 0; s < stored; s++) this.sums[base + s] += weight * values[s];
     if (sigma < this.sigmaMin[cell]) this.sigmaMin[cell] = sigma;
     if (sigma > this.sigmaMax[cell]) this.sigmaMax[cell] = sigma;
+    this.expSum[cell] += weight * Math.exp(this.sigmaRef[cell] - sigma);
     if (this.size > this.spec.capacity) this.coarsen();
   }
 
@@ -117,7 +169,7 @@ export class CellTable {
     h ^= h >>> 15;
     let slot = h & this.mask;
     while (true) {
-      const cell = this.slotCell[slot];
+      const cell = this.slotCell![slot];
       if (cell === EMPTY) break;
       let same = true;
       const base = cell * dims;
@@ -131,7 +183,7 @@ export class CellTable {
       slot = (slot + 1) & this.mask;
     }
     const cell = this.size++;
-    this.slotCell[slot] = cell;
+    this.slotCell![slot] = cell;
     this.keys.set(key, cell * dims);
     this.sigmaMin[cell] = Infinity;
     this.sigmaMax[cell] = -Infinity;
@@ -143,10 +195,15 @@ export class CellTable {
     const old = this.export();
     do {
       this.level++;
-      if (this.level - old.level > 64) {
+      if (this.level > MAX_LEVEL) {
         // Whole-number columns alone hold more distinct values than the capacity: pool them too.
-        this.spec.coarsenable.fill(1);
+        this.level = old.level + 1;
+        this.spec.delay.forEach((d, i) => {
+          if (!Number.isFinite(d)) this.spec.delay[i] = old.level;
+        });
+        this.spec.maxColumnLevel.fill(Infinity);
       }
+      this.setFactors();
       this.allocate();
       this.absorb(old, false);
     } while (this.size > this.spec.capacity);
@@ -154,24 +211,20 @@ export class CellTable {
 
   /** Add every cell of `data` (at a level ≤ this.level) into this table. */
   absorb(data: CellTableData, autoCoarsen = true): void {
-    const { dims, stored, coarsenable } = this.spec;
+    const { dims, stored, delay, maxColumnLevel } = this.spec;
     const key = this.key;
-    let level = this.level;
-    let shift = Math.pow(2, data.level - level);
     for (let c = 0; c < data.cells; c++) {
-      if (this.level !== level) {
-        level = this.level;
-        shift = Math.pow(2, data.level - level);
-      }
       for (let d = 0; d < dims; d++) {
         const k = data.keys[c * dims + d];
-        key[d] = coarsenable[d] ? Math.floor(k * shift) : k;
+        key[d] = coarserIndex(k, columnLevel(data.level, delay[d], maxColumnLevel[d]), columnLevel(this.level, delay[d], maxColumnLevel[d]));
       }
       const cell = this.cellFor(key);
+      if (this.count[cell] === 0) this.sigmaRef[cell] = data.sigmaRef[c];
       this.count[cell] += data.count[c];
       for (let s = 0; s < stored; s++) this.sums[cell * stored + s] += data.sums[c * stored + s];
       if (data.sigmaMin[c] < this.sigmaMin[cell]) this.sigmaMin[cell] = data.sigmaMin[c];
       if (data.sigmaMax[c] > this.sigmaMax[cell]) this.sigmaMax[cell] = data.sigmaMax[c];
+      this.expSum[cell] += data.expSum[c] * Math.exp(this.sigmaRef[cell] - data.sigmaRef[c]);
       if (autoCoarsen && this.size > this.spec.capacity) this.coarsen();
     }
   }
@@ -188,6 +241,8 @@ export class CellTable {
       sums: this.sums.slice(0, n * stored),
       sigmaMin: this.sigmaMin.slice(0, n),
       sigmaMax: this.sigmaMax.slice(0, n),
+      sigmaRef: this.sigmaRef.slice(0, n),
+      expSum: this.expSum.slice(0, n),
     };
   }
 }
@@ -199,7 +254,8 @@ export class CellTable {
  */
 export function mergeCellTables(spec: GridSpec, parts: CellTableData[]): CellTableData {
   const table = new CellTable(spec);
-  table.level = Math.max(0, ...parts.map((p) => p.level));
+  table.level = Math.max(spec.startLevel, ...parts.map((p) => p.level));
+  table.refreshFactors();
   for (const part of parts) table.absorb(part);
   return sortedByKey(spec, table.export());
 }
@@ -222,6 +278,8 @@ function sortedByKey(spec: GridSpec, data: CellTableData): CellTableData {
     sums: new Float64Array(data.cells * stored),
     sigmaMin: new Float64Array(data.cells),
     sigmaMax: new Float64Array(data.cells),
+    sigmaRef: new Float64Array(data.cells),
+    expSum: new Float64Array(data.cells),
   };
   order.forEach((from, to) => {
     out.keys.set(data.keys.subarray(from * dims, (from + 1) * dims), to * dims);
@@ -229,6 +287,8 @@ function sortedByKey(spec: GridSpec, data: CellTableData): CellTableData {
     out.count[to] = data.count[from];
     out.sigmaMin[to] = data.sigmaMin[from];
     out.sigmaMax[to] = data.sigmaMax[from];
+    out.sigmaRef[to] = data.sigmaRef[from];
+    out.expSum[to] = data.expSum[from];
   });
   return out;
 }

@@ -8,9 +8,9 @@ import type { RowChunk } from "../fast/scanLines.ts";
 import { scanFileRange } from "../fast/scanRange.ts";
 import { MAX_ROW_PROBLEMS, newProblemLog, sampleRowsOf, type SampleRole, type SampleRoles } from "../samplesRows.ts";
 import type { SamplesDataset, SamplesReduction } from "../types.ts";
-import { mergeCellTables, type GridSpec } from "./cellTable.ts";
+import { coarserIndex, columnLevel, MAX_LEVEL, mergeCellTables } from "./cellTable.ts";
 import { PARTS, reduceInParts } from "./parallelReduce.ts";
-import type { SampleColumn, SamplesPartSummary, SamplesReductionSpec } from "./samplesSink.ts";
+import type { KeyColumn, SampleColumn, SamplesPartSummary, SamplesReductionSpec } from "./samplesSink.ts";
 
 /**
  * Files above this size are summarised while they are read instead of being
@@ -35,6 +35,20 @@ export const DEFAULT_CELL_CAPACITY = 1 << 17;
  * stay in distinct cells.
  */
 const FINEST_RELATIVE_STEP = 2 ** -24;
+
+/**
+ * Finest cell width of Σ, k_B: 2^-12 ≈ 2.4e-4, far below the statistical
+ * resolution of any relation tested on Σ.
+ */
+const SIGMA_STEP = 2 ** -12;
+
+/**
+ * The further continuous column widens first, up to this level, and Σ's cells
+ * only after it: 3^13 ≈ 1.6e6 finest steps, cells of about a tenth of the
+ * column's largest value at the start of the file (some twenty cells across
+ * its range), enough to keep the channels apart in the fit of the affinities.
+ */
+const TRANSVERSE_MAX_LEVEL = 13;
 
 /** Rows read from the start of the file to choose the grid. */
 const PROBE_BYTES = 1 << 20;
@@ -127,17 +141,24 @@ function reductionSpec(
     if (slot >= 0) slotOfRole[role as SampleRole] = slot;
   }
   const hasE = roles.dE_A !== undefined && roles.dE_B !== undefined;
-  const keyColumns: SampleColumn[] = hasE ? ["dE_A", "dE_B"] : ["Q"];
+  const hasW = roles.W !== undefined || hasE;
+  const a = input.affinity;
+  const sigma = { cW: input.workZero ? 0 : a.beta_bar, cQ: a.a_Q, cN: a.a_N };
+  // The key resolves Σ itself on a fine grid, the counts exactly, and at most one
+  // further continuous column (the one Σ does not already fix), which may be pooled
+  // coarsely: pooling then mixes realisations of nearly the same Σ only.
+  const keyColumns: KeyColumn[] = ["sigma"];
   if (roles.dN !== undefined) keyColumns.push("dN");
-  if (!hasE && roles.W !== undefined) keyColumns.push("W");
+  const transverse: SampleColumn | null = hasW ? (sigma.cW !== 0 ? "Q" : "W") : sigma.cQ === 0 ? "Q" : null;
+  if (transverse) keyColumns.push(transverse);
   const storedColumns: SampleColumn[] = ["Q"];
-  if (roles.W !== undefined || hasE) storedColumns.push("W");
+  if (hasW) storedColumns.push("W");
   if (roles.dN !== undefined) storedColumns.push("dN");
   if (hasE) storedColumns.push("dE_A", "dE_B");
 
   // The probe: rows of the first block, in J.
   let probe: RowChunk | null = null;
-  const state = scanFileRange(fd, dataStart, Math.min(size, dataStart + PROBE_BYTES), layout, (chunk) => {
+  const state = scanFileRange(fd, dataStart, probeEnd(fd, dataStart, size), layout, (chunk) => {
     if (probe === null) probe = { rows: chunk.rows, values: chunk.values.map((v) => Float64Array.from(v)), lines: Uint32Array.from(chunk.lines) };
   });
   const first = probe as RowChunk | null;
@@ -145,11 +166,19 @@ function reductionSpec(
   const raw: Partial<Record<SampleRole, Float64Array>> = {};
   for (const [role, slot] of Object.entries(slotOfRole)) if (first) raw[role as SampleRole] = first.values[slot!];
   const sample = first ? sampleRowsOf(raw, roles, input.joules, first.rows, first.lines, newProblemLog()) : null;
-  const columnOf = (c: SampleColumn): Float64Array | null =>
-    sample === null ? null : { Q: sample.Q, W: sample.W_data, dN: sample.dN, dE_A: sample.dE_A, dE_B: sample.dE_B }[c];
+  const columnOf = (c: KeyColumn): Float64Array | null => {
+    if (sample === null) return null;
+    if (c !== "sigma") return { Q: sample.Q, W: sample.W_data, dN: sample.dN, dE_A: sample.dE_A, dE_B: sample.dE_B }[c];
+    const out = new Float64Array(sample.rows);
+    for (let i = 0; i < sample.rows; i++) {
+      out[i] = (sample.W_data ? sigma.cW * sample.W_data[i] : 0) + sigma.cQ * sample.Q[i] + (sample.dN ? sigma.cN * sample.dN[i] : 0);
+    }
+    return out;
+  };
 
   const step0 = new Float64Array(keyColumns.length);
-  const coarsenable = new Uint8Array(keyColumns.length);
+  const delay = new Float64Array(keyColumns.length);
+  const maxLevel = new Float64Array(keyColumns.length).fill(Infinity);
   keyColumns.forEach((c, d) => {
     const values = columnOf(c);
     let maxAbs = 0;
@@ -163,25 +192,72 @@ function reductionSpec(
     }
     if (whole) {
       step0[d] = 1; // counts stay apart at every level
-      coarsenable[d] = 0;
+      delay[d] = Infinity;
+    } else if (c === "sigma") {
+      step0[d] = SIGMA_STEP;
+      delay[d] = transverse ? TRANSVERSE_MAX_LEVEL : 0;
     } else {
       const scale = maxAbs > 0 ? maxAbs : input.joules;
       step0[d] = 2 ** Math.ceil(Math.log2(scale * FINEST_RELATIVE_STEP));
-      coarsenable[d] = 1;
+      delay[d] = 0;
+      maxLevel[d] = TRANSVERSE_MAX_LEVEL;
     }
   });
-  if (!coarsenable.some((x) => x === 1)) coarsenable.fill(1);
-  const a = input.affinity;
+  const keyValues = keyColumns.map((c) => columnOf(c));
+  const startLevel =
+    sample === null || keyValues.some((v) => v === null) ? 0 : levelForProbe(keyValues as Float64Array[], sample.rows, step0, delay, maxLevel, capacity / 8);
   return {
     label: input.label,
     roles,
     slotOfRole,
     joules: input.joules,
-    sigma: { cW: input.workZero ? 0 : a.beta_bar, cQ: a.a_Q, cN: a.a_N },
+    sigma,
     keyColumns,
     storedColumns,
-    grid: { dims: keyColumns.length, step0, coarsenable, stored: storedColumns.length, capacity },
+    grid: { dims: keyColumns.length, step0, delay, maxColumnLevel: maxLevel, stored: storedColumns.length, capacity, startLevel },
   };
+}
+
+/** Number of probe rows' distinct cells at a level (stops counting past `limit`). */
+function probeCells(keys: Float64Array[], rows: number, step0: Float64Array, delay: Float64Array, maxLevel: Float64Array, level: number, limit: number): number {
+  const seen = new Set<string>();
+  for (let i = 0; i < rows && seen.size <= limit; i++) {
+    let key = "";
+    for (let d = 0; d < keys.length; d++) {
+      const k = Math.floor(keys[d][i] / step0[d] + 0.5);
+      key += `${coarserIndex(k, 0, columnLevel(level, delay[d], maxLevel[d]))},`;
+    }
+    seen.add(key);
+  }
+  return seen.size;
+}
+
+/**
+ * The lowest level at which the probe's rows fall into at most `target` cells
+ * (the count falls with the level; bisection): where every part's table starts,
+ * so that it does not climb level by level from the finest grid. The file has
+ * more rows than the probe, so a table may still go higher; the result is the
+ * same either way.
+ */
+function levelForProbe(keys: Float64Array[], rows: number, step0: Float64Array, delay: Float64Array, maxLevel: Float64Array, target: number): number {
+  let lo = 0;
+  let hi = MAX_LEVEL;
+  if (probeCells(keys, rows, step0, delay, maxLevel, hi, target) > target) return hi;
+  while (lo < hi) {
+    const mid = (lo + hi) >> 1;
+    if (probeCells(keys, rows, step0, delay, maxLevel, mid, target) <= target) hi = mid;
+    else lo = mid + 1;
+  }
+  return lo;
+}
+
+/** End of the last whole line within PROBE_BYTES of the data start (a cut line would read as a bad cell). */
+function probeEnd(fd: number, dataStart: number, size: number): number {
+  if (size - dataStart <= PROBE_BYTES) return size;
+  const buffer = Buffer.allocUnsafe(PROBE_BYTES);
+  const got = fs.readSync(fd, buffer, 0, PROBE_BYTES, dataStart);
+  const nl = buffer.subarray(0, got).lastIndexOf(10);
+  return nl < 0 ? size : dataStart + nl + 1;
 }
 
 /** The dataset's arrays over the merged cells: column means, multiplicities, Σ of each cell's mean. */
@@ -200,8 +276,21 @@ function fieldsFromCells(input: ReduceInput, spec: SamplesReductionSpec, cells: 
   const dNmean = mean("dN");
   const dN = dNmean ?? new Float64Array(n);
   const W = input.workZero ? new Float64Array(n) : W_data!;
-  // Σ is linear in (W, Q, ΔN), so Σ of a cell's means is the mean Σ of its realisations.
-  const sigma = entropyProduction(input.affinity, W, Q, dN);
+  // Each cell's Σ is the one whose exponential is the cell's average of e^{−Σ}:
+  // Σ*_C = −ln(Σ_i w_i e^{−Σ_i} / Σ_i w_i). Every sum of e^{−Σ} over cells (integral
+  // relation, the exchange relation's bin averages) is then the sum over the
+  // realisations, and under the exchange relation mirrored cells C, −C obey
+  // P(C)/P(−C) = e^{Σ*_C} exactly (integrate P(z) = e^{Σ(z)} P(−z) over C), as
+  // single realisations do. The plain mean Σ̄_C (Σ is linear in W, Q, ΔN, so the Σ
+  // of the cell's column means) exceeds Σ*_C by at most the cell's Σ range
+  // (Jensen), which `maxSigmaSpread` reports.
+  const sigmaMean = entropyProduction(input.affinity, W, Q, dN);
+  const sigma = new Float64Array(n);
+  for (let i = 0; i < n; i++) {
+    const star = cells.sigmaRef[i] - Math.log(cells.expSum[i] / cells.count[i]);
+    // Σ* lies in the cell's range; keep the mean where the range is a single value (no rounding drift).
+    sigma[i] = cells.sigmaMax[i] === cells.sigmaMin[i] ? sigmaMean[i] : Math.min(cells.sigmaMax[i], Math.max(cells.sigmaMin[i], star));
+  }
   let realisations = 0;
   let pooled = 0;
   let maxSpread = 0;
@@ -214,7 +303,7 @@ function fieldsFromCells(input: ReduceInput, spec: SamplesReductionSpec, cells: 
   if (realisations === 0) throw new DataError(`${input.label}: every count in column "${input.roles.count}" is zero; there are no realisations`);
   const steps: Record<string, number> = {};
   spec.keyColumns.forEach((c, d) => {
-    steps[c] = spec.grid.step0[d] * (spec.grid.coarsenable[d] ? 2 ** cells.level : 1);
+    steps[c] = spec.grid.step0[d] * 3 ** columnLevel(cells.level, spec.grid.delay[d], spec.grid.maxColumnLevel[d]);
   });
   const reduction: SamplesReduction = {
     cells: n,

@@ -14,13 +14,15 @@ export interface SamplesReductionSpec {
   /** Σ = cW W + cQ Q + cN ΔN per realisation (cW = 0 when work: zero is declared). */
   sigma: { cW: number; cQ: number; cN: number };
   /** Columns forming the grid key, and columns whose sums are kept. */
-  keyColumns: SampleColumn[];
+  keyColumns: KeyColumn[];
   storedColumns: SampleColumn[];
   grid: GridSpec;
 }
 
 /** Columns of the reduced rows (J; ΔN as counted). */
 export type SampleColumn = "Q" | "W" | "dN" | "dE_A" | "dE_B";
+/** Columns a cell key may use: the stored ones and Σ (k_B). */
+export type KeyColumn = SampleColumn | "sigma";
 
 export interface SamplesPartSummary {
   state: Pick<ScanState, "rows" | "line" | "problems" | "problemCount" | "structural">;
@@ -36,7 +38,7 @@ export class SamplesReducer {
   private readonly v: Float64Array;
 
   constructor(readonly spec: SamplesReductionSpec) {
-    this.table = new CellTable({ ...spec.grid, coarsenable: Uint8Array.from(spec.grid.coarsenable), step0: Float64Array.from(spec.grid.step0) });
+    this.table = new CellTable({ ...spec.grid, delay: Float64Array.from(spec.grid.delay), maxColumnLevel: Float64Array.from(spec.grid.maxColumnLevel), step0: Float64Array.from(spec.grid.step0) });
     this.x = new Float64Array(spec.keyColumns.length);
     this.v = new Float64Array(spec.storedColumns.length);
   }
@@ -48,12 +50,14 @@ export class SamplesReducer {
     const rows = sampleRowsOf(raw, spec.roles, spec.joules, chunk.rows, chunk.lines, this.rowProblems);
     if (this.rowProblems.count > 0) return; // the file is refused; only the problems matter now
     const columns: Record<SampleColumn, Float64Array | null> = { Q: rows.Q, W: rows.W_data, dN: rows.dN, dE_A: rows.dE_A, dE_B: rows.dE_B };
-    const key = spec.keyColumns.map((c) => columns[c]!);
-    const stored = spec.storedColumns.map((c) => columns[c]!);
     const { cW, cQ, cN } = spec.sigma;
     const W = rows.W_data;
     const dN = rows.dN;
     const Q = rows.Q;
+    const sigma = new Float64Array(chunk.rows);
+    for (let i = 0; i < chunk.rows; i++) sigma[i] = (W ? cW * W[i] : 0) + cQ * Q[i] + (dN ? cN * dN[i] : 0);
+    const key = spec.keyColumns.map((c) => (c === "sigma" ? sigma : columns[c]!));
+    const stored = spec.storedColumns.map((c) => columns[c]!);
     const weight = rows.weight;
     const x = this.x;
     const v = this.v;
@@ -62,8 +66,7 @@ export class SamplesReducer {
       if (w === 0) continue;
       for (let d = 0; d < key.length; d++) x[d] = key[d][i];
       for (let s = 0; s < stored.length; s++) v[s] = stored[s][i];
-      const sigma = (W ? cW * W[i] : 0) + cQ * Q[i] + (dN ? cN * dN[i] : 0);
-      this.table.add(x, v, w, sigma);
+      this.table.add(x, v, w, sigma[i]);
     }
   }
 }
