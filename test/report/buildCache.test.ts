@@ -7,6 +7,7 @@ import fs from "node:fs";
 import path from "node:path";
 import { beforeAll, describe, expect, it, vi } from "vitest";
 import { publishAudit } from "../../src/archive/publish.ts";
+import { verifyVersion } from "../../src/archive/verify.ts";
 import { main } from "../../src/cli/program.ts";
 import { ingestAudit } from "../../src/ingest/loadAudit.ts";
 import { buildSite } from "../../src/report/buildSite.ts";
@@ -286,5 +287,21 @@ describe("build --no-cache", () => {
       quiet.mockRestore();
       quietOut.mockRestore();
     }
+  });
+});
+
+describe("publishing and verifying", () => {
+  it("never read the cache: a doctored entry reaches a build's draft but neither a version nor its verification", async () => {
+    const a = makeTempArchive();
+    const dir = resultCacheDir(a.root);
+    const honest = (await runAuditCached(a.auditDir, { dir, read: true })).result;
+    // An entry that passes every test of trust but does not say what the data say.
+    const doctored = { ...honest, checks: honest.checks.map((c) => ({ ...c, summary: "doctored in the cache" })) };
+    expect(writeCachedResult(dir, doctored)).toBe(true);
+    expect((await runAuditCached(a.auditDir, { dir, read: true })).result.checks[0].summary).toBe("doctored in the cache");
+    const published = await publishAudit(a.auditDir, { now: fixedClock("2026-11-30T09:00:00Z") });
+    expect(canonicalJson(published.result)).toBe(canonicalJson(honest));
+    const report = await verifyVersion(a.auditDir);
+    expect(report).toMatchObject({ reproduced: true, result: [], data: [], chain: [] });
   });
 });
