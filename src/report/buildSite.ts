@@ -7,7 +7,7 @@ import { loadArchiveDefinition, type ArchiveDefinition } from "../config/archive
 import { AUDIT_FILE } from "../config/loadAudit.ts";
 import { InputError } from "../errors.ts";
 import { TOOL } from "../version.ts";
-import { resultCacheDir, runAuditCached } from "./resultCache.ts";
+import { pruneResultCache, resultCacheDir, runAuditCached } from "./resultCache.ts";
 import type { ResultDocument } from "./resultDocument.ts";
 import { auditPageModel, type AuditPageModel } from "./viewModel.ts";
 import { checkArchive } from "../archive/integrity.ts";
@@ -24,7 +24,8 @@ export interface BuildOptions {
   /**
    * Result cache under `<root>/.cache/transport-audit/results`: "use" takes the
    * stored result of an unchanged audit (the default), "refresh" recomputes
-   * every audit and stores the new results.
+   * every audit and stores the new results. Either way, entries the build did
+   * not use are removed once the site is written.
    */
   cache?: "use" | "refresh";
 }
@@ -121,6 +122,7 @@ export async function buildSite(options: BuildOptions): Promise<BuildOutcome> {
   const broken: BrokenAudit[] = [];
   const cache: CacheStatistics = { reused: 0, recomputed: 0, unstored: 0 };
   const cacheUse = { dir: resultCacheDir(options.root), read: (options.cache ?? "use") === "use" };
+  const usedFingerprints = new Set<string>();
   for (const [i, folder] of folders.entries()) {
     options.onProgress?.(i, folders.length, path.basename(folder));
     const folderRel = path.relative(options.root, folder).split(path.sep).join("/");
@@ -129,6 +131,7 @@ export async function buildSite(options: BuildOptions): Promise<BuildOutcome> {
     try {
       const run = await runAuditCached(folder, cacheUse);
       current = run.result;
+      usedFingerprints.add(run.result.fingerprint);
       if (run.fromCache) cache.reused++;
       else cache.recomputed++;
       if (!run.stored) cache.unstored++;
@@ -161,5 +164,7 @@ export async function buildSite(options: BuildOptions): Promise<BuildOutcome> {
   }
   fs.rmSync(options.out, { recursive: true, force: true });
   await renderSite(options.out, { archive, audits, versionPages, draftPages, broken, files });
+  // Entries of states the audits no longer have are dropped once the site stands.
+  pruneResultCache(cacheUse.dir, usedFingerprints);
   return { out: options.out, index: path.join(options.out, "index.html"), audits, versionPages, draftPages, broken, cache };
 }

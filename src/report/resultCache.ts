@@ -160,6 +160,39 @@ export function writeCachedResult(cacheDir: string, result: ResultDocument): boo
   }
 }
 
+const STALE_TEMPORARY_MS = 60 * 60 * 1000;
+
+/**
+ * Remove the entries a build did not use, so the cache holds one entry per
+ * audit instead of one per state an audit ever had (each entry is the size of
+ * a result document, tens to hundreds of kB). Temporary files are removed only
+ * when older than an hour: younger ones may belong to a build running beside
+ * this one. Returns the number of files removed; failures are ignored.
+ */
+export function pruneResultCache(cacheDir: string, used: ReadonlySet<string>, now = Date.now()): number {
+  let names: string[];
+  try {
+    names = fs.readdirSync(cacheDir);
+  } catch {
+    return 0;
+  }
+  const keep = new Set([...used].map((f) => path.basename(cacheFileOf(cacheDir, f))));
+  let removed = 0;
+  for (const name of names) {
+    const file = path.join(cacheDir, name);
+    try {
+      const stale = name.endsWith(".tmp") ? now - fs.statSync(file).mtimeMs > STALE_TEMPORARY_MS : /^[0-9a-f]{64}\.json$/.test(name) && !keep.has(name);
+      if (stale) {
+        fs.rmSync(file, { force: true });
+        removed++;
+      }
+    } catch {
+      // Gone already, or not ours to remove: the next build tries again.
+    }
+  }
+  return removed;
+}
+
 /**
  * A result document as its canonical JSON reads back: keys in code-point
  * order, non-finite numbers as null, typed arrays as arrays. A freshly

@@ -17,6 +17,7 @@ import {
   cacheFileOf,
   fileSha256Hex,
   folderFingerprint,
+  pruneResultCache,
   readCachedResult,
   resultCacheDir,
   runAuditCached,
@@ -210,6 +211,39 @@ describe("what misses the cache", () => {
     const run = await runAuditCached(a.auditDir, cacheOf(a));
     expect(run.fromCache).toBe(false);
     expect(run.result.fingerprint).toBe(fingerprint);
+  });
+});
+
+describe("the size of the cache", () => {
+  it("a build keeps only the entries it used", async () => {
+    const a = makeTempArchive();
+    const out = path.join(a.root, "site");
+    const dir = resultCacheDir(a.root);
+    await buildSite({ root: a.root, out });
+    const before = folderFingerprint(a.auditDir);
+    a.writeData(400, 1, "another run");
+    const after = folderFingerprint(a.auditDir);
+    expect(after).not.toBe(before);
+    const outcome = await buildSite({ root: a.root, out });
+    expect(outcome.cache).toEqual({ reused: 0, recomputed: 1, unstored: 0 });
+    expect(fs.readdirSync(dir)).toEqual([path.basename(cacheFileOf(dir, after))]);
+  });
+
+  it("removes temporary files older than an hour and leaves younger ones to the build that writes them", () => {
+    const a = makeTempArchive();
+    const dir = resultCacheDir(a.root);
+    fs.mkdirSync(dir, { recursive: true });
+    const kept = cacheFileOf(dir, `sha256:${"a".repeat(64)}`);
+    const unused = cacheFileOf(dir, `sha256:${"b".repeat(64)}`);
+    const young = `${kept}.1.aa.tmp`;
+    const old = `${kept}.2.bb.tmp`;
+    const foreign = path.join(dir, "notes.txt");
+    for (const f of [kept, unused, young, old, foreign]) fs.writeFileSync(f, "{}");
+    const now = Date.parse("2026-12-01T12:00:00Z");
+    fs.utimesSync(young, new Date(now - 59 * 60 * 1000), new Date(now - 59 * 60 * 1000));
+    fs.utimesSync(old, new Date(now - 61 * 60 * 1000), new Date(now - 61 * 60 * 1000));
+    expect(pruneResultCache(dir, new Set([`sha256:${"a".repeat(64)}`]), now)).toBe(2);
+    expect(fs.readdirSync(dir).sort()).toEqual([kept, young, foreign].map((f) => path.basename(f)).sort());
   });
 });
 
