@@ -111,7 +111,11 @@ export async function renderSite(out: string, data: SiteData): Promise<void> {
   }
 }
 
-/** Run every audit of an archive and render the static site. */
+/**
+ * Run every audit of an archive and render the static site. An audit whose
+ * fingerprint has a trusted entry in the result cache is not run again (see
+ * resultCache.ts); published versions are shown as frozen.
+ */
 export async function buildSite(options: BuildOptions): Promise<BuildOutcome> {
   const archive = loadArchiveDefinition(options.root);
   const folders = findAuditFolders(options.root);
