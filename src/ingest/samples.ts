@@ -1,13 +1,15 @@
 import fs from "node:fs";
-import { ConfigError, DataError, formatCellProblems } from "../errors.ts";
+import { ConfigError, DataError } from "../errors.ts";
 import type { SamplesDatasetConfig } from "../config/types.ts";
 import { joulesPerEnergyUnit, type EnergyUnit } from "../physics/energyUnits.ts";
 import { affinities, reservoirFromBeta, reservoirFromTemperature, type ReservoirState } from "../physics/affinities.ts";
 import { entropyProduction } from "../physics/entropyProduction.ts";
 import type { ColumnRequest } from "./readCsv.ts";
 import { readNumericTable } from "./fast/fastTable.ts";
-import { reduceSamplesFile, REDUCE_ABOVE_BYTES } from "./reduce/reduceSamples.ts";
-import { MAX_ROW_PROBLEMS, newProblemLog, SAMPLE_ROLES, sampleRowsOf, type SampleRole, type SampleRoles } from "./samplesRows.ts";
+import { reduceSamplesFile, REDUCE_ABOVE_BYTES, type ReducedFields, type ReduceInput } from "./reduce/reduceSamples.ts";
+import { isParquetFile, readParquetRaw, reduceSamplesParquet } from "./reduce/samplesParquet.ts";
+import { formatRowProblems } from "./samplesRows.ts";
+import { newProblemLog, SAMPLE_ROLES, sampleRowsOf, type SampleRole, type SampleRoles } from "./samplesRows.ts";
 import type { SamplesDataset } from "./types.ts";
 
 function reservoirState(r: SamplesDatasetConfig["reservoirs"]["A"], joules: number): ReservoirState {
@@ -58,29 +60,43 @@ export async function loadSamples(config: SamplesDatasetConfig, filePath: string
 
   // Columns in the order audit.yaml maps them (messages list problems in that order).
   const requests: ColumnRequest[] = Object.entries(roles).map(([role, column]) => ({ role, column: column! }));
-  if (fileSize(filePath) > (options.reduceAboveBytes ?? REDUCE_ABOVE_BYTES)) {
-    const reduced = await reduceSamplesFile({ filePath, label: config.file, requests, roles, joules, affinity, workZero: config.work === "zero" }, options);
-    if (reduced !== null) return { kind: "samples", id: config.id, file: config.file, ...base, ...reduced };
+  const input: ReduceInput = { filePath, label: config.file, requests, roles, joules, affinity, workZero: config.work === "zero" };
+  const large = fileSize(filePath) > (options.reduceAboveBytes ?? REDUCE_ABOVE_BYTES);
+  const head = { kind: "samples" as const, id: config.id, file: config.file, ...base };
+  if (isParquetFile(config.file)) {
+    return { ...head, ...(large ? await reduceSamplesParquet(input, options) : exactFields(input, await readParquetRaw(input), "row")) };
   }
-
+  if (large) {
+    const reduced = await reduceSamplesFile(input, options);
+    if (reduced !== null) return { ...head, ...reduced };
+  }
   const table = await readNumericTable(filePath, config.file, requests, { onBytes: options.onBytes });
   const raw: Partial<Record<SampleRole, Float64Array>> = {};
   for (const role of SAMPLE_ROLES) if (roles[role] !== undefined) raw[role] = table.columns.get(roles[role]!);
+  return { ...head, ...exactFields(input, { raw, rows: table.rows, lines: table.lineOfRow, sha256: table.sha256 }, "line") };
+}
+
+/** Raw columns of a whole file (declared units), with each row's line (CSV) or 1-based row number (Parquet). */
+interface RawSamples {
+  raw: Partial<Record<SampleRole, Float64Array>>;
+  rows: number;
+  lines: ArrayLike<number>;
+  sha256: string;
+}
+
+/** Every row kept as read: the dataset's arrays straight from the rows. */
+function exactFields(input: ReduceInput, table: RawSamples, located: "line" | "row"): ReducedFields {
   const problems = newProblemLog();
-  const rows = sampleRowsOf(raw, roles, joules, table.rows, table.lineOfRow, problems);
-  if (problems.count > 0) throw new DataError(formatCellProblems(config.file, problems.problems, MAX_ROW_PROBLEMS, problems.count));
+  const rows = sampleRowsOf(table.raw, input.roles, input.joules, table.rows, table.lines, problems);
+  if (problems.count > 0) throw new DataError(formatRowProblems(input.label, problems, located));
   const W_data = rows.W_data;
-  const W = config.work === "zero" ? new Float64Array(table.rows) : W_data!;
+  const W = input.workZero ? new Float64Array(table.rows) : W_data!;
   const dN = rows.dN ?? new Float64Array(table.rows);
   const realisations = rows.weight ? rows.weight.reduce((a, c) => a + c, 0) : table.rows;
-  if (rows.weight && realisations === 0) throw new DataError(`${config.file}: every count in column "${roles.count}" is zero; there are no realisations`);
+  if (rows.weight && realisations === 0) throw new DataError(`${input.label}: every count in column "${input.roles.count}" is zero; there are no realisations`);
   return {
-    kind: "samples",
-    id: config.id,
-    file: config.file,
     sha256: table.sha256,
     rows: table.rows,
-    ...base,
     W,
     W_data,
     Q: rows.Q,
@@ -89,7 +105,7 @@ export async function loadSamples(config: SamplesDatasetConfig, filePath: string
     dE_B: rows.dE_B,
     weight: rows.weight,
     realisations,
-    sigma: entropyProduction(affinity, W, rows.Q, dN),
+    sigma: entropyProduction(input.affinity, W, rows.Q, dN),
     reduction: null,
   };
 }

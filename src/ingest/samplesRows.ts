@@ -1,4 +1,4 @@
-import type { CellProblem } from "../errors.ts";
+import { formatCellProblems, type CellProblem } from "../errors.ts";
 
 /**
  * Row rules of a `samples` dataset, shared by the whole-table reader and the
@@ -31,6 +31,17 @@ export const MAX_ROW_PROBLEMS = 20;
 
 export function newProblemLog(): ProblemLog {
   return { problems: [], count: 0 };
+}
+
+/**
+ * Problems as one message: `file:line, column "c": …` for text files (lines as
+ * a person counts them), `file, row N, column "c": …` for Parquet (rows from 1).
+ */
+export function formatRowProblems(label: string, problems: ProblemLog, located: "line" | "row"): string {
+  if (located === "line") return formatCellProblems(label, problems.problems, MAX_ROW_PROBLEMS, problems.count);
+  const lines = problems.problems.slice(0, MAX_ROW_PROBLEMS).map((p) => `${label}, row ${p.row}, column "${p.column}": ${p.message}`);
+  if (problems.count > MAX_ROW_PROBLEMS) lines.push(`… and ${problems.count - MAX_ROW_PROBLEMS} more problem(s) in ${label}`);
+  return lines.join("\n");
 }
 
 function log(problems: ProblemLog, row: number, column: string, message: string): void {

@@ -1,4 +1,7 @@
 import fs from "node:fs";
+import os from "node:os";
+import path from "node:path";
+import { fileURLToPath } from "node:url";
 import { createHash } from "node:crypto";
 import { Worker } from "node:worker_threads";
 import type { ScanLayout } from "../fast/scanLines.ts";
@@ -20,8 +23,49 @@ export interface RangeJob {
  */
 export const PARTS = 2;
 
-/** Start a worker that runs worker.ts through tsx's loader (plain Node cannot load .ts files). */
-function startWorker(job: RangeJob): Worker {
+let bundled: Promise<string | null> | null = null;
+
+/**
+ * worker.ts and what it imports, bundled into one plain JavaScript file by
+ * esbuild (the transpiler tsx itself uses), written once per content under the
+ * system's temporary folder. A worker started on it is ready in tens of
+ * milliseconds; one that registers tsx and transpiles on start takes over a
+ * second on this machine class, which would cost more than the parallel
+ * reading saves. Null when bundling is not possible (then tsx is used).
+ */
+function workerBundle(): Promise<string | null> {
+  bundled ??= (async () => {
+    try {
+      const esbuild = await import("esbuild");
+      const out = await esbuild.build({
+        entryPoints: [fileURLToPath(new URL("./worker.ts", import.meta.url))],
+        bundle: true,
+        platform: "node",
+        format: "esm",
+        target: "node20",
+        write: false,
+        logLevel: "silent",
+      });
+      const code = out.outputFiles[0].contents;
+      const digest = createHash("sha256").update(code).digest("hex").slice(0, 16);
+      const file = path.join(os.tmpdir(), `transport-audit-reduce-worker-${digest}.mjs`);
+      if (!fs.existsSync(file)) {
+        const temp = `${file}.${process.pid}.tmp`;
+        fs.writeFileSync(temp, code);
+        fs.renameSync(temp, file);
+      }
+      return file;
+    } catch {
+      return null;
+    }
+  })();
+  return bundled;
+}
+
+/** Start a worker on the bundle, or through tsx's loader when there is none (plain Node cannot load .ts files). */
+async function startWorker(job: RangeJob): Promise<Worker> {
+  const bundle = await workerBundle();
+  if (bundle) return new Worker(bundle, { workerData: job });
   const loader = import.meta.resolve("tsx/esm/api");
   const script = new URL("./worker.ts", import.meta.url).href;
   const bootstrap = `import { register } from ${JSON.stringify(loader)}; register(); await import(${JSON.stringify(script)});`;
@@ -86,14 +130,15 @@ export async function reduceInParts(
     const sha256 = await digestOfFile(file);
     return { parts: jobs.map((j) => reduceFileRange(j.file, j.start, j.end, j.layout, j.spec, options.onBytes)), sha256 };
   }
+  void workerBundle(); // start bundling while the file is cut
   const digest = digestOfFile(file);
   const parts = await Promise.all(jobs.map((job) => runJob(job, options.onBytes)));
   return { parts, sha256: await digest };
 }
 
-function runJob(job: RangeJob, onBytes?: (bytes: number) => void): Promise<SamplesPartSummary> {
+async function runJob(job: RangeJob, onBytes?: (bytes: number) => void): Promise<SamplesPartSummary> {
+  const worker = await startWorker(job);
   return new Promise((resolve, reject) => {
-    const worker = startWorker(job);
     let settled = false;
     worker.on("message", (msg: { type: string; bytes?: number; summary?: SamplesPartSummary; message?: string }) => {
       if (msg.type === "bytes") onBytes?.(msg.bytes!);

@@ -4,7 +4,7 @@ import type { Affinities } from "../../physics/affinities.ts";
 import { entropyProduction } from "../../physics/entropyProduction.ts";
 import type { ColumnRequest } from "../readCsv.ts";
 import { openPlain } from "../fast/fastTable.ts";
-import type { RowChunk } from "../fast/scanLines.ts";
+import type { RowChunk, ScanLayout } from "../fast/scanLines.ts";
 import { scanFileRange } from "../fast/scanRange.ts";
 import { MAX_ROW_PROBLEMS, newProblemLog, sampleRowsOf, type SampleRole, type SampleRoles } from "../samplesRows.ts";
 import type { SamplesDataset, SamplesReduction } from "../types.ts";
@@ -63,7 +63,7 @@ export interface ReduceInput {
   workZero: boolean;
 }
 
-type ReducedFields = Pick<
+export type ReducedFields = Pick<
   SamplesDataset,
   "sha256" | "rows" | "W" | "W_data" | "Q" | "dN" | "dE_A" | "dE_B" | "weight" | "realisations" | "sigma" | "reduction"
 >;
@@ -81,13 +81,13 @@ export async function reduceSamplesFile(
   const opened = openPlain(input.filePath, input.label, input.requests);
   if (opened === null) return null;
   const { header, size } = opened;
-  let spec: SamplesReductionSpec | null;
+  let spec: SamplesReductionSpec;
   try {
-    spec = reductionSpec(input, opened.fd, header.dataStart, size, header.layout.slotNames, options.cellCapacity ?? DEFAULT_CELL_CAPACITY, header.layout);
+    const probe = csvProbe(opened.fd, header.dataStart, size, header.layout);
+    spec = reductionSpec(input, probe, header.layout.slotNames, options.cellCapacity ?? DEFAULT_CELL_CAPACITY);
   } finally {
     fs.closeSync(opened.fd);
   }
-  if (spec === null) return null;
   let done = header.dataStart;
   const { parts, sha256 } = await reduceInParts(input.filePath, header.dataStart, size, header.layout, spec, {
     threads: options.threads,
@@ -102,7 +102,7 @@ export async function reduceSamplesFile(
   throwPartProblems(input.label, parts, header.headerLines, (p) => p.state.problems, (p) => p.state.problemCount);
   throwPartProblems(input.label, parts, header.headerLines, (p) => p.rowProblems.problems, (p) => p.rowProblems.count);
   const merged = mergeCellTables(spec.grid, parts.map((p) => p.table));
-  return fieldsFromCells(input, spec, merged, rows, sha256);
+  return fieldsFromCells(input, spec, merged, rows, sha256, PARTS);
 }
 
 /** Problems of all parts, in file order with absolute lines, thrown as one message (or nothing). */
@@ -124,16 +124,20 @@ function throwPartProblems(
   throw new DataError(formatCellProblems(label, located.slice(0, MAX_ROW_PROBLEMS), MAX_ROW_PROBLEMS, total));
 }
 
-/** Key and stored columns, and the grid: chosen from the rows at the start of the file. */
-function reductionSpec(
-  input: ReduceInput,
-  fd: number,
-  dataStart: number,
-  size: number,
-  slotNames: string[],
-  capacity: number,
-  layout: Parameters<typeof scanFileRange>[3],
-): SamplesReductionSpec | null {
+/** The first whole rows of a plain CSV file (up to PROBE_BYTES), as the scanner gives them; null if none. */
+function csvProbe(fd: number, dataStart: number, size: number, layout: ScanLayout): RowChunk | null {
+  let probe: RowChunk | null = null;
+  scanFileRange(fd, dataStart, probeEnd(fd, dataStart, size), layout, (chunk) => {
+    if (probe === null) probe = { rows: chunk.rows, values: chunk.values.map((v) => Float64Array.from(v)), lines: Uint32Array.from(chunk.lines) };
+  });
+  return probe;
+}
+
+/**
+ * Key and stored columns, and the grid, chosen from the rows at the start of
+ * the file (`probe`: the scanner's columns in slot order).
+ */
+export function reductionSpec(input: ReduceInput, probe: RowChunk | null, slotNames: string[], capacity: number): SamplesReductionSpec {
   const { roles } = input;
   const slotOfRole: Partial<Record<SampleRole, number>> = {};
   for (const [role, column] of Object.entries(roles)) {
@@ -156,13 +160,8 @@ function reductionSpec(
   if (roles.dN !== undefined) storedColumns.push("dN");
   if (hasE) storedColumns.push("dE_A", "dE_B");
 
-  // The probe: rows of the first block, in J.
-  let probe: RowChunk | null = null;
-  const state = scanFileRange(fd, dataStart, probeEnd(fd, dataStart, size), layout, (chunk) => {
-    if (probe === null) probe = { rows: chunk.rows, values: chunk.values.map((v) => Float64Array.from(v)), lines: Uint32Array.from(chunk.lines) };
-  });
-  const first = probe as RowChunk | null;
-  if (state.structural !== null && first === null) return null;
+  // The probe's rows in J.
+  const first = probe;
   const raw: Partial<Record<SampleRole, Float64Array>> = {};
   for (const [role, slot] of Object.entries(slotOfRole)) if (first) raw[role as SampleRole] = first.values[slot!];
   const sample = first ? sampleRowsOf(raw, roles, input.joules, first.rows, first.lines, newProblemLog()) : null;
@@ -261,7 +260,14 @@ function probeEnd(fd: number, dataStart: number, size: number): number {
 }
 
 /** The dataset's arrays over the merged cells: column means, multiplicities, Σ of each cell's mean. */
-function fieldsFromCells(input: ReduceInput, spec: SamplesReductionSpec, cells: ReturnType<typeof mergeCellTables>, rows: number, sha256: string): ReducedFields {
+export function fieldsFromCells(
+  input: ReduceInput,
+  spec: SamplesReductionSpec,
+  cells: ReturnType<typeof mergeCellTables>,
+  rows: number,
+  sha256: string,
+  parts: number,
+): ReducedFields {
   const n = cells.cells;
   const S = spec.storedColumns.length;
   const mean = (c: SampleColumn): Float64Array | null => {
@@ -311,7 +317,7 @@ function fieldsFromCells(input: ReduceInput, spec: SamplesReductionSpec, cells: 
     level: cells.level,
     maxSigmaSpread: maxSpread,
     pooledFraction: pooled / realisations,
-    parts: PARTS,
+    parts,
   };
   return {
     sha256,

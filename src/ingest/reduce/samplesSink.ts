@@ -34,17 +34,19 @@ export interface SamplesPartSummary {
 export class SamplesReducer {
   readonly table: CellTable;
   readonly rowProblems = newProblemLog();
-  private readonly x: Float64Array;
-  private readonly v: Float64Array;
+  readonly xBuffer: Float64Array;
+  readonly vBuffer: Float64Array;
 
   constructor(readonly spec: SamplesReductionSpec) {
     this.table = new CellTable({ ...spec.grid, delay: Float64Array.from(spec.grid.delay), maxColumnLevel: Float64Array.from(spec.grid.maxColumnLevel), step0: Float64Array.from(spec.grid.step0) });
-    this.x = new Float64Array(spec.keyColumns.length);
-    this.v = new Float64Array(spec.storedColumns.length);
+    this.xBuffer = new Float64Array(spec.keyColumns.length);
+    this.vBuffer = new Float64Array(spec.storedColumns.length);
   }
 
   accept(chunk: RowChunk): void {
     const { spec } = this;
+    const r = spec.roles;
+    if (r.dE_A === undefined && r.count === undefined && r.Q !== undefined) return this.acceptPlain(chunk);
     const raw: Partial<Record<SampleRole, Float64Array>> = {};
     for (const [role, slot] of Object.entries(spec.slotOfRole)) raw[role as SampleRole] = chunk.values[slot!];
     const rows = sampleRowsOf(raw, spec.roles, spec.joules, chunk.rows, chunk.lines, this.rowProblems);
@@ -59,8 +61,8 @@ export class SamplesReducer {
     const key = spec.keyColumns.map((c) => (c === "sigma" ? sigma : columns[c]!));
     const stored = spec.storedColumns.map((c) => columns[c]!);
     const weight = rows.weight;
-    const x = this.x;
-    const v = this.v;
+    const x = this.xBuffer;
+    const v = this.vBuffer;
     for (let i = 0; i < chunk.rows; i++) {
       const w = weight ? weight[i] : 1;
       if (w === 0) continue;
@@ -68,6 +70,40 @@ export class SamplesReducer {
       for (let s = 0; s < stored.length; s++) v[s] = stored[s][i];
       this.table.add(x, v, w, sigma[i]);
     }
+  }
+
+  /**
+   * The common layout (Q, optionally W and ΔN, one realisation a row): no
+   * redundant columns to cross-check and no counts to validate, so rows go
+   * straight from the scanner's columns into the table without intermediate
+   * arrays. Same arithmetic as the general path (sampleRowsOf), same result.
+   */
+  private acceptPlain(chunk: RowChunk): void {
+  const { spec } = this;
+  const j = spec.joules;
+  const qs = chunk.values[spec.slotOfRole.Q!];
+  const ws = spec.slotOfRole.W !== undefined ? chunk.values[spec.slotOfRole.W] : null;
+  const ns = spec.slotOfRole.dN !== undefined ? chunk.values[spec.slotOfRole.dN] : null;
+  const { cW, cQ, cN } = spec.sigma;
+  const keys = spec.keyColumns;
+  const stored = spec.storedColumns;
+  const x = this.xBuffer;
+  const v = this.vBuffer;
+  for (let i = 0; i < chunk.rows; i++) {
+    const Q = qs[i] * j;
+    const W = ws ? ws[i] * j : 0;
+    const dN = ns ? ns[i] : 0;
+    const sigma = cW * W + cQ * Q + cN * dN;
+    for (let d = 0; d < keys.length; d++) {
+      const c = keys[d];
+      x[d] = c === "sigma" ? sigma : c === "Q" ? Q : c === "W" ? W : dN;
+    }
+    for (let s = 0; s < stored.length; s++) {
+      const c = stored[s];
+      v[s] = c === "Q" ? Q : c === "W" ? W : dN;
+    }
+    this.table.add(x, v, 1, sigma);
+  }
   }
 }
 
