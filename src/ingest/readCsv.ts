@@ -1,6 +1,6 @@
 import fs from "node:fs";
 import { createHash } from "node:crypto";
-import { parse } from "csv-parse";
+import { CsvError, parse } from "csv-parse";
 import { DataError, formatCellProblems, type CellProblem } from "../errors.ts";
 import { nearest } from "../config/nearest.ts";
 
@@ -174,6 +174,8 @@ function describeCsvError(label: string, e: { code: string; lines?: number; mess
       return `${at}: the file ends inside a quoted cell; a quote (") opened on or before this line is never closed`;
     case "CSV_MAX_RECORD_SIZE":
       return `${at}: a line is longer than ${MAX_LINE_CHARS.toLocaleString("en-US")} characters; a row of a numeric table is far shorter, so this is not a table transport-audit can read (are the line ends missing?)`;
+    case "INVALID_OPENING_QUOTE":
+      return `${at}: a quote (") stands inside a cell that does not start with one; quote whole cells only, or remove the quote`;
     case "CSV_INVALID_CLOSING_QUOTE":
     case "CSV_NON_TRIMABLE_CHAR_AFTER_CLOSING_QUOTE":
       return `${at}: a quoted cell is followed by other characters before the next comma; quote whole cells only`;
@@ -298,7 +300,8 @@ export async function readNumericCsv(filePath: string, label: string, requests: 
   } catch (err) {
     if (err instanceof DataError) throw err;
     const e = err as { code?: string; lines?: number; message?: string; record?: unknown[] };
-    if (e.code && e.code.startsWith("CSV_")) throw new DataError(describeCsvError(label, e as { code: string }, headers?.length ?? null));
+    if (err instanceof CsvError) throw new DataError(describeCsvError(label, e as { code: string }, headers?.length ?? null));
+    // A read error of the file system (it vanished, or a disk error) while streaming.
     if (e.code) throw new DataError(`${label}: cannot read the file (${e.code})`);
     throw err;
   } finally {

@@ -155,6 +155,10 @@ describe("cells", () => {
     expect(await dataError('q,n\n1,2\n"3,4\n')).toBe('data/run.csv:3: malformed CSV: the file ends inside a quoted cell; a quote (") opened on or before this line is never closed');
   });
 
+  it("names a quote inside a cell that does not start with one", async () => {
+    expect(await dataError('q,n\n1,2\n3,4"5\n')).toBe('data/run.csv:3: malformed CSV: a quote (") stands inside a cell that does not start with one; quote whole cells only, or remove the quote');
+  });
+
   it("refuses a negative and a fractional count, every bad row at once", async () => {
     expect(await dataError("q,n,c\n0.1,1,3\n0.2,0,-2\n0.3,1,2.5\n", HISTOGRAM_YAML)).toBe(
       ['data/run.csv:3, column "c": expected a count (a whole number ≥ 0), found -2', 'data/run.csv:4, column "c": expected a count (a whole number ≥ 0), found 2.5'].join("\n"),

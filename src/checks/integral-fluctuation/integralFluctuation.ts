@@ -11,8 +11,13 @@ import type { Rng } from "../../stats/rng.ts";
 
 export const MIN_REALISATIONS = 30;
 
-/** Exponents above this are shifted before exp() so that no term overflows. */
-const MAX_EXPONENT = 600;
+/**
+ * Exponents above this are shifted before exp() so that no term overflows —
+ * nor its cube, which the bootstrap's jackknife acceleration forms
+ * (Efron & Tibshirani 1993, eq. 14.15): (e^100)^3 = e^300 stays below the
+ * largest double, e^709.78.
+ */
+const MAX_EXPONENT = 100;
 
 /**
  * The order in which realisations enter the running estimate: file order for
@@ -144,7 +149,8 @@ export function integralFluctuationForDataset(d: SamplesDataset, ctx: CheckConte
   const pValue = bcaPValue(boot, 1 / scale);
   const conv = exponentialConvergence(sigma, d.weight);
   const n = d.realisations;
-  if (!Number.isFinite(scale)) return overflowingAverage(d, ctx, boot.estimate, boot.replicates, shift, conv);
+  // Beyond double precision once scaled back: keep the logarithm (the bootstrap itself ran on scaled values).
+  if (!Number.isFinite(mean) || !Number.isFinite(ci[0]) || !Number.isFinite(ci[1])) return overflowingAverage(d, ctx, boot.estimate, boot.replicates, shift, conv);
 
   let status: Status;
   let summary: string;

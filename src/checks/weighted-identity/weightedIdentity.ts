@@ -65,7 +65,8 @@ export function weightedIdentityForDataset(d: SamplesDataset, ctx: CheckContext)
     ax[i] = -(d.sigma[i] + bW[i]); // −a·x = −(Σ − β̄W)
     shift = Math.max(shift, bW[i], ax[i]);
   }
-  shift = shift > 600 ? shift - 600 : 0;
+  // Weights are kept below e^100 so that the bootstrap's third moments (jackknife acceleration) cannot overflow.
+  shift = shift > 100 ? shift - 100 : 0;
   const g = new Float64Array(n);
   for (let i = 0; i < n; i++) g[i] = Math.exp(bW[i] - shift) + Math.exp(ax[i] - shift);
   // Convergence of the exponential weights: judged on the a·x part, which carries the rare events.
@@ -97,7 +98,10 @@ export function weightedIdentityForDataset(d: SamplesDataset, ctx: CheckContext)
     const boot = bootstrapRatio(u, v, d.weight, ctx.rngFor(d.sha256, `weighted-identity-${c.key}`), { resamples: ctx.settings.resamples });
     return { current: c, ratio: boot.estimate, ci: bcaInterval(boot, confidence), p: bcaPValue(boot, 0), sameAs: null as null | { key: Current["key"]; factor: number } };
   });
-  const testedFamily = holm(tested.map((r) => r.p), alpha);
+  // A p-value the bootstrap could not form (resamples with no weighted realisation give 0/0) rejects nothing;
+  // the verdict below is then inconclusive.
+  const unresolvedP = tested.some((r) => Number.isNaN(r.p));
+  const testedFamily = holm(tested.map((r) => (Number.isNaN(r.p) ? 1 : r.p)), alpha);
   const mirrored = dep.dependent.filter((k) => !orphans.includes(k.index)).map((k) => {
     // Only one current can be dependent on the other here: zero currents were left out above.
     const j = k.coefficients.findIndex((c) => c !== 0);
@@ -119,7 +123,8 @@ export function weightedIdentityForDataset(d: SamplesDataset, ctx: CheckContext)
     .join("");
   const rejected = results.filter((_, k) => family.rejected[k]);
   const within = results.every((r) => r.ci[0] >= -margin && r.ci[1] <= margin);
-  const describe = results.map((r) => `r_${r.current.key} = ${fmt(r.ratio)} ${fmtInterval(r.ci[0], r.ci[1])}`).join(", ");
+  const intervalText = (ci: [number, number]) => (Number.isFinite(ci[0]) && Number.isFinite(ci[1]) ? fmtInterval(ci[0], ci[1]) : "(no interval: the bootstrap left it undefined)");
+  const describe = results.map((r) => `r_${r.current.key} = ${fmt(r.ratio)} ${intervalText(r.ci)}`).join(", ");
 
   let status: Status;
   let summary: string;
@@ -132,6 +137,10 @@ export function weightedIdentityForDataset(d: SamplesDataset, ctx: CheckContext)
     status = "inconclusive";
     summary = `${describe}, but the exponential weights are not resolved by the sample.${sameText}`;
     reason = `${conv.reason?.replaceAll("Σ", "a·x")}. More realisations or smaller affinities would settle it.`;
+  } else if (unresolvedP) {
+    status = "inconclusive";
+    summary = `${describe}, but the weights are carried by so few realisations that bootstrap resamples without them leave the ratio undefined.${sameText}`;
+    reason = "The exponential weights concentrate on a handful of realisations. More realisations or smaller affinities would settle it.";
   } else if (rejected.length) {
     status = "fail";
     summary = `The weighted identity fails for ${rejected.map((r) => r.current.label).join(" and ")}: ${describe} (Holm-adjusted p ≤ ${alpha}); the declared affinities do not match the data in that channel.${sameText}`;
