@@ -41,7 +41,7 @@ export function plainHeader(fd: number, fileSize: number, label: string, request
     if (/["\r]/.test(text) || /^\s*#/.test(text) || text.trim() === "") return null;
     const names = text.split(",").map((h) => h.trim());
     if (describeHeaderProblem(label, line, names) !== null) return null;
-    const layout = layoutFor(names, requests);
+    const layout = layoutFor(names, requests, end < nl);
     if (layout === null) return null;
     return { names, dataStart: nl + 1, headerLines: line, layout };
   }
@@ -49,7 +49,7 @@ export function plainHeader(fd: number, fileSize: number, label: string, request
 }
 
 /** Slots in request order (each column once); null when a required column is missing or asked twice. */
-function layoutFor(names: string[], requests: ColumnRequest[]): ScanLayout | null {
+function layoutFor(names: string[], requests: ColumnRequest[], crlf: boolean): ScanLayout | null {
   const slotOfField = new Int32Array(names.length).fill(-1);
   const slotNames: string[] = [];
   for (const request of requests) {
@@ -62,5 +62,5 @@ function layoutFor(names: string[], requests: ColumnRequest[]): ScanLayout | nul
     slotOfField[field] = slotNames.length;
     slotNames.push(request.column);
   }
-  return { fieldCount: names.length, slotOfField, slotNames };
+  return { fieldCount: names.length, slotOfField, slotNames, crlf };
 }

@@ -24,6 +24,8 @@ export interface ScanLayout {
   slotOfField: Int32Array;
   /** Column name of each slot, for messages. */
   slotNames: string[];
+  /** Lines end with CR LF (as the header's does); a line ending otherwise goes to the reference reader. */
+  crlf: boolean;
 }
 
 /** Rows handed to a sink: one Float64Array a slot, `rows` long, and the row's line within the range. */
@@ -123,19 +125,24 @@ export function scanLines(
   let pos = from;
   while (pos < to) {
     let c = bytes[pos];
+    // Mixed line ends are counted differently by csv-parse; the reference reader takes such files.
     if (c === NL) {
+      if (layout.crlf) return structural(state, "mixed line ends");
       state.line++;
       pos++;
       continue; // empty line
     }
     if (c === CR && bytes[pos + 1] === NL) {
+      if (!layout.crlf) return structural(state, "mixed line ends");
       state.line++;
       pos += 2;
       continue;
     }
     if (c === HASH) {
       state.line++;
-      pos = bytes.indexOf(NL, pos) + 1;
+      const nl = bytes.indexOf(NL, pos);
+      if ((bytes[nl - 1] === CR) !== layout.crlf) return structural(state, "mixed line ends");
+      pos = nl + 1;
       continue; // comment line
     }
     state.line++;
@@ -232,7 +239,9 @@ export function scanLines(
       if (c === CR && bytes[p + 1] !== NL) return structural(state, "a carriage return inside a line");
       break;
     }
-    const lineEnd = bytes[p] === CR ? p + 2 : p + 1;
+    const crlf = bytes[p] === CR;
+    if (crlf !== layout.crlf) return structural(state, "mixed line ends");
+    const lineEnd = crlf ? p + 2 : p + 1;
     if (field !== fieldCount) return structural(state, `a record with ${field} field(s) where the header has ${fieldCount}`);
     if (bytes[lineStart] === SPACE || bytes[lineStart] === TAB) {
       // A blank-only line, or an indented "#": csv-parse's reading of those is its own; let it decide.

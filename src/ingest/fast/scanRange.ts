@@ -30,12 +30,12 @@ export function scanFileRange(
     if (chunk.rows > 0) sink(chunk.view());
     chunk.rows = 0;
   };
-  let buffer = Buffer.allocUnsafe(BLOCK_BYTES + 1);
+  let buffer = Buffer.allocUnsafe(BLOCK_BYTES + 2);
   let carry = 0; // bytes of an incomplete line kept at the buffer's start
   let offset = start;
   while (offset < end && state.structural === null) {
-    if (carry + BLOCK_BYTES + 1 > buffer.length) {
-      const grown = Buffer.allocUnsafe(carry + BLOCK_BYTES + 1);
+    if (carry + BLOCK_BYTES + 2 > buffer.length) {
+      const grown = Buffer.allocUnsafe(carry + BLOCK_BYTES + 2);
       buffer.copy(grown, 0, 0, carry);
       buffer = grown;
     }
@@ -47,7 +47,11 @@ export function scanFileRange(
     const final = offset >= end;
     let cut: number;
     if (final) {
-      if (buffer[filled - 1] !== NL) buffer[filled++] = NL; // the spare byte allocated above
+      if (buffer[filled - 1] !== NL) {
+        // Close the last line the way the others end (the spare bytes allocated above).
+        if (layout.crlf && buffer[filled - 1] !== 13) buffer[filled++] = 13;
+        buffer[filled++] = NL;
+      }
       cut = filled;
     } else cut = buffer.lastIndexOf(NL, filled - 1) + 1;
     if (cut > 0) scanLines(buffer, 0, cut, layout, state, chunk, flush);
