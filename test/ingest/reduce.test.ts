@@ -1,0 +1,296 @@
+// Large samples files are summarised into cells while they are read (src/ingest/reduce). These tests hold
+// the summary to what it claims: the grid's arithmetic (exact integer identities), the quantities kept
+// exactly (counts, column totals, sums of e^−Σ: checked against the raw rows), independence from how the
+// file is cut and from threads, the reference reader's messages, and — the point of it all — the same
+// verdicts as the exact computation on the raw rows, on medium data drawn from laws with known answers.
+import fs from "node:fs";
+import path from "node:path";
+import { describe, expect, it } from "vitest";
+import { coarserIndex } from "../../src/ingest/reduce/cellTable.ts";
+import { loadAuditDefinition } from "../../src/config/loadAudit.ts";
+import { loadSamples, type SamplesReadOptions } from "../../src/ingest/samples.ts";
+import type { SamplesDataset } from "../../src/ingest/types.ts";
+import type { SamplesDatasetConfig } from "../../src/config/types.ts";
+import { runChecks } from "../../src/report/runAudit.ts";
+import { sampleTilted, type TiltedFamily } from "../../src/synth/tiltedFamily.ts";
+import { betaPerMeV } from "../../src/synth/units.ts";
+import { rngFromText } from "../../src/stats/rng.ts";
+import { expectClose } from "../helpers/expectClose.ts";
+import { tempAudit } from "../helpers/tempAudit.ts";
+import { writeSamplesParquet } from "../helpers/writeSamplesParquet.ts";
+
+const REDUCE: SamplesReadOptions = { reduceAboveBytes: 0 };
+const EXACT: SamplesReadOptions = { reduceAboveBytes: Infinity };
+
+/** Exactly tilted family at reservoirs (TA, TB, μ_A) in K and meV (src/synth/tiltedFamily.ts). */
+function family(TA: number, TB: number, muA: number, withWork: boolean): TiltedFamily {
+  const bA = betaPerMeV(TA);
+  const bB = betaPerMeV(TB);
+  return { theta: { W: (bA + bB) / 2, Q: bB - bA, N: bA * muA }, spreadW: withWork ? 0.1 : 0, spreadQ: 0.3, correlation: 0.2, intensity: 1.5 };
+}
+
+interface Scenario {
+  name: string;
+  rows: number;
+  columns: string; // YAML mapping
+  header: string;
+  line: (W: number, Q: number, dN: number) => string;
+  work: "measured" | "zero";
+  drawn: TiltedFamily;
+  declared: { TA: number; TB: number; muA: number };
+}
+
+function auditFor(s: Scenario, seed: string): string {
+  const { W, Q, dN } = sampleTilted(s.drawn, s.rows, rngFromText(seed));
+  const lines = [s.header];
+  for (let i = 0; i < s.rows; i++) lines.push(s.line(W[i], Q[i], dN[i]));
+  return tempAudit(
+    `id: reduce-${s.name}
+title: Reduction test ${s.name}
+authors: [{ name: "Test Author" }]
+datasets:
+  - id: runs
+    kind: samples
+    file: data/runs.csv
+    columns: ${s.columns}
+    energy_unit: meV
+    reservoirs:
+      A: { T: ${s.declared.TA}, mu: ${s.declared.muA} }
+      B: { T: ${s.declared.TB}, mu: 0 }
+    tau: 1.0e-9
+    work: ${s.work}
+checks: all
+`,
+    { "data/runs.csv": `${lines.join("\n")}\n` },
+  );
+}
+
+async function loadBoth(dir: string, file = "data/runs.csv"): Promise<{ exact: SamplesDataset; reduced: SamplesDataset; definition: ReturnType<typeof loadAuditDefinition> }> {
+  const definition = loadAuditDefinition(dir);
+  const config = definition.datasets[0] as SamplesDatasetConfig;
+  const exact = await loadSamples(config, path.join(dir, file), "datasets[0]", EXACT);
+  const reduced = await loadSamples(config, path.join(dir, file), "datasets[0]", REDUCE);
+  return { exact, reduced, definition };
+}
+
+function statuses(dir: string, definition: ReturnType<typeof loadAuditDefinition>, d: SamplesDataset): Record<string, string> {
+  const out: Record<string, string> = {};
+  for (const r of runChecks({ dir, definition, datasets: [d] })) out[`${r.check}/${r.dataset}`] = r.status;
+  return out;
+}
+
+const fixed6 = (x: number) => x.toFixed(6);
+
+describe("cell grid arithmetic", () => {
+  it("nests levels exactly and keeps mirrored cells mirrored (integer identities)", () => {
+    // ⌊(⌊(k + a)/p⌋ + b)/q⌋ = ⌊(k + a + p b)/(p q)⌋ for integers (Graham, Knuth & Patashnik, Concrete
+    // Mathematics, §3.2, from memory): going up two levels at once equals going up one at a time; and the
+    // centred cells of width 3^L are symmetric, so cell −k is the mirror of cell k at every level.
+    for (let k = -500; k <= 500; k++) {
+      for (let a = 0; a <= 4; a++) {
+        for (let b = a; b <= 5; b++) {
+          expect(coarserIndex(coarserIndex(k, 0, a), a, b)).toBe(coarserIndex(k, 0, b));
+          expect(coarserIndex(-k, 0, b) + 0).toBe(-coarserIndex(k, 0, b) + 0);
+        }
+      }
+    }
+  });
+});
+
+describe("cell summary of a samples file", () => {
+  const scenario: Scenario = {
+    name: "exact-sums",
+    rows: 60_000,
+    columns: "{ W: W, Q: Q, dN: dN }",
+    header: "W,Q,dN",
+    line: (W, Q, dN) => `${fixed6(W)},${fixed6(Q)},${dN}`,
+    work: "measured",
+    drawn: family(1.3, 1.0, 0.05, true),
+    declared: { TA: 1.3, TB: 1.0, muA: 0.05 },
+  };
+  const dir = auditFor(scenario, "reduce:sums");
+
+  it("keeps the number of realisations, every column total and the sum of e^−Σ of the raw rows", async () => {
+    const { exact, reduced } = await loadBoth(dir);
+    expect(reduced.reduction).not.toBeNull();
+    expect(reduced.rows).toBe(exact.rows);
+    expect(reduced.realisations).toBe(exact.rows);
+    expect(reduced.sha256).toBe(exact.sha256);
+    const total = (d: SamplesDataset, f: (i: number) => number) => {
+      let s = 0;
+      for (let i = 0; i < d.sigma.length; i++) s += (d.weight ? d.weight[i] : 1) * f(i);
+      return s;
+    };
+    const why = "kept exactly by construction; rtol 1e-10 allows for the different order of additions";
+    expectClose(total(reduced, (i) => reduced.Q[i]), total(exact, (i) => exact.Q[i]), { rtol: 1e-10, source: why });
+    expectClose(total(reduced, (i) => reduced.W[i]), total(exact, (i) => exact.W[i]), { rtol: 1e-10, source: why });
+    expectClose(total(reduced, (i) => reduced.dN[i]), total(exact, (i) => exact.dN[i]), { atol: 1e-6, source: why });
+    expectClose(total(reduced, (i) => Math.exp(-reduced.sigma[i])), total(exact, (i) => Math.exp(-exact.sigma[i])), { rtol: 1e-10, source: why });
+    // Each cell's Σ lies within the Σ range of its realisations, which the reduction reports.
+    expect(reduced.reduction!.maxSigmaSpread).toBeLessThanOrEqual(reduced.reduction!.steps.sigma * (1 + 1e-9));
+  });
+
+  it("gives the same cells whether the parts are reduced on worker threads or in this thread", async () => {
+    const definition = loadAuditDefinition(dir);
+    const config = definition.datasets[0] as SamplesDatasetConfig;
+    const file = path.join(dir, "data/runs.csv");
+    const a = await loadSamples(config, file, "datasets[0]", { ...REDUCE, threads: true });
+    const b = await loadSamples(config, file, "datasets[0]", { ...REDUCE, threads: false });
+    expect(Array.from(a.sigma)).toEqual(Array.from(b.sigma));
+    expect(Array.from(a.weight!)).toEqual(Array.from(b.weight!));
+    expect(Array.from(a.Q)).toEqual(Array.from(b.Q));
+  });
+
+  it("widens cells until they fit the capacity, and still keeps the totals", async () => {
+    const definition = loadAuditDefinition(dir);
+    const config = definition.datasets[0] as SamplesDatasetConfig;
+    const file = path.join(dir, "data/runs.csv");
+    const small = await loadSamples(config, file, "datasets[0]", { ...REDUCE, cellCapacity: 2000, threads: false });
+    expect(small.sigma.length).toBeLessThanOrEqual(2000);
+    expect(small.realisations).toBe(60_000);
+    const { exact } = await loadBoth(dir);
+    let e = 0;
+    let r = 0;
+    for (let i = 0; i < exact.sigma.length; i++) e += Math.exp(-exact.sigma[i]);
+    for (let i = 0; i < small.sigma.length; i++) r += small.weight![i] * Math.exp(-small.sigma[i]);
+    expectClose(r, e, { rtol: 1e-10, source: "sum of e^−Σ is kept exactly at every level" });
+  });
+
+  it("reports bad cells and disagreeing rows with the reference reader's words and absolute lines", async () => {
+    const lines = ["dE_A,dE_B,Q"];
+    // dE_A = −k/1000, dE_B = 0.2, Q = (0.2 + k/1000)/2: decimals printed exactly, so Q agrees with (dE_B − dE_A)/2.
+    for (let i = 0; i < 50_000; i++) lines.push(`${(-(i % 100) / 1000).toFixed(3)},0.2,${((0.2 + (i % 100) / 1000) / 2).toFixed(4)}`);
+    lines[30_001] = "-0.1,0.2,seven";
+    lines[45_000] = "-0.1,0.2,0.5";
+    const bad = tempAudit(
+      `id: reduce-errors
+title: Reduction errors
+authors: [{ name: "Test Author" }]
+datasets:
+  - id: runs
+    kind: samples
+    file: data/runs.csv
+    columns: { dE_A: dE_A, dE_B: dE_B, Q: Q }
+    energy_unit: meV
+    reservoirs: { A: { T: 1.3, mu: 0 }, B: { T: 1.0, mu: 0 } }
+    work: measured
+`,
+      { "data/runs.csv": `${lines.join("\n")}\n` },
+    );
+    const config = loadAuditDefinition(bad).datasets[0] as SamplesDatasetConfig;
+    const file = path.join(bad, "data/runs.csv");
+    const messageOf = async (options: SamplesReadOptions) => loadSamples(config, file, "datasets[0]", options).then(() => "no error", (e: Error) => e.message);
+    const expected = 'data/runs.csv:30002, column "Q": expected a number, found "seven"';
+    expect(await messageOf(EXACT)).toBe(expected);
+    expect(await messageOf(REDUCE)).toBe(expected);
+    lines[30_001] = "-0.1,0.2,0.1500";
+    fs.writeFileSync(file, `${lines.join("\n")}\n`);
+    const disagreement = 'data/runs.csv:45001, column "Q": disagrees with (dE_B − dE_A)/2 from the dE_A and dE_B columns of the same row; map either the column or the energy changes, or correct the row';
+    expect(await messageOf(EXACT)).toBe(disagreement);
+    expect(await messageOf(REDUCE)).toBe(disagreement);
+  });
+});
+
+describe("verdicts on summarised files equal those on the raw rows (medium data, laws with known answers)", () => {
+  const scenarios: Scenario[] = [
+    {
+      name: "work-declared-state",
+      rows: 200_000,
+      columns: "{ W: W, Q: Q, dN: dN }",
+      header: "W,Q,dN",
+      line: (W, Q, dN) => `${fixed6(W)},${fixed6(Q)},${dN}`,
+      work: "measured",
+      drawn: family(1.3, 1.0, 0.05, true),
+      declared: { TA: 1.3, TB: 1.0, muA: 0.05 },
+    },
+    {
+      name: "drawn-hotter-than-declared",
+      rows: 200_000,
+      columns: "{ W: W, Q: Q, dN: dN }",
+      header: "W,Q,dN",
+      line: (W, Q, dN) => `${fixed6(W)},${fixed6(Q)},${dN}`,
+      work: "measured",
+      drawn: family(1.45, 1.0, 0.05, true),
+      declared: { TA: 1.3, TB: 1.0, muA: 0.05 },
+    },
+    {
+      name: "no-work",
+      rows: 200_000,
+      columns: "{ Q: Q, dN: dN }",
+      header: "Q,dN",
+      line: (_W, Q, dN) => `${fixed6(Q)},${dN}`,
+      work: "zero",
+      drawn: family(1.3, 1.0, 0.05, false),
+      declared: { TA: 1.3, TB: 1.0, muA: 0.05 },
+    },
+    {
+      name: "energy-changes",
+      rows: 200_000,
+      columns: "{ dE_A: ea, dE_B: eb, dN: dN }",
+      header: "ea,eb,dN",
+      line: (W, Q, dN) => `${fixed6(W / 2 - Q)},${fixed6(W / 2 + Q)},${dN}`,
+      work: "measured",
+      drawn: family(1.3, 1.0, 0.05, true),
+      declared: { TA: 1.3, TB: 1.0, muA: 0.05 },
+    },
+  ];
+  for (const s of scenarios) {
+    it(`${s.name}: every check gives the same status`, async () => {
+      const dir = auditFor(s, `reduce:verdicts:${s.name}`);
+      const { exact, reduced, definition } = await loadBoth(dir);
+      expect(reduced.reduction).not.toBeNull();
+      const fromExact = statuses(dir, definition, exact);
+      expect(statuses(dir, definition, reduced)).toEqual(fromExact);
+      if (s.name === "drawn-hotter-than-declared") expect(fromExact["exchange-fluctuation/runs"]).toBe("fail");
+      if (s.name === "work-declared-state") expect(fromExact["exchange-fluctuation/runs"]).toBe("pass");
+    }, 120_000);
+  }
+
+  it("a Parquet file gives the same dataset as the same numbers in CSV, whole or summarised", async () => {
+    const s = scenarios[0];
+    const dir = auditFor({ ...s, rows: 40_000 }, "reduce:parquet");
+    const text = fs.readFileSync(path.join(dir, "data/runs.csv"), "utf8").trim().split("\n").slice(1);
+    const cols = { W: new Float64Array(text.length), Q: new Float64Array(text.length), dN: new Float64Array(text.length) };
+    text.forEach((line, i) => {
+      const [w, q, n] = line.split(",").map(Number);
+      cols.W[i] = w;
+      cols.Q[i] = q;
+      cols.dN[i] = n;
+    });
+    writeSamplesParquet(path.join(dir, "data/runs.parquet"), cols, { rowGroupRows: 7_000 });
+    const yaml = fs.readFileSync(path.join(dir, "audit.yaml"), "utf8").replace("data/runs.csv", "data/runs.parquet");
+    fs.writeFileSync(path.join(dir, "audit.yaml"), yaml);
+    const csvConfig = { ...(loadAuditDefinition(dir).datasets[0] as SamplesDatasetConfig), file: "data/runs.csv" };
+    const fromCsv = await loadSamples(csvConfig, path.join(dir, "data/runs.csv"), "datasets[0]", EXACT);
+    const { exact, reduced, definition } = await loadBoth(dir, "data/runs.parquet");
+    expect(Array.from(exact.sigma)).toEqual(Array.from(fromCsv.sigma));
+    expect(reduced.reduction).not.toBeNull();
+    expect(reduced.realisations).toBe(40_000);
+    expect(statuses(dir, definition, reduced)).toEqual(statuses(dir, definition, fromCsv));
+  }, 120_000);
+});
+
+describe("threshold", () => {
+  it("keeps every row of a file below the size threshold", async () => {
+    const dir = tempAudit(
+      `id: small
+title: Small
+authors: [{ name: "Test Author" }]
+datasets:
+  - id: runs
+    kind: samples
+    file: data/runs.csv
+    columns: { Q: Q }
+    energy_unit: meV
+    reservoirs: { A: { T: 1.3, mu: 0 }, B: { T: 1.0, mu: 0 } }
+    work: zero
+`,
+      { "data/runs.csv": "Q\n0.1\n-0.2\n" },
+    );
+    const config = loadAuditDefinition(dir).datasets[0] as SamplesDatasetConfig;
+    const d = await loadSamples(config, path.join(dir, "data/runs.csv"), "datasets[0]");
+    expect(d.reduction).toBeNull();
+    expect(d.sigma.length).toBe(2);
+  });
+});
+
