@@ -5,6 +5,7 @@ import type { AuditDefinition } from "../config/types.ts";
 import { ConfigError } from "../errors.ts";
 import { nearest } from "../config/nearest.ts";
 import { ingestAudit } from "../ingest/loadAudit.ts";
+import { describeReduction } from "../ingest/reduce/describeReduction.ts";
 import type { IngestedAudit } from "../ingest/types.ts";
 import { rngFromText } from "../stats/rng.ts";
 import { TOOL } from "../version.ts";
@@ -84,9 +85,20 @@ export function runChecks(audit: IngestedAudit, registry: readonly CheckDefiniti
     if (out.length === 0 && selected.explicit) {
       results.push(notApplicableResult({ check: selected.definition.id, dataset: "—", reason: `no dataset in this audit is of a kind that ${selected.definition.id} examines` }));
     }
-    results.push(...out);
+    results.push(...out.map((r) => withReductionNotes(audit, r)));
   }
   return results;
+}
+
+/** A check on a dataset summarised while read (large files) states how, among its assumptions. */
+function withReductionNotes(audit: IngestedAudit, result: CheckResult): CheckResult {
+  const notes: string[] = [];
+  for (const d of audit.datasets) {
+    if (d.kind !== "samples" || d.reduction === null) continue;
+    if (d.id !== result.dataset && d.config.sweep !== result.dataset && d.config.series !== result.dataset) continue;
+    notes.push(describeReduction(d)!);
+  }
+  return notes.length ? { ...result, assumptions: [...result.assumptions, ...notes] } : result;
 }
 
 export function resultDocumentOf(audit: IngestedAudit, checks: CheckResult[]): ResultDocument {
