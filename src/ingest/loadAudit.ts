@@ -7,15 +7,20 @@ import { loadCoefficients } from "./coefficients.ts";
 import { loadCumulants } from "./cumulants.ts";
 import type { Dataset, IngestedAudit } from "./types.ts";
 
+export interface IngestOptions {
+  /** Bytes (rows for Parquet) of a data file processed so far, and its total: for progress displays. */
+  onProgress?: (file: string, done: number, total: number) => void;
+}
+
 /** Read every dataset an audit definition names, in order. */
-export async function ingestDefinition(dir: string, definition: AuditDefinition): Promise<IngestedAudit> {
+export async function ingestDefinition(dir: string, definition: AuditDefinition, options: IngestOptions = {}): Promise<IngestedAudit> {
   const datasets: Dataset[] = [];
   for (const [i, config] of definition.datasets.entries()) {
     const keyPath = `datasets[${i}]`;
     const filePath = confinePath(dir, config.file, `${keyPath}.file`);
     switch (config.kind) {
       case "samples":
-        datasets.push(await loadSamples(config, filePath, keyPath));
+        datasets.push(await loadSamples(config, filePath, keyPath, { onBytes: options.onProgress && ((done, total) => options.onProgress!(config.file, done, total)) }));
         break;
       case "coefficients":
         datasets.push(await loadCoefficients(config, filePath, keyPath));
@@ -29,6 +34,6 @@ export async function ingestDefinition(dir: string, definition: AuditDefinition)
 }
 
 /** audit folder → validated definition → typed datasets with digests. */
-export async function ingestAudit(dir: string): Promise<IngestedAudit> {
-  return ingestDefinition(dir, loadAuditDefinition(dir));
+export async function ingestAudit(dir: string, options: IngestOptions = {}): Promise<IngestedAudit> {
+  return ingestDefinition(dir, loadAuditDefinition(dir), options);
 }

@@ -4,7 +4,7 @@ import type { CheckContext, CheckDefinition, CheckOptions, CheckResult } from ".
 import type { AuditDefinition } from "../config/types.ts";
 import { ConfigError } from "../errors.ts";
 import { nearest } from "../config/nearest.ts";
-import { ingestAudit } from "../ingest/loadAudit.ts";
+import { ingestAudit, type IngestOptions } from "../ingest/loadAudit.ts";
 import { describeReduction } from "../ingest/reduce/describeReduction.ts";
 import type { IngestedAudit } from "../ingest/types.ts";
 import { rngFromText } from "../stats/rng.ts";
@@ -122,7 +122,7 @@ export function resultDocumentOf(audit: IngestedAudit, checks: CheckResult[]): R
 }
 
 /** audit folder → result document. */
-export async function runAudit(dir: string): Promise<{ audit: IngestedAudit; result: ResultDocument }> {
-  const audit = await ingestAudit(dir);
+export async function runAudit(dir: string, options: IngestOptions = {}): Promise<{ audit: IngestedAudit; result: ResultDocument }> {
+  const audit = await ingestAudit(dir, options);
   return { audit, result: resultDocumentOf(audit, runChecks(audit)) };
 }

@@ -2,6 +2,7 @@ import type { Command } from "commander";
 import { runAudit } from "../../report/runAudit.ts";
 import { summaryTable } from "../summaryTable.ts";
 import { EXIT } from "../exit.ts";
+import { readingProgress } from "../progress.ts";
 
 export function registerRun(program: Command, setExit: (code: number) => void): void {
   program
@@ -10,7 +11,13 @@ export function registerRun(program: Command, setExit: (code: number) => void): 
     .argument("<audit-dir>", "folder holding audit.yaml and its data")
     .option("--json", "print the result document as JSON on stdout and nothing else")
     .action(async (dir: string, opts: { json?: boolean }) => {
-      const { result } = await runAudit(dir);
+      const progress = readingProgress();
+      let result;
+      try {
+        ({ result } = await runAudit(dir, { onProgress: progress.update }));
+      } finally {
+        progress.stop();
+      }
       if (opts.json) process.stdout.write(`${JSON.stringify(result, null, 2)}\n`);
       else process.stdout.write(`${summaryTable(result, process.stdout.isTTY === true, process.stdout.columns ?? 110)}\n`);
       setExit(result.checks.some((c) => c.status === "fail") ? EXIT.failed : EXIT.ok);

@@ -1,3 +1,4 @@
+import fs from "node:fs";
 import { DataError } from "../../errors.ts";
 import { parquetInfo, readParquetColumns, readParquetTable } from "../parquet/index.ts";
 import type { RowChunk } from "../fast/scanLines.ts";
@@ -34,6 +35,7 @@ export async function reduceSamplesParquet(
 ): Promise<ReducedFields> {
   const columns = uniqueColumns(input);
   const info = await parquetInfo(input.filePath, input.label);
+  const size = fs.statSync(input.filePath).size;
   let reducer: SamplesReducer | null = null;
   let rows = 0;
   for await (const batch of readParquetColumns(input.filePath, input.label, columns)) {
@@ -43,7 +45,8 @@ export async function reduceSamplesParquet(
     reducer ??= new SamplesReducer(reductionSpec(input, chunk, columns, options.cellCapacity ?? DEFAULT_CELL_CAPACITY));
     reducer.accept(chunk);
     rows += batch.rows;
-    options.onBytes?.(Math.round((rows / info.rows) * info.rows), info.rows);
+    // Progress in bytes, estimated from the rows decoded (row groups are of similar size).
+    options.onBytes?.(Math.round((rows / info.rows) * size), size);
   }
   if (reducer === null || rows === 0) throw new DataError(`${input.label}: the file has no rows`);
   if (reducer.rowProblems.count > 0) throw new DataError(formatRowProblems(input.label, reducer.rowProblems, "row"));
