@@ -71,34 +71,42 @@ export function folderFingerprint(dir: string): string {
   return fingerprintFromDigests(definition, inputs);
 }
 
-let implementation: string | null = null;
-
 function sourceFiles(dir: string): string[] {
   return fs
     .readdirSync(dir, { withFileTypes: true })
     .flatMap((e) => (e.isDirectory() ? sourceFiles(path.join(dir, e.name)) : e.name.endsWith(".ts") ? [path.join(dir, e.name)] : []));
 }
 
+function digestOfSources(): string {
+  const src = path.resolve(path.dirname(fileURLToPath(import.meta.url)), "..");
+  try {
+    const files = [...sourceFiles(src), path.join(src, "..", "package.json")].sort();
+    const hash = createHash("sha256");
+    for (const file of files) {
+      const bytes = fs.readFileSync(file);
+      // Name and length before the bytes, so that no two file sets give the same stream.
+      hash.update(`${path.relative(src, file)}\0${bytes.length}\0`);
+      hash.update(bytes);
+    }
+    return hash.digest("hex");
+  } catch {
+    // Sources that cannot be read cannot vouch for an entry: this process then trusts only its own.
+    return `unread-${randomBytes(16).toString("hex")}`;
+  }
+}
+
 /**
  * Digest of the tool's own code (every source file under src/ and
- * package.json). The fingerprint names the tool only by its version, which
+ * package.json), taken once when this module loads, right after the code
+ * itself was read. The fingerprint names the tool only by its version, which
  * does not move while someone edits a check; an entry written by other code
  * is therefore not trusted even when the fingerprint matches, so that a
  * build never shows results of code that no longer exists.
  */
+const IMPLEMENTATION = digestOfSources();
+
 export function implementationDigest(): string {
-  if (implementation !== null) return implementation;
-  const src = path.resolve(path.dirname(fileURLToPath(import.meta.url)), "..");
-  const files = [...sourceFiles(src), path.join(src, "..", "package.json")].sort();
-  const hash = createHash("sha256");
-  for (const file of files) {
-    const bytes = fs.readFileSync(file);
-    // Name and length before the bytes, so that no two file sets give the same stream.
-    hash.update(`${path.relative(src, file)}\0${bytes.length}\0`);
-    hash.update(bytes);
-  }
-  implementation = hash.digest("hex");
-  return implementation;
+  return IMPLEMENTATION;
 }
 
 interface CacheEntry {
