@@ -74,7 +74,7 @@ export function folderFingerprint(dir: string): string {
 function sourceFiles(dir: string): string[] {
   return fs
     .readdirSync(dir, { withFileTypes: true })
-    .flatMap((e) => (e.isDirectory() ? sourceFiles(path.join(dir, e.name)) : e.name.endsWith(".ts") ? [path.join(dir, e.name)] : []));
+    .flatMap((e) => (e.isDirectory() ? sourceFiles(path.join(dir, e.name)) : e.isFile() ? [path.join(dir, e.name)] : []));
 }
 
 function digestOfSources(): string {
@@ -96,8 +96,8 @@ function digestOfSources(): string {
 }
 
 /**
- * Digest of the tool's own code (every source file under src/ and
- * package.json), taken once when this module loads, right after the code
+ * Digest of the tool's own code (every file under src/, whatever its kind,
+ * and package.json), taken once when this module loads, right after the code
  * itself was read. The fingerprint names the tool only by its version, which
  * does not move while someone edits a check; an entry written by other code
  * is therefore not trusted even when the fingerprint matches, so that a
