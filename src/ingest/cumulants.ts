@@ -25,6 +25,12 @@ export function secondsPerTimeUnit(config: CumulantsDatasetConfig, joules: numbe
   return HBAR / (config.hopping * joules);
 }
 
+/** A standard uncertainty whose variance u² and weight 1/u² are both finite, non-zero doubles. */
+function isUsableVariance(u: number): boolean {
+  const v = u * u;
+  return v >= Number.MIN_VALUE * 2 ** 52 && Number.isFinite(v) && Number.isFinite(1 / v);
+}
+
 function scaled(values: Float64Array | undefined, factor: number): Float64Array | null {
   if (!values) return null;
   return values.map((v) => v * factor);
@@ -66,11 +72,36 @@ export async function loadCumulants(config: CumulantsDatasetConfig, filePath: st
     if (problems.length < 20) problems.push({ row: table.lineOfRow[i], column: columnOf(role), message });
   };
   const tauRaw = col("tau")!;
+  const factorOf: Record<"u_Q" | "u_dN", number> = { u_Q: joules, u_dN: 1 };
   for (let i = 0; i < table.rows; i++) {
     if (!(tauRaw[i] > 0)) note(i, "tau", `expected a positive contact time, found ${tauRaw[i]}`);
+    else if (!(tauRaw[i] * seconds > 0)) note(i, "tau", `contact time ${tauRaw[i]} ${config.time_unit} is 0 s in double precision; give it in a larger time unit`);
     for (const u of ["u_Q", "u_dN"] as const) {
       const v = col(u)?.[i];
-      if (v !== undefined && !(v > 0)) note(i, u, `expected a positive standard uncertainty, found ${v}`);
+      if (v === undefined) continue;
+      if (!(v > 0)) note(i, u, `expected a positive standard uncertainty, found ${v}`);
+      else if (!isUsableVariance(v * factorOf[u])) {
+        // The fit weights each row by 1/u² (in SI units); a square that underflows to 0 or overflows cannot weight anything.
+        note(i, u, `standard uncertainty ${v} cannot weight the fit: its square in SI units is ${(v * factorOf[u]) ** 2 > 0 ? "beyond" : "below"} the range of double precision`);
+      }
+    }
+  }
+  if (count) throw new DataError(formatCellProblems(config.file, problems, 20, count));
+
+  // The linear-growth fit forms sums of t², x² and (x/u)² over the rows (Bevington & Robinson, Data Reduction
+  // and Error Analysis, 3rd ed., §6.3): values whose squares overflow double precision cannot be fitted.
+  const n = table.rows;
+  const squares = (x: number) => Number.isFinite(x * x * n);
+  for (let i = 0; i < n; i++) {
+    if (!squares(tauRaw[i] * seconds)) note(i, "tau", `contact time ${tauRaw[i]} ${config.time_unit} is beyond the range a least-squares fit can square in double precision; check the time unit`);
+    for (const [x, u, factor] of [["Q", "u_Q", joules], ["dN", "u_dN", 1]] as const) {
+      const v = col(x)?.[i];
+      if (v === undefined) continue;
+      const w = col(u)?.[i];
+      if (!squares(v * factor)) note(i, x, `mean transfer ${v} is beyond the range a least-squares fit can square in double precision; check the unit`);
+      else if (w !== undefined && !squares((v * factor) / (w * factor))) {
+        note(i, x, `mean transfer ${v} is ${(v / w).toPrecision(3)} times its standard uncertainty ${w}, beyond what a weighted fit can square in double precision; check the value and its uncertainty`);
+      }
     }
   }
   if (count) throw new DataError(formatCellProblems(config.file, problems, 20, count));

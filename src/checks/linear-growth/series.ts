@@ -39,6 +39,27 @@ function usableErrors(se: number[]): number[] | null {
   return se.map((x) => (x > 0 && Number.isFinite(x) ? x : floor));
 }
 
+/**
+ * Whether a weighted straight-line fit of the curve stays within double
+ * precision: its sums hold t², x², t·x and the same divided by u²
+ * (Bevington & Robinson, Data Reduction and Error Analysis, 3rd ed., §6.3).
+ */
+export function fitsInDoublePrecision(curve: ChannelCurve): boolean {
+  const n = curve.t.length;
+  const T = Math.max(...curve.t.map(Math.abs));
+  const Y = Math.max(...curve.y.map(Math.abs));
+  const finite = (x: number) => Number.isFinite(x * n);
+  if (!finite(T * T) || !finite(Y * Y) || !finite(T * Y)) return false;
+  return (curve.u ?? []).every((u) => u * u > 0 && finite((T / u) ** 2) && finite((Y / u) ** 2) && finite((T * Y) / (u * u)));
+}
+
+/** A problem when some curve of the series cannot be fitted in double precision. */
+function precisionProblem(name: string, curves: ChannelCurve[], ids: string[]): SeriesOrProblem | null {
+  const bad = curves.filter((c) => !fitsInDoublePrecision(c)).map((c) => (c.channel === "Q" ? "heat" : "particle"));
+  if (bad.length === 0) return null;
+  return { name, problem: `series "${name}": the mean ${bad.join(" and ")} transfers are so large relative to their uncertainties that a weighted fit overflows double precision; check the units`, datasets: ids };
+}
+
 /** Samples datasets sharing `series:`: the mean transfer of each with its standard error, ordered by contact time. */
 export function seriesFromSamples(name: string, datasets: SamplesDataset[]): SeriesOrProblem {
   const ids = datasets.map((d) => d.id);
@@ -62,6 +83,8 @@ export function seriesFromSamples(name: string, datasets: SamplesDataset[]): Ser
     curves.push({ channel: c.channel, t, y: m.map((x) => x.mean), u: usableErrors(m.map((x) => x.standardError)) });
   }
   if (curves.length === 0) return { name, problem: `series "${name}": every recorded transfer is zero`, datasets: ids };
+  const precision = precisionProblem(name, curves, ids);
+  if (precision) return precision;
   return { series: { name, source: "samples", datasets: ids, curves, energyUnit: sorted[0].energyUnit } };
 }
 
@@ -73,6 +96,8 @@ export function seriesFromCumulants(d: CumulantsDataset): SeriesOrProblem {
   if (d.Q && nonZero(d.Q)) curves.push({ channel: "Q", t, y: Array.from(d.Q), u: d.u_Q ? Array.from(d.u_Q) : null });
   if (d.dN && nonZero(d.dN)) curves.push({ channel: "dN", t, y: Array.from(d.dN), u: d.u_dN ? Array.from(d.u_dN) : null });
   if (curves.length === 0) return { name, problem: `series "${name}" (${d.file}): every mean transfer is zero`, datasets: [d.id] };
+  const precision = precisionProblem(name, curves, [d.id]);
+  if (precision) return precision;
   const unit = d.config.energy_unit as EnergyUnit;
   return {
     series: {
