@@ -36,6 +36,7 @@ export class SamplesReducer {
   readonly rowProblems = newProblemLog();
   readonly xBuffer: Float64Array;
   readonly vBuffer: Float64Array;
+  private readonly rowBuffer = new Float64Array(4);
 
   constructor(readonly spec: SamplesReductionSpec) {
     this.table = new CellTable({ ...spec.grid, delay: Float64Array.from(spec.grid.delay), maxColumnLevel: Float64Array.from(spec.grid.maxColumnLevel), step0: Float64Array.from(spec.grid.step0) });
@@ -79,31 +80,33 @@ export class SamplesReducer {
    * arrays. Same arithmetic as the general path (sampleRowsOf), same result.
    */
   private acceptPlain(chunk: RowChunk): void {
-  const { spec } = this;
-  const j = spec.joules;
-  const qs = chunk.values[spec.slotOfRole.Q!];
-  const ws = spec.slotOfRole.W !== undefined ? chunk.values[spec.slotOfRole.W] : null;
-  const ns = spec.slotOfRole.dN !== undefined ? chunk.values[spec.slotOfRole.dN] : null;
-  const { cW, cQ, cN } = spec.sigma;
-  const keys = spec.keyColumns;
-  const stored = spec.storedColumns;
-  const x = this.xBuffer;
-  const v = this.vBuffer;
-  for (let i = 0; i < chunk.rows; i++) {
-    const Q = qs[i] * j;
-    const W = ws ? ws[i] * j : 0;
-    const dN = ns ? ns[i] : 0;
-    const sigma = cW * W + cQ * Q + cN * dN;
-    for (let d = 0; d < keys.length; d++) {
-      const c = keys[d];
-      x[d] = c === "sigma" ? sigma : c === "Q" ? Q : c === "W" ? W : dN;
+    const { spec } = this;
+    const j = spec.joules;
+    const qs = chunk.values[spec.slotOfRole.Q!];
+    const ws = spec.slotOfRole.W !== undefined ? chunk.values[spec.slotOfRole.W] : null;
+    const ns = spec.slotOfRole.dN !== undefined ? chunk.values[spec.slotOfRole.dN] : null;
+    const { cW, cQ, cN } = spec.sigma;
+    // Each key and stored column as an index into one row: [Σ, Q, W, ΔN].
+    const source = { sigma: 0, Q: 1, W: 2, dN: 3 } as Record<string, number>;
+    const keyAt = Int32Array.from(spec.keyColumns, (c) => source[c]);
+    const storedAt = Int32Array.from(spec.storedColumns, (c) => source[c]);
+    const row = this.rowBuffer;
+    const x = this.xBuffer;
+    const v = this.vBuffer;
+    const table = this.table;
+    for (let i = 0; i < chunk.rows; i++) {
+      const Q = qs[i] * j;
+      const W = ws ? ws[i] * j : 0;
+      const dN = ns ? ns[i] : 0;
+      const sigma = cW * W + cQ * Q + cN * dN;
+      row[0] = sigma;
+      row[1] = Q;
+      row[2] = W;
+      row[3] = dN;
+      for (let d = 0; d < keyAt.length; d++) x[d] = row[keyAt[d]];
+      for (let k = 0; k < storedAt.length; k++) v[k] = row[storedAt[k]];
+      table.add(x, v, 1, sigma);
     }
-    for (let s = 0; s < stored.length; s++) {
-      const c = stored[s];
-      v[s] = c === "Q" ? Q : c === "W" ? W : dN;
-    }
-    this.table.add(x, v, 1, sigma);
-  }
   }
 }
 
