@@ -1,5 +1,6 @@
 import type { Dataset, IngestedAudit, SamplesDataset, CoefficientsDataset, CumulantsDataset } from "../ingest/types.ts";
 import type { CheckContext, CheckId, CheckResult } from "./types.ts";
+import { weightedMoments, type Moments } from "../stats/weightedMoments.ts";
 
 type KindMap = { samples: SamplesDataset; coefficients: CoefficientsDataset; cumulants: CumulantsDataset };
 
@@ -66,4 +67,25 @@ export function notApplicableResult(f: NotApplicableFields): CheckResult {
     tables: [],
     plots: [],
   };
+}
+
+/**
+ * For a dataset summarised into cells (src/ingest/reduce), the within-cell
+ * scatter Σ_i w_i (x_i − x̄_C)(y_i − ȳ_C) of two currents ("Q", "W", "dN"),
+ * which sums over the cells' means miss; 0 for datasets kept row by row. Add
+ * it to a sum of squares about the mean (law of total variance).
+ */
+export function withinCellScatter(d: SamplesDataset, a: "Q" | "W" | "dN", b: "Q" | "W" | "dN"): number {
+  const scatter = d.reduction?.scatter;
+  if (!scatter) return 0;
+  return scatter[`${a},${b}`] ?? scatter[`${b},${a}`] ?? 0;
+}
+
+/** Weighted moments of a current of a samples dataset, with the within-cell scatter of summarised files added. */
+export function currentMoments(d: SamplesDataset, x: Float64Array, name: "Q" | "W" | "dN"): Moments {
+  const m = weightedMoments(x, d.weight);
+  const extra = withinCellScatter(d, name, name);
+  if (extra === 0 || !(m.n > 1)) return m;
+  const variance = m.variance + extra / (m.n - 1);
+  return { ...m, variance, standardError: Math.sqrt(variance / m.n) };
 }

@@ -58,6 +58,13 @@ export interface SamplesReduction {
   pooledFraction: number;
   /** Parts the file was cut into and reduced separately before merging. */
   parts: number;
+  /**
+   * Within-cell scatter of each pair of currents, "Q,Q", "Q,W", "Q,dN", "W,W", … :
+   * Σ_C Σ_{i∈C} w_i (x_i − x̄_C)(y_i − ȳ_C) in SI (J², J, counts²). Second moments
+   * computed from the cells' means miss exactly this; `withinCellScatter` in
+   * src/checks/helpers.ts adds it back.
+   */
+  scatter: Record<string, number>;
 }
 
 /** Linear-response coefficients at one row of a coefficients table (one operating point at one field). */

@@ -3,6 +3,7 @@ import { weightedLeastSquares, combinationVariance, type WlsFit, type WlsObserva
 import { chiSquareSf } from "../../stats/chiSquare.ts";
 import { inverse } from "../../linalg/solve.ts";
 import { AFFINITY_OF, type Channel, type Sweep } from "./sweep.ts";
+import { withinCellScatter } from "../helpers.ts";
 
 /**
  * The joint response fit of a sweep (physics: linear response from the exchange
@@ -107,6 +108,11 @@ export function sweepPoint(d: SamplesDataset, channels: Channel[], tau: number, 
     const v = features(i);
     n += w;
     for (let o = 0; o < O; o++) mean[o] += (w / n) * (v[o] - mean[o]); // running weighted mean (West 1979)
+  }
+  // A file summarised into cells: the second-moment features of the cells' means lack the
+  // within-cell scatter, which the summary kept (law of total variance).
+  for (let a = 0; a < m; a++) {
+    for (let b = a; b < m; b++) mean[lay.M[a][b]] += (unbias * withinCellScatter(d, channels[a], channels[b])) / (2 * tau * n);
   }
   const cov = Array.from({ length: O }, () => new Array<number>(O).fill(0));
   for (let i = 0; i < d.sigma.length; i++) {

@@ -1,6 +1,6 @@
 import type { SamplesDataset } from "../../ingest/types.ts";
 import { weightedMoments } from "../../stats/weightedMoments.ts";
-import { fmt, perDataset } from "../helpers.ts";
+import { currentMoments, fmt, perDataset } from "../helpers.ts";
 import type { CheckContext, CheckDefinition, CheckResult } from "../types.ts";
 
 /**
@@ -16,11 +16,11 @@ export function uncertaintyRelationForDataset(d: SamplesDataset, _ctx: CheckCont
   const sigma = weightedMoments(d.sigma, d.weight);
   const rows: Record<string, number | string | null>[] = [];
   const ratios: Record<string, number | null> = {};
-  const currents: [string, string, Float64Array][] = [];
+  const currents: ["Q" | "dN", string, Float64Array][] = [];
   if (d.Q.some((v) => v !== 0)) currents.push(["Q", "heat Q", d.Q]);
   if (d.dN.some((v) => v !== 0)) currents.push(["dN", "particles ΔN", d.dN]);
   for (const [key, label, x] of currents) {
-    const m = weightedMoments(x, d.weight);
+    const m = currentMoments(d, x, key);
     const product = m.mean !== 0 && sigma.mean > 0 ? (m.variance * sigma.mean) / (m.mean * m.mean) : null;
     ratios[key] = product === null ? null : product / 2;
     rows.push({ current: label, relative_variance: m.mean !== 0 ? m.variance / (m.mean * m.mean) : null, product, ratio: ratios[key] });

@@ -1,8 +1,7 @@
 import type { SamplesDataset } from "../../ingest/types.ts";
 import { normalQuantile, normalTwoSidedP } from "../../stats/normal.ts";
-import { weightedMoments } from "../../stats/weightedMoments.ts";
 import { resolveSentence } from "../../stats/sampleSize.ts";
-import { fmt, fmtInterval, numberOption, perDataset } from "../helpers.ts";
+import { currentMoments, fmt, fmtInterval, numberOption, perDataset, withinCellScatter } from "../helpers.ts";
 import type { CheckContext, CheckDefinition, CheckResult, Status } from "../types.ts";
 
 /**
@@ -98,11 +97,11 @@ export function workForDataset(d: SamplesDataset, ctx: CheckContext): CheckResul
   let nonzero = 0;
   for (let i = 0; i < W.length; i++) if (Math.abs(W[i]) > threshold) nonzero += weight ? weight[i] : 1;
   const fraction = nonzero / d.realisations;
-  const m = weightedMoments(W, weight);
+  const m = currentMoments(d, W, "W");
   const bb = d.affinity.beta_bar;
   const meanBW = bb * m.mean;
   const seBW = bb * m.standardError;
-  const rmsBW = bb * rmsOf(W, weight);
+  const rmsBW = bb * Math.sqrt(rmsOf(W, weight) ** 2 + withinCellScatter(d, "W", "W") / m.n);
   const z = normalQuantile(1 - (1 - confidence) / 2);
   const ciBW: [number, number] = [meanBW - z * seBW, meanBW + z * seBW];
   const pMean = seBW > 0 ? normalTwoSidedP(meanBW / seBW) : meanBW === 0 ? 1 : 0;

@@ -34,6 +34,8 @@ export interface GridSpec {
   maxColumnLevel: Float64Array;
   /** Stored sums per cell. */
   stored: number;
+  /** Pairs (a, b) of stored columns whose product sums are kept too (second moments). */
+  pairs: [number, number][];
   /** Most cells a table may hold before it coarsens. */
   capacity: number;
   /** Level a table starts at (chosen from the start of the file, the same for every part). */
@@ -52,6 +54,8 @@ export interface CellTableData {
   sums: Float64Array;
   sigmaMin: Float64Array;
   sigmaMax: Float64Array;
+  /** cells × pairs sums of w x_a x_b over each cell. */
+  products: Float64Array;
   /** Σ of the first realisation of each cell, and the sum over the cell of w e^{−(Σ − that reference)}. */
   sigmaRef: Float64Array;
   expSum: Float64Array;
@@ -85,6 +89,7 @@ export class CellTable {
   private sigmaMin!: Float64Array;
   private sigmaMax!: Float64Array;
   private sigmaRef!: Float64Array;
+  private products!: Float64Array;
   private expSum!: Float64Array;
   private readonly key: Float64Array;
   private readonly inverseStep: Float64Array;
@@ -120,6 +125,7 @@ export class CellTable {
       this.count.fill(0);
       this.sums.fill(0);
       this.expSum.fill(0);
+      this.products.fill(0);
       this.size = 0;
       return;
     }
@@ -131,6 +137,7 @@ export class CellTable {
     this.sigmaMax = new Float64Array(cells);
     this.sigmaRef = new Float64Array(cells);
     this.expSum = new Float64Array(cells);
+    this.products = new Float64Array(cells * this.spec.pairs.length);
     this.size = 0;
   }
 
@@ -151,6 +158,9 @@ export class CellTable {
     this.count[cell] += weight;
     const base = cell * stored;
     for (let s = 0; s < stored; s++) this.sums[base + s] += weight * values[s];
+    const pairs = this.spec.pairs;
+    const pbase = cell * pairs.length;
+    for (let p = 0; p < pairs.length; p++) this.products[pbase + p] += weight * values[pairs[p][0]] * values[pairs[p][1]];
     if (sigma < this.sigmaMin[cell]) this.sigmaMin[cell] = sigma;
     if (sigma > this.sigmaMax[cell]) this.sigmaMax[cell] = sigma;
     this.expSum[cell] += weight * Math.exp(this.sigmaRef[cell] - sigma);
@@ -222,6 +232,8 @@ export class CellTable {
       if (this.count[cell] === 0) this.sigmaRef[cell] = data.sigmaRef[c];
       this.count[cell] += data.count[c];
       for (let s = 0; s < stored; s++) this.sums[cell * stored + s] += data.sums[c * stored + s];
+      const P = this.spec.pairs.length;
+      for (let p = 0; p < P; p++) this.products[cell * P + p] += data.products[c * P + p];
       if (data.sigmaMin[c] < this.sigmaMin[cell]) this.sigmaMin[cell] = data.sigmaMin[c];
       if (data.sigmaMax[c] > this.sigmaMax[cell]) this.sigmaMax[cell] = data.sigmaMax[c];
       this.expSum[cell] += data.expSum[c] * Math.exp(this.sigmaRef[cell] - data.sigmaRef[c]);
@@ -243,6 +255,7 @@ export class CellTable {
       sigmaMax: this.sigmaMax.slice(0, n),
       sigmaRef: this.sigmaRef.slice(0, n),
       expSum: this.expSum.slice(0, n),
+      products: this.products.slice(0, n * this.spec.pairs.length),
     };
   }
 }
@@ -280,6 +293,7 @@ function sortedByKey(spec: GridSpec, data: CellTableData): CellTableData {
     sigmaMax: new Float64Array(data.cells),
     sigmaRef: new Float64Array(data.cells),
     expSum: new Float64Array(data.cells),
+    products: new Float64Array(data.cells * spec.pairs.length),
   };
   order.forEach((from, to) => {
     out.keys.set(data.keys.subarray(from * dims, (from + 1) * dims), to * dims);
@@ -289,6 +303,8 @@ function sortedByKey(spec: GridSpec, data: CellTableData): CellTableData {
     out.sigmaMax[to] = data.sigmaMax[from];
     out.sigmaRef[to] = data.sigmaRef[from];
     out.expSum[to] = data.expSum[from];
+    const P = spec.pairs.length;
+    out.products.set(data.products.subarray(from * P, (from + 1) * P), to * P);
   });
   return out;
 }

@@ -14,7 +14,8 @@ export function describeReduction(d: SamplesDataset): string | null {
   const widths: string[] = [];
   for (const [column, step] of Object.entries(r.steps)) {
     if (column === "sigma") continue;
-    if (column === "dN") widths.push("equal ΔN");
+    if (column === "betaW") widths.push(`β̄W in cells ${sig(step)} k_B wide`);
+    else if (column === "dN") widths.push("equal ΔN");
     else widths.push(`${column} in cells ${sig(step / d.energyUnit.joules)} ${unit} wide`);
   }
   const pooled = r.pooledFraction > 0

@@ -37,16 +37,15 @@ export const DEFAULT_CELL_CAPACITY = 1 << 17;
 const FINEST_RELATIVE_STEP = 2 ** -24;
 
 /**
- * Finest cell width of Σ, k_B: 2^-12 ≈ 2.4e-4, far below the statistical
- * resolution of any relation tested on Σ.
+ * Finest cell width of Σ and of β̄W, k_B: 2^-12 ≈ 2.4e-4, far below the
+ * statistical resolution of any relation tested on them.
  */
 const SIGMA_STEP = 2 ** -12;
 
 /**
- * The further continuous column widens first, up to this level, and Σ's cells
- * only after it: 3^13 ≈ 1.6e6 finest steps, cells of about a tenth of the
- * column's largest value at the start of the file (some twenty cells across
- * its range), enough to keep the channels apart in the fit of the affinities.
+ * Where Q is a key column of its own (a_Q = 0), it widens first, up to this
+ * level, and Σ's cells only after it: 3^13 ≈ 1.6e6 finest steps, cells of
+ * about a tenth of Q's largest value at the start of the file.
  */
 const TRANSVERSE_MAX_LEVEL = 13;
 
@@ -148,12 +147,15 @@ export function reductionSpec(input: ReduceInput, probe: RowChunk | null, slotNa
   const hasW = roles.W !== undefined || hasE;
   const a = input.affinity;
   const sigma = { cW: input.workZero ? 0 : a.beta_bar, cQ: a.a_Q, cN: a.a_N };
-  // The key resolves Σ itself on a fine grid, the counts exactly, and at most one
-  // further continuous column (the one Σ does not already fix), which may be pooled
-  // coarsely: pooling then mixes realisations of nearly the same Σ only.
+  // The key resolves, on the same fine grid in units of k_B, the two quantities the
+  // checks use inside exponentials: Σ and β̄W (e^−Σ, and e^−β̄W in the weighted
+  // currents and fluxes); the counts exactly; and Q only when those do not already
+  // fix it (equal temperatures, a_Q = 0), on a relative grid. Pooling then only
+  // mixes realisations whose Σ and β̄W agree to within a cell.
   const keyColumns: KeyColumn[] = ["sigma"];
+  if (hasW) keyColumns.push("betaW");
   if (roles.dN !== undefined) keyColumns.push("dN");
-  const transverse: SampleColumn | null = hasW ? (sigma.cW !== 0 ? "Q" : "W") : sigma.cQ === 0 ? "Q" : null;
+  const transverse: SampleColumn | null = sigma.cQ === 0 ? "Q" : null;
   if (transverse) keyColumns.push(transverse);
   const storedColumns: SampleColumn[] = ["Q"];
   if (hasW) storedColumns.push("W");
@@ -167,6 +169,7 @@ export function reductionSpec(input: ReduceInput, probe: RowChunk | null, slotNa
   const sample = first ? sampleRowsOf(raw, roles, input.joules, first.rows, first.lines, newProblemLog()) : null;
   const columnOf = (c: KeyColumn): Float64Array | null => {
     if (sample === null) return null;
+    if (c === "betaW") return sample.W_data ? sample.W_data.map((w) => a.beta_bar * w) : null;
     if (c !== "sigma") return { Q: sample.Q, W: sample.W_data, dN: sample.dN, dE_A: sample.dE_A, dE_B: sample.dE_B }[c];
     const out = new Float64Array(sample.rows);
     for (let i = 0; i < sample.rows; i++) {
@@ -192,7 +195,7 @@ export function reductionSpec(input: ReduceInput, probe: RowChunk | null, slotNa
     if (whole) {
       step0[d] = 1; // counts stay apart at every level
       delay[d] = Infinity;
-    } else if (c === "sigma") {
+    } else if (c === "sigma" || c === "betaW") {
       step0[d] = SIGMA_STEP;
       delay[d] = transverse ? TRANSVERSE_MAX_LEVEL : 0;
     } else {
@@ -211,10 +214,19 @@ export function reductionSpec(input: ReduceInput, probe: RowChunk | null, slotNa
     slotOfRole,
     joules: input.joules,
     sigma,
+    betaBar: a.beta_bar,
     keyColumns,
     storedColumns,
-    grid: { dims: keyColumns.length, step0, delay, maxColumnLevel: maxLevel, stored: storedColumns.length, capacity, startLevel },
+    grid: { dims: keyColumns.length, step0, delay, maxColumnLevel: maxLevel, stored: storedColumns.length, pairs: momentPairs(storedColumns), capacity, startLevel },
   };
+}
+
+/** Pairs of the currents (Q, W, ΔN) among the stored columns, whose within-cell second moments are kept. */
+function momentPairs(stored: SampleColumn[]): [number, number][] {
+  const currents = stored.map((c, i) => [c, i] as const).filter(([c]) => c === "Q" || c === "W" || c === "dN");
+  const pairs: [number, number][] = [];
+  for (let x = 0; x < currents.length; x++) for (let y = x; y < currents.length; y++) pairs.push([currents[x][1], currents[y][1]]);
+  return pairs;
 }
 
 /** Number of probe rows' distinct cells at a level (stops counting past `limit`). */
@@ -311,8 +323,22 @@ export function fieldsFromCells(
   spec.keyColumns.forEach((c, d) => {
     steps[c] = spec.grid.step0[d] * 3 ** columnLevel(cells.level, spec.grid.delay[d], spec.grid.maxColumnLevel[d]);
   });
+  // Within-cell scatter Σ_C Σ_{i∈C} w_i (x_i − x̄_C)(y_i − ȳ_C) of each pair of currents:
+  // what second moments computed from the cells' means lack (src/checks/helpers.ts adds it back).
+  const scatter: Record<string, number> = {};
+  spec.grid.pairs.forEach(([a, b], p) => {
+    const P = spec.grid.pairs.length;
+    let total = 0;
+    for (let i = 0; i < n; i++) {
+      const c = cells.count[i];
+      const within = cells.products[i * P + p] - (cells.sums[i * S + a] * cells.sums[i * S + b]) / c;
+      total += a === b ? Math.max(0, within) : within;
+    }
+    scatter[`${spec.storedColumns[a]},${spec.storedColumns[b]}`] = total;
+  });
   const reduction: SamplesReduction = {
     cells: n,
+    scatter,
     steps,
     level: cells.level,
     maxSigmaSpread: maxSpread,

@@ -13,6 +13,8 @@ export interface SamplesReductionSpec {
   joules: number;
   /** Σ = cW W + cQ Q + cN ΔN per realisation (cW = 0 when work: zero is declared). */
   sigma: { cW: number; cQ: number; cN: number };
+  /** β̄ (1/J), for the β̄W key column. */
+  betaBar: number;
   /** Columns forming the grid key, and columns whose sums are kept. */
   keyColumns: KeyColumn[];
   storedColumns: SampleColumn[];
@@ -21,8 +23,8 @@ export interface SamplesReductionSpec {
 
 /** Columns of the reduced rows (J; ΔN as counted). */
 export type SampleColumn = "Q" | "W" | "dN" | "dE_A" | "dE_B";
-/** Columns a cell key may use: the stored ones and Σ (k_B). */
-export type KeyColumn = SampleColumn | "sigma";
+/** Columns a cell key may use: the stored ones, Σ and β̄W (k_B). */
+export type KeyColumn = SampleColumn | "sigma" | "betaW";
 
 export interface SamplesPartSummary {
   state: Pick<ScanState, "rows" | "line" | "problems" | "problemCount" | "structural">;
@@ -36,10 +38,10 @@ export class SamplesReducer {
   readonly rowProblems = newProblemLog();
   readonly xBuffer: Float64Array;
   readonly vBuffer: Float64Array;
-  private readonly rowBuffer = new Float64Array(4);
+  private readonly rowBuffer = new Float64Array(5);
 
   constructor(readonly spec: SamplesReductionSpec) {
-    this.table = new CellTable({ ...spec.grid, delay: Float64Array.from(spec.grid.delay), maxColumnLevel: Float64Array.from(spec.grid.maxColumnLevel), step0: Float64Array.from(spec.grid.step0) });
+    this.table = new CellTable({ ...spec.grid, pairs: spec.grid.pairs.map(([a, b]) => [a, b]), delay: Float64Array.from(spec.grid.delay), maxColumnLevel: Float64Array.from(spec.grid.maxColumnLevel), step0: Float64Array.from(spec.grid.step0) });
     this.xBuffer = new Float64Array(spec.keyColumns.length);
     this.vBuffer = new Float64Array(spec.storedColumns.length);
   }
@@ -59,7 +61,8 @@ export class SamplesReducer {
     const Q = rows.Q;
     const sigma = new Float64Array(chunk.rows);
     for (let i = 0; i < chunk.rows; i++) sigma[i] = (W ? cW * W[i] : 0) + cQ * Q[i] + (dN ? cN * dN[i] : 0);
-    const key = spec.keyColumns.map((c) => (c === "sigma" ? sigma : columns[c]!));
+    const betaW = W ? W.map((w) => spec.betaBar * w) : null;
+    const key = spec.keyColumns.map((c) => (c === "sigma" ? sigma : c === "betaW" ? betaW! : columns[c]!));
     const stored = spec.storedColumns.map((c) => columns[c]!);
     const weight = rows.weight;
     const x = this.xBuffer;
@@ -86,8 +89,9 @@ export class SamplesReducer {
     const ws = spec.slotOfRole.W !== undefined ? chunk.values[spec.slotOfRole.W] : null;
     const ns = spec.slotOfRole.dN !== undefined ? chunk.values[spec.slotOfRole.dN] : null;
     const { cW, cQ, cN } = spec.sigma;
-    // Each key and stored column as an index into one row: [Σ, Q, W, ΔN].
-    const source = { sigma: 0, Q: 1, W: 2, dN: 3 } as Record<string, number>;
+    // Each key and stored column as an index into one row: [Σ, Q, W, ΔN, β̄W].
+    const source = { sigma: 0, Q: 1, W: 2, dN: 3, betaW: 4 } as Record<string, number>;
+    const bb = spec.betaBar;
     const keyAt = Int32Array.from(spec.keyColumns, (c) => source[c]);
     const storedAt = Int32Array.from(spec.storedColumns, (c) => source[c]);
     const row = this.rowBuffer;
@@ -103,6 +107,7 @@ export class SamplesReducer {
       row[1] = Q;
       row[2] = W;
       row[3] = dN;
+      row[4] = bb * W;
       for (let d = 0; d < keyAt.length; d++) x[d] = row[keyAt[d]];
       for (let k = 0; k < storedAt.length; k++) v[k] = row[storedAt[k]];
       table.add(x, v, 1, sigma);
