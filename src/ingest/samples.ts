@@ -9,7 +9,7 @@ import { readNumericTable } from "./fast/fastTable.ts";
 import { reduceSamplesFile, REDUCE_ABOVE_BYTES, type ReducedFields, type ReduceInput } from "./reduce/reduceSamples.ts";
 import { isParquetFile, readParquetRaw, reduceSamplesParquet } from "./reduce/samplesParquet.ts";
 import { formatRowProblems } from "./samplesRows.ts";
-import { newProblemLog, SAMPLE_ROLES, sampleRowsOf, type SampleRole, type SampleRoles } from "./samplesRows.ts";
+import { logSigmaOverflow, newProblemLog, SAMPLE_ROLES, sampleRowsOf, type SampleRole, type SampleRoles } from "./samplesRows.ts";
 import type { SamplesDataset } from "./types.ts";
 
 function reservoirState(r: SamplesDatasetConfig["reservoirs"]["A"], joules: number): ReservoirState {
@@ -94,6 +94,9 @@ function exactFields(input: ReduceInput, table: RawSamples, located: "line" | "r
   const dN = rows.dN ?? new Float64Array(table.rows);
   const realisations = rows.weight ? rows.weight.reduce((a, c) => a + c, 0) : table.rows;
   if (rows.weight && realisations === 0) throw new DataError(`${input.label}: every count in column "${input.roles.count}" is zero; there are no realisations`);
+  const sigma = entropyProduction(input.affinity, W, rows.Q, dN);
+  logSigmaOverflow(sigma, table.lines, input.roles.Q ?? input.roles.dE_B!, problems);
+  if (problems.count > 0) throw new DataError(formatRowProblems(input.label, problems, located));
   return {
     sha256: table.sha256,
     rows: table.rows,
@@ -105,7 +108,7 @@ function exactFields(input: ReduceInput, table: RawSamples, located: "line" | "r
     dE_B: rows.dE_B,
     weight: rows.weight,
     realisations,
-    sigma: entropyProduction(input.affinity, W, rows.Q, dN),
+    sigma,
     reduction: null,
   };
 }

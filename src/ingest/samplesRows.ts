@@ -111,7 +111,10 @@ export function sampleRowsOf(
     weight = Float64Array.from(raw.count.subarray(0, rows));
     for (let i = 0; i < rows; i++) {
       const c = weight[i];
-      if (c < 0 || !Number.isInteger(c)) log(problems, lines[i], roles.count!, `expected a count (a whole number ≥ 0), found ${c}`);
+      // Above 2^53 consecutive whole numbers are no longer all representable (IEEE 754 binary64).
+      if (c < 0 || !Number.isInteger(c) || c > Number.MAX_SAFE_INTEGER) {
+        log(problems, lines[i], roles.count!, `expected a count (a whole number from 0 to ${Number.MAX_SAFE_INTEGER}), found ${c}`);
+      }
     }
   }
   return {
@@ -123,4 +126,12 @@ export function sampleRowsOf(
     dE_B,
     weight,
   };
+}
+
+/** The message for a row whose entropy production is beyond double precision. */
+export const SIGMA_OVERFLOW = "the entropy production of this row is beyond double precision (|Σ| above 1.8e308 k_B); check energy_unit and the reservoirs' temperatures";
+
+/** Log every row whose Σ is not finite (energies so large, or temperatures so small, that it overflows). */
+export function logSigmaOverflow(sigma: ArrayLike<number>, lines: ArrayLike<number>, column: string, problems: ProblemLog): void {
+  for (let i = 0; i < sigma.length; i++) if (!Number.isFinite(sigma[i])) log(problems, lines[i], column, SIGMA_OVERFLOW);
 }

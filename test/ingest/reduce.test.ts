@@ -9,9 +9,10 @@ import { describe, expect, it } from "vitest";
 import { coarserIndex } from "../../src/ingest/reduce/cellTable.ts";
 import { loadAuditDefinition } from "../../src/config/loadAudit.ts";
 import { loadSamples, type SamplesReadOptions } from "../../src/ingest/samples.ts";
-import type { SamplesDataset } from "../../src/ingest/types.ts";
+import type { Dataset, IngestedAudit, SamplesDataset } from "../../src/ingest/types.ts";
 import type { SamplesDatasetConfig } from "../../src/config/types.ts";
 import { runChecks } from "../../src/report/runAudit.ts";
+import type { CheckDefinition, CheckResult } from "../../src/checks/types.ts";
 import { sampleTilted, type TiltedFamily } from "../../src/synth/tiltedFamily.ts";
 import { betaPerMeV } from "../../src/synth/units.ts";
 import { rngFromText } from "../../src/stats/rng.ts";
@@ -327,6 +328,44 @@ datasets:
     expect(reduced.realisations).toBe(40_000);
     expect(statuses(dir, definition, reduced)).toEqual(statuses(dir, definition, fromCsv));
   }, 120_000);
+});
+
+describe("pooling guard", () => {
+  it("reports a failure that coarse pooling can fake as inconclusive, and keeps it where cells are fine", async () => {
+    const dir = auditFor(
+      {
+        name: "guard",
+        rows: 40_000,
+        columns: "{ W: W, Q: Q, dN: dN }",
+        header: "W,Q,dN",
+        line: (W, Q, dN) => `${fixed6(W)},${fixed6(Q)},${dN}`,
+        work: "measured",
+        drawn: family(1.3, 1.0, 0.05, true),
+        declared: { TA: 1.3, TB: 1.0, muA: 0.05 },
+      },
+      "reduce:guard",
+    );
+    const definition = loadAuditDefinition(dir);
+    const config = definition.datasets[0] as SamplesDatasetConfig;
+    const file = path.join(dir, "data/runs.csv");
+    const coarse = await loadSamples(config, file, "datasets[0]", { ...REDUCE, cellCapacity: 3000, threads: false });
+    const fine = await loadSamples(config, file, "datasets[0]", { ...REDUCE, threads: false });
+    expect(coarse.reduction!.steps.sigma).toBeGreaterThan(0.06);
+    expect(fine.reduction!.steps.sigma).toBeLessThanOrEqual(0.06);
+    // A stand-in for a check that finds a violation, under an id whose failures pooling can fake.
+    const failing: CheckDefinition = {
+      id: "weighted-identity",
+      title: "stand-in",
+      kinds: ["samples"],
+      run: (audit: IngestedAudit) => audit.datasets.map((d: Dataset) => ({ check: "weighted-identity", dataset: d.id, status: "fail", summary: "A departure.", values: {}, criteria: {}, assumptions: [] }) as unknown as CheckResult),
+    } as unknown as CheckDefinition;
+    const [onCoarse] = runChecks({ dir, definition, datasets: [coarse] }, [failing]);
+    expect(onCoarse.status).toBe("inconclusive");
+    expect(onCoarse.reason).toMatch(/^the file was summarised into cells [0-9.e+]+ k_B wide in Σ .*the departure found was: A departure\. Audit a part of the file/);
+    expect(onCoarse.assumptions.at(-1)).toMatch(/^Dataset runs \(40,000 realisations\) was summarised while it was read into \d+ cells/);
+    const [onFine] = runChecks({ dir, definition, datasets: [fine] }, [failing]);
+    expect(onFine.status).toBe("fail");
+  });
 });
 
 describe("threshold", () => {

@@ -104,13 +104,23 @@ describe("loadSamples", () => {
 describe("loadSamples errors name file, row and column", () => {
   const heat = `    columns: { Q: q, count: c }\n    energy_unit: J\n    reservoirs: { A: { T: 2 }, B: { T: 1 } }\n    work: zero\n`;
 
+  it("refuses a row whose entropy production overflows double precision, naming its line", async () => {
+    // Σ = a_Q Q with a_Q ≈ 1/(k_B · 0.1 K) − 1/(k_B · 0.3 K) ≈ 4.8e23 1/J and Q = 1e305 eV ≈ 1.6e286 J: about 7.7e309,
+    // beyond the largest double, 1.8e308 (IEEE 754 binary64).
+    const err = await errorOf(`    columns: { Q: q }\n    energy_unit: eV\n    reservoirs: { A: { T: 0.3 }, B: { T: 0.1 } }\n    work: zero\n`, "q\n0.001\n1e305\n");
+    expect(err).toBeInstanceOf(DataError);
+    expect(err.message).toBe(
+      `data/runs.csv:3, column "q": the entropy production of this row is beyond double precision (|Σ| above 1.8e308 k_B); check energy_unit and the reservoirs' temperatures`,
+    );
+  });
+
   it("rejects counts that are not whole numbers, every bad row at once", async () => {
     const err = await errorOf(heat, "q,c\n1,2\n2,1.5\n3,-1\n");
     expect(err).toBeInstanceOf(DataError);
     expect(err.message).toBe(
       [
-        'data/runs.csv:3, column "c": expected a count (a whole number ≥ 0), found 1.5',
-        'data/runs.csv:4, column "c": expected a count (a whole number ≥ 0), found -1',
+        'data/runs.csv:3, column "c": expected a count (a whole number from 0 to 9007199254740991), found 1.5',
+        'data/runs.csv:4, column "c": expected a count (a whole number from 0 to 9007199254740991), found -1',
       ].join("\n"),
     );
   });

@@ -1,6 +1,6 @@
 import fs from "node:fs";
 import { CellTable, type CellTableData, type GridSpec } from "./cellTable.ts";
-import { newProblemLog, sampleRowsOf, type ProblemLog, type SampleRole, type SampleRoles } from "../samplesRows.ts";
+import { logSigmaOverflow, newProblemLog, sampleRowsOf, type ProblemLog, type SampleRole, type SampleRoles } from "../samplesRows.ts";
 import type { RowChunk, ScanLayout, ScanState } from "../fast/scanLines.ts";
 import { scanFileRange } from "../fast/scanRange.ts";
 
@@ -61,6 +61,8 @@ export class SamplesReducer {
     const Q = rows.Q;
     const sigma = new Float64Array(chunk.rows);
     for (let i = 0; i < chunk.rows; i++) sigma[i] = (W ? cW * W[i] : 0) + cQ * Q[i] + (dN ? cN * dN[i] : 0);
+    logSigmaOverflow(sigma, chunk.lines, spec.roles.Q ?? spec.roles.dE_B!, this.rowProblems);
+    if (this.rowProblems.count > 0) return;
     const betaW = W ? W.map((w) => spec.betaBar * w) : null;
     const key = spec.keyColumns.map((c) => (c === "sigma" ? sigma : c === "betaW" ? betaW! : columns[c]!));
     const stored = spec.storedColumns.map((c) => columns[c]!);
@@ -103,6 +105,11 @@ export class SamplesReducer {
       const W = ws ? ws[i] * j : 0;
       const dN = ns ? ns[i] : 0;
       const sigma = cW * W + cQ * Q + cN * dN;
+      if (!Number.isFinite(sigma)) {
+        logSigmaOverflow([sigma], [chunk.lines[i]], spec.roles.Q!, this.rowProblems);
+        continue;
+      }
+      if (this.rowProblems.count > 0) continue; // the file is refused; only the problems matter now
       row[0] = sigma;
       row[1] = Q;
       row[2] = W;
