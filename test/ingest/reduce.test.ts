@@ -26,10 +26,10 @@ const REDUCE: SamplesReadOptions = { reduceAboveBytes: 0 };
 const EXACT: SamplesReadOptions = { reduceAboveBytes: Infinity };
 
 /** Exactly tilted family at reservoirs (TA, TB, μ_A) in K and meV (src/synth/tiltedFamily.ts). */
-function family(TA: number, TB: number, muA: number, withWork: boolean): TiltedFamily {
+function family(TA: number, TB: number, muA: number, work: boolean): TiltedFamily {
   const bA = betaPerMeV(TA);
   const bB = betaPerMeV(TB);
-  return { theta: { W: (bA + bB) / 2, Q: bB - bA, N: bA * muA }, spreadW: withWork ? 0.1 : 0, spreadQ: 0.3, correlation: 0.2, intensity: 1.5 };
+  return { theta: { W: (bA + bB) / 2, Q: bB - bA, N: bA * muA }, spreadW: work ? 0.1 : 0, spreadQ: 0.3, correlation: 0.2, intensity: 1.5 };
 }
 
 interface Scenario {
@@ -84,6 +84,18 @@ function statuses(dir: string, definition: ReturnType<typeof loadAuditDefinition
 
 const fixed6 = (x: number) => x.toFixed(6);
 
+/** W, Q and ΔN columns, drawn from `drawn`, declared at T_A = 1.3 K, T_B = 1 K, μ_A = 0.05 meV. */
+const withWork = (name: string, drawn: TiltedFamily, rows = 200_000): Scenario => ({
+name,
+rows,
+  columns: "{ W: W, Q: Q, dN: dN }",
+  header: "W,Q,dN",
+  line: (W, Q, dN) => `${fixed6(W)},${fixed6(Q)},${dN}`,
+  work: "measured",
+  drawn,
+  declared: { TA: 1.3, TB: 1.0, muA: 0.05 },
+});
+
 describe("cell grid arithmetic", () => {
   it("nests levels exactly and keeps mirrored cells mirrored (integer identities)", () => {
     // ⌊(⌊(k + a)/p⌋ + b)/q⌋ = ⌊(k + a + p b)/(p q)⌋ for integers (Graham, Knuth & Patashnik, Concrete
@@ -101,16 +113,7 @@ describe("cell grid arithmetic", () => {
 });
 
 describe("cell summary of a samples file", () => {
-  const scenario: Scenario = {
-    name: "exact-sums",
-    rows: 60_000,
-    columns: "{ W: W, Q: Q, dN: dN }",
-    header: "W,Q,dN",
-    line: (W, Q, dN) => `${fixed6(W)},${fixed6(Q)},${dN}`,
-    work: "measured",
-    drawn: family(1.3, 1.0, 0.05, true),
-    declared: { TA: 1.3, TB: 1.0, muA: 0.05 },
-  };
+  const scenario = withWork("exact-sums", family(1.3, 1.0, 0.05, true), 60_000);
   const dir = auditFor(scenario, "reduce:sums");
 
   it("keeps the number of realisations, every column total and the sum of e^−Σ of the raw rows", async () => {
@@ -207,45 +210,20 @@ datasets:
 
 describe("verdicts on summarised files equal those on the raw rows (medium data, laws with known answers)", () => {
   const scenarios: Scenario[] = [
+    withWork("work-declared-state", family(1.3, 1.0, 0.05, true)),
+    withWork("drawn-hotter-than-declared", family(1.45, 1.0, 0.05, true)),
     {
-      name: "work-declared-state",
-      rows: 200_000,
-      columns: "{ W: W, Q: Q, dN: dN }",
-      header: "W,Q,dN",
-      line: (W, Q, dN) => `${fixed6(W)},${fixed6(Q)},${dN}`,
-      work: "measured",
-      drawn: family(1.3, 1.0, 0.05, true),
-      declared: { TA: 1.3, TB: 1.0, muA: 0.05 },
-    },
-    {
-      name: "drawn-hotter-than-declared",
-      rows: 200_000,
-      columns: "{ W: W, Q: Q, dN: dN }",
-      header: "W,Q,dN",
-      line: (W, Q, dN) => `${fixed6(W)},${fixed6(Q)},${dN}`,
-      work: "measured",
-      drawn: family(1.45, 1.0, 0.05, true),
-      declared: { TA: 1.3, TB: 1.0, muA: 0.05 },
-    },
-    {
-      name: "no-work",
-      rows: 200_000,
+      ...withWork("no-work", family(1.3, 1.0, 0.05, false)),
       columns: "{ Q: Q, dN: dN }",
       header: "Q,dN",
       line: (_W, Q, dN) => `${fixed6(Q)},${dN}`,
       work: "zero",
-      drawn: family(1.3, 1.0, 0.05, false),
-      declared: { TA: 1.3, TB: 1.0, muA: 0.05 },
     },
     {
-      name: "energy-changes",
-      rows: 200_000,
+      ...withWork("energy-changes", family(1.3, 1.0, 0.05, true)),
       columns: "{ dE_A: ea, dE_B: eb, dN: dN }",
       header: "ea,eb,dN",
       line: (W, Q, dN) => `${fixed6(W / 2 - Q)},${fixed6(W / 2 + Q)},${dN}`,
-      work: "measured",
-      drawn: family(1.3, 1.0, 0.05, true),
-      declared: { TA: 1.3, TB: 1.0, muA: 0.05 },
     },
   ];
   for (const s of scenarios) {
@@ -332,19 +310,7 @@ datasets:
 
 describe("pooling guard", () => {
   it("reports a failure that coarse pooling can fake as inconclusive, and keeps it where cells are fine", async () => {
-    const dir = auditFor(
-      {
-        name: "guard",
-        rows: 40_000,
-        columns: "{ W: W, Q: Q, dN: dN }",
-        header: "W,Q,dN",
-        line: (W, Q, dN) => `${fixed6(W)},${fixed6(Q)},${dN}`,
-        work: "measured",
-        drawn: family(1.3, 1.0, 0.05, true),
-        declared: { TA: 1.3, TB: 1.0, muA: 0.05 },
-      },
-      "reduce:guard",
-    );
+    const dir = auditFor(withWork("guard", family(1.3, 1.0, 0.05, true), 40_000), "reduce:guard");
     const definition = loadAuditDefinition(dir);
     const config = definition.datasets[0] as SamplesDatasetConfig;
     const file = path.join(dir, "data/runs.csv");

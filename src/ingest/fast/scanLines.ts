@@ -59,6 +59,13 @@ const QUOTE = 34;
 const HASH = 35;
 const SPACE = 32;
 const TAB = 9;
+const ZERO = 48;
+const NINE = 57;
+const DOT = 46;
+const PLUS = 43;
+const MINUS = 45;
+const LOWER_E = 101;
+const UPPER_E = 69;
 
 export function newScanState(): ScanState {
   return { line: 0, rows: 0, problems: [], problemCount: 0, structural: null };
@@ -269,11 +276,3 @@ export function scanLines(
 function structural(state: ScanState, reason: string): void {
   state.structural = reason;
 }
-
-const ZERO = 48;
-const NINE = 57;
-const DOT = 46;
-const PLUS = 43;
-const MINUS = 45;
-const LOWER_E = 101;
-const UPPER_E = 69;
