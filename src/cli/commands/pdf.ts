@@ -1,6 +1,5 @@
 import path from "node:path";
 import type { Command } from "commander";
-import { printAuditPdf } from "../../report/pdf/printAuditPdf.ts";
 import { EXIT } from "../exit.ts";
 
 export function registerPdf(program: Command, setExit: (code: number) => void): void {
@@ -11,6 +10,8 @@ export function registerPdf(program: Command, setExit: (code: number) => void): 
     .option("--out <file>", "PDF file to write (default: <audit-id>.pdf in the current folder)")
     .option("--chromium <file>", "Chromium executable (default: $TRANSPORT_AUDIT_CHROMIUM or /usr/bin/chromium)")
     .action(async (dir: string, opts: { out?: string; chromium?: string }) => {
+      // Loaded here, not at the top: playwright-core takes a few tenths of a second to load, which every other command would pay.
+      const { printAuditPdf } = await import("../../report/pdf/printAuditPdf.ts");
       const outcome = await printAuditPdf({ auditDir: dir, ...(opts.out ? { out: opts.out } : {}), ...(opts.chromium ? { chromium: opts.chromium } : {}) });
       process.stderr.write(`printed audit ${outcome.audit.id} (overall verdict: ${outcome.audit.stampLabel.toLowerCase()})\n`);
       process.stdout.write(`${path.relative(process.cwd(), outcome.file) || outcome.file}\n`);
