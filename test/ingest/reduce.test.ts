@@ -6,7 +6,7 @@
 import fs from "node:fs";
 import path from "node:path";
 import { describe, expect, it } from "vitest";
-import { coarserIndex } from "../../src/ingest/reduce/cellTable.ts";
+import { CellTable, coarserIndex, mergeCellTables, type GridSpec } from "../../src/ingest/reduce/cellTable.ts";
 import { loadAuditDefinition } from "../../src/config/loadAudit.ts";
 import { loadSamples, type SamplesReadOptions } from "../../src/ingest/samples.ts";
 import type { Dataset, IngestedAudit, SamplesDataset } from "../../src/ingest/types.ts";
@@ -111,6 +111,62 @@ describe("cell grid arithmetic", () => {
     }
   });
 });
+
+describe("cell table", () => {
+  it("gives the cells of row-by-row insertion from partitioned blocks: bit-identical while the level holds", () => {
+    // Stable partitioning keeps each cell's rows in their order, so every floating-point sum is formed
+    // in the same order: exact equality while the table does not go up a level. A block during which it
+    // does adds its remaining rows in partition order (the same on every run): then equal to rounding.
+    for (const capacity of [100_000, 3000]) check(capacity);
+  });
+});
+
+function check(capacity: number): void {
+    const spec: GridSpec = {
+      dims: 2,
+      step0: Float64Array.from([2 ** -12, 1]),
+      delay: Float64Array.from([0, Infinity]),
+      maxColumnLevel: Float64Array.from([Infinity, Infinity]),
+      stored: 2,
+      pairs: [[0, 0], [0, 1], [1, 1]],
+      capacity,
+      startLevel: 0,
+    };
+    const rng = rngFromText("cell-table:blocks");
+    const rows = 50_000;
+    const x = new Float64Array(rows * 2);
+    const v = new Float64Array(rows * 2);
+    const sigma = new Float64Array(rows);
+    for (let i = 0; i < rows; i++) {
+      sigma[i] = 2 * rng.normal();
+      x[2 * i] = sigma[i];
+      x[2 * i + 1] = Math.round(3 * rng.normal());
+      v[2 * i] = sigma[i] * 1.7;
+      v[2 * i + 1] = x[2 * i + 1];
+    }
+    const one = new CellTable({ ...spec, delay: Float64Array.from(spec.delay), maxColumnLevel: Float64Array.from(spec.maxColumnLevel) });
+    for (let i = 0; i < rows; i++) one.add(x.subarray(2 * i, 2 * i + 2), v.subarray(2 * i, 2 * i + 2), 1, sigma[i]);
+    const blocks = new CellTable({ ...spec, delay: Float64Array.from(spec.delay), maxColumnLevel: Float64Array.from(spec.maxColumnLevel) });
+    for (let from = 0; from < rows; from += 4096) {
+      const to = Math.min(rows, from + 4096);
+      blocks.addRows({ rows: to - from, x: x.slice(2 * from, 2 * to), v: v.slice(2 * from, 2 * to), sigma: sigma.slice(from, to) });
+    }
+    expect(blocks.level).toBe(one.level);
+    const a = mergeCellTables(spec, [one.export()]);
+    const b = mergeCellTables(spec, [blocks.export()]);
+    expect(Array.from(b.keys)).toEqual(Array.from(a.keys));
+    expect(Array.from(b.count)).toEqual(Array.from(a.count));
+    if (one.level === 0) {
+      expect(Array.from(b.sums)).toEqual(Array.from(a.sums));
+      expect(Array.from(b.expSum)).toEqual(Array.from(a.expSum));
+      expect(Array.from(b.products)).toEqual(Array.from(a.products));
+    } else {
+      const why = "the same sums in another order of addition; rtol 1e-12";
+      b.sums.forEach((x, i) => expectClose(x, a.sums[i], { rtol: 1e-12, atol: 1e-12, source: why }));
+      // Σ e^−Σ of a cell is expSum · e^−Σref; the reference Σ itself depends on which row came first.
+      b.expSum.forEach((x, i) => expectClose(x * Math.exp(-b.sigmaRef[i]), a.expSum[i] * Math.exp(-a.sigmaRef[i]), { rtol: 1e-12, source: why }));
+    }
+}
 
 describe("cell summary of a samples file", () => {
   const scenario = withWork("exact-sums", family(1.3, 1.0, 0.05, true), 60_000);

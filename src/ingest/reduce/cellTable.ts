@@ -77,31 +77,76 @@ export function coarserIndex(k: number, fromLevel: number, toLevel: number): num
   return Math.floor((k + (p - 1) / 2) / p);
 }
 
+/** Rows handed to `addRows`: key columns and stored values row-major, one Σ a row, all of weight 1. */
+export interface RowBlock {
+  rows: number;
+  x: Float64Array; // rows × dims
+  v: Float64Array; // rows × stored
+  sigma: Float64Array;
+}
+
+/**
+ * The table. Each cell's record lives at its hash slot, all quantities side by
+ * side in one Float64Array: [key × dims, count, sums × stored, products ×
+ * pairs, Σmin, Σmax, Σref, Σ w e^−(Σ−Σref)]. `addRows` inserts a block of rows
+ * partition by partition (by the top bits of their slots), so that each
+ * partition's records stay in cache while it is filled: with 10^5 cells, random
+ * access into the table otherwise dominates the reading of a large file. Rows
+ * keep their order within a cell (a stable partition), so every sum and each
+ * cell's reference Σ are those of the row-by-row order — except in a block
+ * during which the table goes up a level, whose remaining rows are added in
+ * partition order (the same on every run, so results still reproduce exactly).
+ */
 export class CellTable {
   level = 0;
   size = 0;
-  private slots: number;
-  private mask: number;
-  private slotCell: Int32Array | undefined;
-  private keys!: Float64Array;
-  private count!: Float64Array;
-  private sums!: Float64Array;
-  private sigmaMin!: Float64Array;
-  private sigmaMax!: Float64Array;
-  private sigmaRef!: Float64Array;
-  private products!: Float64Array;
-  private expSum!: Float64Array;
+  private slots = 0;
+  private mask = 0;
+  private used!: Uint8Array;
+  private data!: Float64Array;
+  private readonly maxSlots: number;
+  private readonly stride: number;
+  private readonly oCount: number;
+  private readonly oSums: number;
+  private readonly oProducts: number;
+  private readonly oMin: number;
+  private readonly oMax: number;
+  private readonly oRef: number;
+  private readonly oExp: number;
+  private readonly pairA: Int32Array;
+  private readonly pairB: Int32Array;
   private readonly key: Float64Array;
   private readonly inverseStep: Float64Array;
   /** 3^(column level) of each column at the current table level. */
   private readonly factor: Float64Array;
+  // Scratch for addRows, grown on demand.
+  private hashes = new Int32Array(0);
+  private keysOfRows = new Float64Array(0);
+  private sortedHashes = new Int32Array(0);
+  private sortedKeys = new Float64Array(0);
+  private sortedValues = new Float64Array(0);
+  private sortedSigma = new Float64Array(0);
+  private sortedRow = new Int32Array(0);
+  private readonly partitionStart = new Int32Array(PARTITIONS + 1);
 
   constructor(readonly spec: GridSpec) {
     this.level = spec.startLevel;
-    this.slots = 1;
-    while (this.slots < 2 * spec.capacity) this.slots *= 2;
-    this.mask = this.slots - 1;
-    this.allocate();
+    let max = 1;
+    while (max < 2 * (spec.capacity + 1)) max *= 2;
+    this.maxSlots = max;
+    this.oCount = spec.dims;
+    this.oSums = this.oCount + 1;
+    this.oProducts = this.oSums + spec.stored;
+    this.oMin = this.oProducts + spec.pairs.length;
+    this.oMax = this.oMin + 1;
+    this.oRef = this.oMax + 1;
+    this.oExp = this.oRef + 1;
+    this.stride = this.oExp + 1;
+    this.pairA = Int32Array.from(spec.pairs, (p) => p[0]);
+    this.pairB = Int32Array.from(spec.pairs, (p) => p[1]);
+    // Start at a quarter of the largest table: at most two doublings (re-insertions), and a
+    // smaller working set while the table fills, which is most of the cost on this machine class.
+    this.allocate(Math.max(1 << 10, this.maxSlots / 4));
     this.key = new Float64Array(spec.dims);
     this.inverseStep = Float64Array.from(spec.step0, (s) => 1 / s);
     this.factor = new Float64Array(spec.dims);
@@ -116,29 +161,87 @@ export class CellTable {
     for (let d = 0; d < this.spec.dims; d++) this.factor[d] = 3 ** columnLevel(this.level, this.spec.delay[d], this.spec.maxColumnLevel[d]);
   }
 
-  private allocate(): void {
-    const { dims, stored, capacity } = this.spec;
-    const cells = capacity + 1;
-    if (this.slotCell) {
-      // Reuse the arrays: on this machine class, touching fresh memory costs more than the work itself.
-      this.slotCell.fill(EMPTY);
-      this.count.fill(0);
-      this.sums.fill(0);
-      this.expSum.fill(0);
-      this.products.fill(0);
-      this.size = 0;
-      return;
-    }
-    this.slotCell = new Int32Array(this.slots).fill(EMPTY);
-    this.keys = new Float64Array(cells * dims);
-    this.count = new Float64Array(cells);
-    this.sums = new Float64Array(cells * stored);
-    this.sigmaMin = new Float64Array(cells);
-    this.sigmaMax = new Float64Array(cells);
-    this.sigmaRef = new Float64Array(cells);
-    this.expSum = new Float64Array(cells);
-    this.products = new Float64Array(cells * this.spec.pairs.length);
+  private allocate(slots: number): void {
+    this.slots = slots;
+    this.mask = slots - 1;
+    this.used = new Uint8Array(slots);
+    this.data = new Float64Array(slots * this.stride);
     this.size = 0;
+  }
+
+  /** Grid indices of raw key values x (length dims) at the current level, into `out` at `at`. */
+  private gridKey(x: Float64Array, xAt: number, out: Float64Array, at: number): void {
+    for (let d = 0; d < this.spec.dims; d++) {
+      const k = Math.floor(x[xAt + d] * this.inverseStep[d] + 0.5);
+      const p = this.factor[d];
+      out[at + d] = p === 1 ? k : Math.floor((k + (p - 1) / 2) / p);
+    }
+  }
+
+  private hashOf(key: Float64Array, at: number): number {
+    let h = 0x811c9dc5;
+    for (let d = 0; d < this.spec.dims; d++) {
+      const k = key[at + d];
+      h = Math.imul(h ^ (k | 0), 0x01000193);
+      h = Math.imul(h ^ ((k / 4294967296) | 0), 0x01000193);
+    }
+    return h ^ (h >>> 15);
+  }
+
+  /** Offset of the record with this key (created empty if new). */
+  private recordFor(key: Float64Array, at: number, hash: number): number {
+    const dims = this.spec.dims;
+    const data = this.data;
+    let slot = hash & this.mask;
+    while (this.used[slot] === 1) {
+      const base = slot * this.stride;
+      let same = true;
+      for (let d = 0; d < dims; d++) {
+        if (data[base + d] !== key[at + d]) {
+          same = false;
+          break;
+        }
+      }
+      if (same) return base;
+      slot = (slot + 1) & this.mask;
+    }
+    this.used[slot] = 1;
+    this.size++;
+    const base = slot * this.stride;
+    for (let d = 0; d < dims; d++) data[base + d] = key[at + d];
+    data[base + this.oMin] = Infinity;
+    data[base + this.oMax] = -Infinity;
+    return base;
+  }
+
+  /** Add `weight` realisations at record `base`. */
+  private accumulate(base: number, v: Float64Array, vAt: number, weight: number, sigma: number): void {
+    const data = this.data;
+    if (data[base + this.oCount] === 0) data[base + this.oRef] = sigma;
+    data[base + this.oCount] += weight;
+    const sums = base + this.oSums;
+    for (let s = 0; s < this.spec.stored; s++) data[sums + s] += weight * v[vAt + s];
+    const products = base + this.oProducts;
+    for (let p = 0; p < this.pairA.length; p++) data[products + p] += weight * v[vAt + this.pairA[p]] * v[vAt + this.pairB[p]];
+    if (sigma < data[base + this.oMin]) data[base + this.oMin] = sigma;
+    if (sigma > data[base + this.oMax]) data[base + this.oMax] = sigma;
+    data[base + this.oExp] += weight * Math.exp(data[base + this.oRef] - sigma);
+  }
+
+  /** After a new cell: grow the slots while they can, coarsen once the capacity is reached. */
+  private afterInsert(): boolean {
+    if (this.size > this.spec.capacity) {
+      this.coarsen();
+      return true;
+    }
+    if (2 * this.size > this.slots && this.slots < this.maxSlots) this.grow();
+    return false;
+  }
+
+  private grow(): void {
+    const old = this.export();
+    this.allocate(this.slots * 2);
+    this.absorb(old, false);
   }
 
   /**
@@ -146,58 +249,65 @@ export class CellTable {
    * `values` (length stored) and entropy production `sigma`.
    */
   add(x: Float64Array, values: Float64Array, weight: number, sigma: number): void {
-    const { dims, stored } = this.spec;
-    const key = this.key;
-    for (let d = 0; d < dims; d++) {
-      const k = Math.floor(x[d] * this.inverseStep[d] + 0.5);
-      const p = this.factor[d];
-      key[d] = p === 1 ? k : Math.floor((k + (p - 1) / 2) / p);
-    }
-    const cell = this.cellFor(key);
-    if (this.count[cell] === 0) this.sigmaRef[cell] = sigma;
-    this.count[cell] += weight;
-    const base = cell * stored;
-    for (let s = 0; s < stored; s++) this.sums[base + s] += weight * values[s];
-    const pairs = this.spec.pairs;
-    const pbase = cell * pairs.length;
-    for (let p = 0; p < pairs.length; p++) this.products[pbase + p] += weight * values[pairs[p][0]] * values[pairs[p][1]];
-    if (sigma < this.sigmaMin[cell]) this.sigmaMin[cell] = sigma;
-    if (sigma > this.sigmaMax[cell]) this.sigmaMax[cell] = sigma;
-    this.expSum[cell] += weight * Math.exp(this.sigmaRef[cell] - sigma);
-    if (this.size > this.spec.capacity) this.coarsen();
+    this.gridKey(x, 0, this.key, 0);
+    const before = this.size;
+    const base = this.recordFor(this.key, 0, this.hashOf(this.key, 0));
+    this.accumulate(base, values, 0, weight, sigma);
+    if (this.size !== before) this.afterInsert();
   }
 
-  /** Index of the cell with this key, created empty if new. */
-  private cellFor(key: Float64Array): number {
-    const dims = this.spec.dims;
-    let h = 0x811c9dc5;
-    for (let d = 0; d < dims; d++) {
-      const k = key[d];
-      h = Math.imul(h ^ (k | 0), 0x01000193);
-      h = Math.imul(h ^ ((k / 4294967296) | 0), 0x01000193);
+  /** Add a block of rows of weight 1, partition by partition (see the class comment). */
+  addRows(block: RowBlock): void {
+    const { dims, stored } = this.spec;
+    const n = block.rows;
+    if (this.hashes.length < n) {
+      this.hashes = new Int32Array(n);
+      this.sortedHashes = new Int32Array(n);
+      this.keysOfRows = new Float64Array(n * dims);
+      this.sortedKeys = new Float64Array(n * dims);
+      this.sortedValues = new Float64Array(n * stored);
+      this.sortedSigma = new Float64Array(n);
+      this.sortedRow = new Int32Array(n);
     }
-    h ^= h >>> 15;
-    let slot = h & this.mask;
-    while (true) {
-      const cell = this.slotCell![slot];
-      if (cell === EMPTY) break;
-      let same = true;
-      const base = cell * dims;
-      for (let d = 0; d < dims; d++) {
-        if (this.keys[base + d] !== key[d]) {
-          same = false;
-          break;
-        }
+    const level = this.level;
+    const keys = this.keysOfRows;
+    const hashes = this.hashes;
+    for (let i = 0; i < n; i++) {
+      this.gridKey(block.x, i * dims, keys, i * dims);
+      hashes[i] = this.hashOf(keys, i * dims);
+    }
+    // Stable counting sort of the rows by the top bits of their slot, moving the rows
+    // themselves so that both the rows and the records are then read in order.
+    const shift = Math.max(0, Math.log2(this.slots) - PARTITION_BITS);
+    const start = this.partitionStart;
+    start.fill(0);
+    for (let i = 0; i < n; i++) start[((hashes[i] & this.mask) >>> shift) + 1]++;
+    for (let p = 0; p < PARTITIONS; p++) start[p + 1] += start[p];
+    const sk = this.sortedKeys;
+    const sv = this.sortedValues;
+    const ss = this.sortedSigma;
+    const sh = this.sortedHashes;
+    const sr = this.sortedRow;
+    for (let i = 0; i < n; i++) {
+      const j = start[(hashes[i] & this.mask) >>> shift]++;
+      for (let d = 0; d < dims; d++) sk[j * dims + d] = keys[i * dims + d];
+      for (let s = 0; s < stored; s++) sv[j * stored + s] = block.v[i * stored + s];
+      ss[j] = block.sigma[i];
+      sh[j] = hashes[i];
+      sr[j] = i;
+    }
+    for (let j = 0; j < n; j++) {
+      if (this.level !== level) {
+        // The table went up a level part-way: the rest go in one by one at the new level.
+        const i = sr[j];
+        this.add(block.x.subarray(i * dims, (i + 1) * dims), sv.subarray(j * stored, (j + 1) * stored), 1, ss[j]);
+        continue;
       }
-      if (same) return cell;
-      slot = (slot + 1) & this.mask;
+      const before = this.size;
+      const base = this.recordFor(sk, j * dims, sh[j]);
+      this.accumulate(base, sv, j * stored, 1, ss[j]);
+      if (this.size !== before) this.afterInsert();
     }
-    const cell = this.size++;
-    this.slotCell![slot] = cell;
-    this.keys.set(key, cell * dims);
-    this.sigmaMin[cell] = Infinity;
-    this.sigmaMax[cell] = -Infinity;
-    return cell;
   }
 
   /** Go up one level (or more, until the cells fit): pool neighbouring cells of the coarsenable columns. */
@@ -214,7 +324,7 @@ export class CellTable {
         this.spec.maxColumnLevel.fill(Infinity);
       }
       this.setFactors();
-      this.allocate();
+      this.allocate(this.slots);
       this.absorb(old, false);
     } while (this.size > this.spec.capacity);
   }
@@ -223,41 +333,90 @@ export class CellTable {
   absorb(data: CellTableData, autoCoarsen = true): void {
     const { dims, stored, delay, maxColumnLevel } = this.spec;
     const key = this.key;
+    const P = this.pairA.length;
     for (let c = 0; c < data.cells; c++) {
       for (let d = 0; d < dims; d++) {
         const k = data.keys[c * dims + d];
         key[d] = coarserIndex(k, columnLevel(data.level, delay[d], maxColumnLevel[d]), columnLevel(this.level, delay[d], maxColumnLevel[d]));
       }
-      const cell = this.cellFor(key);
-      if (this.count[cell] === 0) this.sigmaRef[cell] = data.sigmaRef[c];
-      this.count[cell] += data.count[c];
-      for (let s = 0; s < stored; s++) this.sums[cell * stored + s] += data.sums[c * stored + s];
-      const P = this.spec.pairs.length;
-      for (let p = 0; p < P; p++) this.products[cell * P + p] += data.products[c * P + p];
-      if (data.sigmaMin[c] < this.sigmaMin[cell]) this.sigmaMin[cell] = data.sigmaMin[c];
-      if (data.sigmaMax[c] > this.sigmaMax[cell]) this.sigmaMax[cell] = data.sigmaMax[c];
-      this.expSum[cell] += data.expSum[c] * Math.exp(this.sigmaRef[cell] - data.sigmaRef[c]);
-      if (autoCoarsen && this.size > this.spec.capacity) this.coarsen();
+      const before = this.size;
+      const base = this.recordFor(key, 0, this.hashOf(key, 0));
+      const own = this.data;
+      if (own[base + this.oCount] === 0) own[base + this.oRef] = data.sigmaRef[c];
+      own[base + this.oCount] += data.count[c];
+      for (let s = 0; s < stored; s++) own[base + this.oSums + s] += data.sums[c * stored + s];
+      for (let p = 0; p < P; p++) own[base + this.oProducts + p] += data.products[c * P + p];
+      if (data.sigmaMin[c] < own[base + this.oMin]) own[base + this.oMin] = data.sigmaMin[c];
+      if (data.sigmaMax[c] > own[base + this.oMax]) own[base + this.oMax] = data.sigmaMax[c];
+      own[base + this.oExp] += data.expSum[c] * Math.exp(own[base + this.oRef] - data.sigmaRef[c]);
+      if (this.size === before) continue;
+      if (autoCoarsen) this.afterInsert();
+      else if (2 * this.size > this.slots && this.slots < this.maxSlots) {
+        // Growing while re-inserting: finish into a larger table (the old one is a snapshot).
+        const partial = this.export();
+        const rest: CellTableData = sliceCells(data, c + 1, dims, stored, P);
+        this.allocate(this.slots * 2);
+        this.absorb(partial, false);
+        this.absorb(rest, false);
+        return;
+      }
     }
   }
 
-  /** The occupied cells as plain arrays, in the order they were created. */
+  /** The occupied cells as plain arrays, in slot order. */
   export(): CellTableData {
     const { dims, stored } = this.spec;
+    const P = this.pairA.length;
     const n = this.size;
-    return {
+    const out: CellTableData = {
       level: this.level,
       cells: n,
-      keys: this.keys.slice(0, n * dims),
-      count: this.count.slice(0, n),
-      sums: this.sums.slice(0, n * stored),
-      sigmaMin: this.sigmaMin.slice(0, n),
-      sigmaMax: this.sigmaMax.slice(0, n),
-      sigmaRef: this.sigmaRef.slice(0, n),
-      expSum: this.expSum.slice(0, n),
-      products: this.products.slice(0, n * this.spec.pairs.length),
+      keys: new Float64Array(n * dims),
+      count: new Float64Array(n),
+      sums: new Float64Array(n * stored),
+      sigmaMin: new Float64Array(n),
+      sigmaMax: new Float64Array(n),
+      sigmaRef: new Float64Array(n),
+      expSum: new Float64Array(n),
+      products: new Float64Array(n * P),
     };
+    const data = this.data;
+    let c = 0;
+    for (let slot = 0; slot < this.slots; slot++) {
+      if (this.used[slot] === 0) continue;
+      const base = slot * this.stride;
+      for (let d = 0; d < dims; d++) out.keys[c * dims + d] = data[base + d];
+      out.count[c] = data[base + this.oCount];
+      for (let s = 0; s < stored; s++) out.sums[c * stored + s] = data[base + this.oSums + s];
+      for (let p = 0; p < P; p++) out.products[c * P + p] = data[base + this.oProducts + p];
+      out.sigmaMin[c] = data[base + this.oMin];
+      out.sigmaMax[c] = data[base + this.oMax];
+      out.sigmaRef[c] = data[base + this.oRef];
+      out.expSum[c] = data[base + this.oExp];
+      c++;
+    }
+    return out;
   }
+}
+
+/** Partitions of a block of rows in `addRows`: 2^6, so that a partition's records fit in cache. */
+const PARTITION_BITS = 8;
+const PARTITIONS = 1 << PARTITION_BITS;
+
+/** Cells [from, cells) of a table's data. */
+function sliceCells(data: CellTableData, from: number, dims: number, stored: number, P: number): CellTableData {
+  return {
+    level: data.level,
+    cells: data.cells - from,
+    keys: data.keys.subarray(from * dims),
+    count: data.count.subarray(from),
+    sums: data.sums.subarray(from * stored),
+    sigmaMin: data.sigmaMin.subarray(from),
+    sigmaMax: data.sigmaMax.subarray(from),
+    sigmaRef: data.sigmaRef.subarray(from),
+    expSum: data.expSum.subarray(from),
+    products: data.products.subarray(from * P),
+  };
 }
 
 /**

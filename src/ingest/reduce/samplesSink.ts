@@ -1,5 +1,5 @@
 import fs from "node:fs";
-import { CellTable, type CellTableData, type GridSpec } from "./cellTable.ts";
+import { CellTable, type CellTableData, type GridSpec, type RowBlock } from "./cellTable.ts";
 import { logSigmaOverflow, newProblemLog, sampleRowsOf, type ProblemLog, type SampleRole, type SampleRoles } from "../samplesRows.ts";
 import type { RowChunk, ScanLayout, ScanState } from "../fast/scanLines.ts";
 import { scanFileRange } from "../fast/scanRange.ts";
@@ -39,6 +39,15 @@ export class SamplesReducer {
   readonly xBuffer: Float64Array;
   readonly vBuffer: Float64Array;
   private readonly rowBuffer = new Float64Array(5);
+  private block: RowBlock = { rows: 0, x: new Float64Array(0), v: new Float64Array(0), sigma: new Float64Array(0) };
+
+  /** Buffers for a block of rows, reused from chunk to chunk. */
+  private blockFor(rows: number, dims: number, stored: number): RowBlock {
+    if (this.block.sigma.length < rows) {
+      this.block = { rows: 0, x: new Float64Array(rows * dims), v: new Float64Array(rows * stored), sigma: new Float64Array(rows) };
+    }
+    return this.block;
+  }
 
   constructor(readonly spec: SamplesReductionSpec) {
     this.table = new CellTable({ ...spec.grid, pairs: spec.grid.pairs.map(([a, b]) => [a, b]), delay: Float64Array.from(spec.grid.delay), maxColumnLevel: Float64Array.from(spec.grid.maxColumnLevel), step0: Float64Array.from(spec.grid.step0) });
@@ -97,9 +106,12 @@ export class SamplesReducer {
     const keyAt = Int32Array.from(spec.keyColumns, (c) => source[c]);
     const storedAt = Int32Array.from(spec.storedColumns, (c) => source[c]);
     const row = this.rowBuffer;
-    const x = this.xBuffer;
-    const v = this.vBuffer;
-    const table = this.table;
+    const dims = keyAt.length;
+    const S = storedAt.length;
+    const block = this.blockFor(chunk.rows, dims, S);
+    const x = block.x;
+    const v = block.v;
+    let n = 0;
     for (let i = 0; i < chunk.rows; i++) {
       const Q = qs[i] * j;
       const W = ws ? ws[i] * j : 0;
@@ -115,10 +127,13 @@ export class SamplesReducer {
       row[2] = W;
       row[3] = dN;
       row[4] = bb * W;
-      for (let d = 0; d < keyAt.length; d++) x[d] = row[keyAt[d]];
-      for (let k = 0; k < storedAt.length; k++) v[k] = row[storedAt[k]];
-      table.add(x, v, 1, sigma);
+      for (let d = 0; d < dims; d++) x[n * dims + d] = row[keyAt[d]];
+      for (let k = 0; k < S; k++) v[n * S + k] = row[storedAt[k]];
+      block.sigma[n] = sigma;
+      n++;
     }
+    block.rows = n;
+    this.table.addRows(block);
   }
 }
 
