@@ -68,7 +68,9 @@ function realisationOrder(d: SamplesDataset, rng: Rng, cap: number): Uint32Array
 function runningEstimatePlot(d: SamplesDataset, shift: number, z: number, confidence: number, rng: Rng, fullMean: number): PlotSpec {
   const sigma = d.sigma;
   const total = d.realisations;
-  const order = realisationOrder(d, rng, 2_000_000);
+  // A summarised file (10^7 realisations and more) draws fewer: the curve's shape is set by then, and
+  // the last point is the full average anyway.
+  const order = realisationOrder(d, rng, d.reduction ? 1 << 18 : 2_000_000);
   const marks: number[] = [];
   for (let k = 0; k <= 120; k++) marks.push(Math.round(Math.exp(Math.log(Math.min(10, total)) + ((Math.log(total) - Math.log(Math.min(10, total))) * k) / 120)));
   const xs: number[] = [];
