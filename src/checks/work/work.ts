@@ -101,7 +101,8 @@ export function workForDataset(d: SamplesDataset, ctx: CheckContext): CheckResul
   const bb = d.affinity.beta_bar;
   const meanBW = bb * m.mean;
   const seBW = bb * m.standardError;
-  const rmsBW = bb * Math.sqrt(rmsOf(W, weight) ** 2 + withinCellScatter(d, "W", "W") / m.n);
+  const scatterW = withinCellScatter(d, "W", "W");
+  const rmsBW = bb * (scatterW > 0 ? Math.sqrt(rmsOf(W, weight) ** 2 + scatterW / m.n) : rmsOf(W, weight));
   const z = normalQuantile(1 - (1 - confidence) / 2);
   const ciBW: [number, number] = [meanBW - z * seBW, meanBW + z * seBW];
   const pMean = seBW > 0 ? normalTwoSidedP(meanBW / seBW) : meanBW === 0 ? 1 : 0;
