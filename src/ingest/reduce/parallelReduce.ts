@@ -33,7 +33,7 @@ let bundled: Promise<string | null> | null = null;
  * second on this machine class, which would cost more than the parallel
  * reading saves. Null when bundling is not possible (then tsx is used).
  */
-function workerBundle(): Promise<string | null> {
+export function workerBundle(): Promise<string | null> {
   bundled ??= (async () => {
     try {
       const esbuild = await import("esbuild");
