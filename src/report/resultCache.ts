@@ -4,6 +4,7 @@ import path from "node:path";
 import { fileURLToPath } from "node:url";
 import { confinePath } from "../config/confinePath.ts";
 import { loadAuditDefinition } from "../config/loadAudit.ts";
+import { sha256HexOfFile } from "../ingest/fileDigest.ts";
 import { canonicalJson } from "./canonicalJson.ts";
 import type { ResultDocument } from "./resultDocument.ts";
 import { fingerprintFromDigests, runAudit, type InputDigest } from "./runAudit.ts";
@@ -35,25 +36,6 @@ export function cacheFileOf(cacheDir: string, fingerprint: string): string {
   return path.join(cacheDir, `${fingerprint.replace(/^sha256:/, "")}.json`);
 }
 
-const CHUNK = 1 << 20;
-
-/** Hex SHA-256 of a file's bytes, read in 1 MiB chunks (memory stays flat for large files). */
-export function fileSha256Hex(file: string): string {
-  const hash = createHash("sha256");
-  const buffer = Buffer.allocUnsafe(CHUNK);
-  const fd = fs.openSync(file, "r");
-  try {
-    for (;;) {
-      const n = fs.readSync(fd, buffer, 0, CHUNK, null);
-      if (n === 0) break;
-      hash.update(buffer.subarray(0, n));
-    }
-  } finally {
-    fs.closeSync(fd);
-  }
-  return hash.digest("hex");
-}
-
 /**
  * The fingerprint of an audit folder from its definition and the digests of
  * its data files, without parsing the data. Equals the `fingerprint` of the
@@ -66,7 +48,7 @@ export function folderFingerprint(dir: string): string {
   const inputs: InputDigest[] = definition.datasets.map((d, i) => ({
     id: d.id,
     file: d.file,
-    sha256: fileSha256Hex(confinePath(dir, d.file, `datasets[${i}].file`)),
+    sha256: sha256HexOfFile(confinePath(dir, d.file, `datasets[${i}].file`)),
   }));
   return fingerprintFromDigests(definition, inputs);
 }

@@ -12,10 +12,10 @@ import { main } from "../../src/cli/program.ts";
 import { ingestAudit } from "../../src/ingest/loadAudit.ts";
 import { buildSite } from "../../src/report/buildSite.ts";
 import { canonicalJson } from "../../src/report/canonicalJson.ts";
+import { sha256HexOfFile, sha256HexOfFileAsync } from "../../src/ingest/fileDigest.ts";
 import {
   asStored,
   cacheFileOf,
-  fileSha256Hex,
   folderFingerprint,
   pruneResultCache,
   readCachedResult,
@@ -64,16 +64,18 @@ function addSecondAudit(a: TempArchive, id: string): string {
 }
 
 describe("the fingerprint without parsing the data", () => {
-  it("streams a file's SHA-256 exactly as a one-shot digest does", () => {
+  it("streams a file's SHA-256 exactly as a one-shot digest does (in this thread and asynchronously)", async () => {
     // Reference: FIPS 180-4 test vector, SHA-256("abc").
     const a = makeTempArchive();
     const file = path.join(a.root, "abc.txt");
     fs.writeFileSync(file, "abc");
-    expect(fileSha256Hex(file)).toBe("ba7816bf8f01cfea414140de5dae2223b00361a396177a9cb410ff61f20015ad");
+    expect(sha256HexOfFile(file)).toBe("ba7816bf8f01cfea414140de5dae2223b00361a396177a9cb410ff61f20015ad");
+    expect(await sha256HexOfFileAsync(file)).toBe("ba7816bf8f01cfea414140de5dae2223b00361a396177a9cb410ff61f20015ad");
     // Longer than one 1 MiB read: 3 MiB of a repeating pattern, against node's one-shot digest of the whole buffer.
     const big = Buffer.alloc(3 * 1024 * 1024 + 17, "0123456789abcdef");
     fs.writeFileSync(file, big);
-    expect(fileSha256Hex(file)).toBe(createHash("sha256").update(big).digest("hex"));
+    expect(sha256HexOfFile(file)).toBe(createHash("sha256").update(big).digest("hex"));
+    expect(await sha256HexOfFileAsync(file)).toBe(createHash("sha256").update(big).digest("hex"));
   });
 
   it("equals the fingerprint of the ingested audit for the smaller demo audits (every kind of dataset)", async () => {
@@ -160,7 +162,7 @@ describe("what misses the cache", () => {
     const changed = await runAuditCached(a.auditDir, cacheOf(a));
     expect(changed.fromCache).toBe(false);
     expect(changed.result.fingerprint).not.toBe(first.result.fingerprint);
-    expect(changed.result.datasets[0].sha256).toBe(fileSha256Hex(a.dataFile));
+    expect(changed.result.datasets[0].sha256).toBe(sha256HexOfFile(a.dataFile));
     fs.writeFileSync(a.dataFile, original);
     const back = await runAuditCached(a.auditDir, cacheOf(a));
     expect(back.fromCache).toBe(true);

@@ -1,6 +1,6 @@
 import { openParquet } from "./openParquet.ts";
 import { topLevelColumns } from "./numericColumns.ts";
-import { sha256OfFile } from "./sha256OfFile.ts";
+import { sha256HexOfFileAsync } from "../fileDigest.ts";
 import type { ParquetInfo } from "./types.ts";
 
 /**
@@ -17,5 +17,5 @@ export async function parquetInfo(filePath: string, label: string): Promise<Parq
   } finally {
     await open.file.close();
   }
-  return { rows, columns, sha256: await sha256OfFile(filePath) };
+  return { rows, columns, sha256: await sha256HexOfFileAsync(filePath) };
 }

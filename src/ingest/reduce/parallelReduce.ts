@@ -5,6 +5,7 @@ import { fileURLToPath } from "node:url";
 import { createHash } from "node:crypto";
 import { Worker } from "node:worker_threads";
 import type { ScanLayout } from "../fast/scanLines.ts";
+import { sha256HexOfFileAsync } from "../fileDigest.ts";
 import { reduceFileRange, type SamplesPartSummary, type SamplesReductionSpec } from "./samplesSink.ts";
 
 /** One thread's share of a file. */
@@ -93,17 +94,6 @@ export function lineAlignedCuts(fd: number, from: number, to: number, parts: num
   return cuts;
 }
 
-/** SHA-256 of a whole file, streamed. */
-export function digestOfFile(file: string): Promise<string> {
-  return new Promise((resolve, reject) => {
-    const hash = createHash("sha256");
-    fs.createReadStream(file, { highWaterMark: 4 << 20 })
-      .on("data", (chunk) => hash.update(chunk))
-      .on("error", reject)
-      .on("end", () => resolve(hash.digest("hex")));
-  });
-}
-
 /**
  * Reduce the data lines [from, to) of a file in PARTS ranges, on worker threads
  * (or all in this thread with `threads: false`, same result), while this
@@ -127,11 +117,11 @@ export async function reduceInParts(
   const jobs: RangeJob[] = [];
   for (let k = 0; k < PARTS; k++) jobs.push({ file, start: cuts[k], end: cuts[k + 1], layout, spec });
   if (options.threads === false) {
-    const sha256 = await digestOfFile(file);
+    const sha256 = await sha256HexOfFileAsync(file);
     return { parts: jobs.map((j) => reduceFileRange(j.file, j.start, j.end, j.layout, j.spec, options.onBytes)), sha256 };
   }
   void workerBundle(); // start bundling while the file is cut
-  const digest = digestOfFile(file);
+  const digest = sha256HexOfFileAsync(file);
   const parts = await Promise.all(jobs.map((job) => runJob(job, options.onBytes)));
   return { parts, sha256: await digest };
 }
