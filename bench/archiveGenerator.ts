@@ -21,6 +21,7 @@ import path from "node:path";
 import { publishAudit } from "../src/archive/publish.ts";
 import { BOLTZMANN, ELEMENTARY_CHARGE, LORENZ_SOMMERFELD } from "../src/physics/constants.ts";
 import { rngFromText, type Rng } from "../src/stats/rng.ts";
+import { writeAuditFolder } from "../src/synth/auditFolder.ts";
 import { sampleTilted } from "../src/synth/tiltedFamily.ts";
 import { cell, csv, tiltedSkellam } from "../scripts/demo/sampling.ts";
 import type { DemoAudit } from "../scripts/demo/types.ts";
@@ -178,13 +179,7 @@ license: CC-BY-4.0
 
 function writeAudit(root: string, audit: DemoAudit): string {
   const dir = path.join(root, "audits", audit.id);
-  fs.mkdirSync(dir, { recursive: true });
-  fs.writeFileSync(path.join(dir, "audit.yaml"), audit.yaml);
-  for (const [file, content] of Object.entries(audit.files)) {
-    const target = path.join(dir, file);
-    fs.mkdirSync(path.dirname(target), { recursive: true });
-    fs.writeFileSync(target, content);
-  }
+  writeAuditFolder(dir, audit, true);
   return dir;
 }
 

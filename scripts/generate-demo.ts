@@ -2,13 +2,13 @@
 // Deterministic: every sampler is seeded from a fixed text, so rerunning the
 // script reproduces the committed files byte for byte.
 //   npm run demo:generate
-import fs from "node:fs";
 import path from "node:path";
 import { qdHeatExchange, nwSwitchingWork, ddCountingBackaction } from "./demo/exchange.ts";
 import { abInterferometerSweep } from "./demo/coefficients.ts";
 import { vq5BiasSweep, lc60Series } from "./demo/sweep.ts";
 import { lr40SimulatedExchange, qd9SimulatedCounting } from "./demo/simulated.ts";
 import type { DemoAudit } from "./demo/types.ts";
+import { writeAuditFolder } from "../src/synth/auditFolder.ts";
 
 const GENERATORS: (() => DemoAudit)[] = [qdHeatExchange, nwSwitchingWork, ddCountingBackaction, abInterferometerSweep, vq5BiasSweep, lc60Series, lr40SimulatedExchange, qd9SimulatedCounting];
 
@@ -16,12 +16,6 @@ const root = path.resolve(process.argv[2] ?? "audits");
 for (const generate of GENERATORS) {
   const audit = generate();
   const dir = path.join(root, audit.id);
-  fs.mkdirSync(dir, { recursive: true });
-  fs.writeFileSync(path.join(dir, "audit.yaml"), audit.yaml);
-  for (const [file, content] of Object.entries(audit.files)) {
-    const target = path.join(dir, file);
-    fs.mkdirSync(path.dirname(target), { recursive: true });
-    fs.writeFileSync(target, content);
-  }
+  writeAuditFolder(dir, audit, true);
   process.stderr.write(`wrote ${path.relative(process.cwd(), dir)}\n`);
 }

@@ -11,10 +11,12 @@ export interface SynthAudit {
 }
 
 /**
- * Write a simulated audit into `dir`. An existing audit.yaml is only replaced
- * with `force`, so a user's own audit is never overwritten by accident.
+ * Write an audit folder (audit.yaml and its files) into `dir`: simulated
+ * audits, and the generated demo and benchmark archives. An existing
+ * audit.yaml is only replaced with `force`, so a user's own audit is never
+ * overwritten by accident.
  */
-export function writeAuditFolder(dir: string, audit: SynthAudit, force = false): string[] {
+export function writeAuditFolder(dir: string, audit: Pick<SynthAudit, "yaml" | "files">, force = false): string[] {
   const yamlPath = path.join(dir, "audit.yaml");
   if (fs.existsSync(yamlPath) && !force) {
     throw new InputError(`${yamlPath}: already exists; choose another --out folder, or pass --force to replace the simulated audit`);
