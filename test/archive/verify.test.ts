@@ -4,25 +4,10 @@ import path from "node:path";
 import { afterEach, describe, expect, it, vi } from "vitest";
 import { publishAudit } from "../../src/archive/publish.ts";
 import { formatVerifyReport, verifyVersion } from "../../src/archive/verify.ts";
-import { main } from "../../src/cli/program.ts";
+import { cli } from "../helpers/cliInProcess.ts";
 import { auditYaml, fixedClock, makeTempArchive } from "./tempArchive.ts";
 
 const sha256Hex = (bytes: Buffer | string) => createHash("sha256").update(bytes).digest("hex");
-
-/** Run the CLI in this process, capturing what it prints. */
-async function runCli(args: string[]): Promise<{ code: number; stdout: string; stderr: string }> {
-  let stdout = "";
-  let stderr = "";
-  const out = vi.spyOn(process.stdout, "write").mockImplementation((chunk: string | Uint8Array) => ((stdout += String(chunk)), true));
-  const err = vi.spyOn(process.stderr, "write").mockImplementation((chunk: string | Uint8Array) => ((stderr += String(chunk)), true));
-  try {
-    const code = await main(args);
-    return { code, stdout, stderr };
-  } finally {
-    out.mockRestore();
-    err.mockRestore();
-  }
-}
 
 afterEach(() => vi.restoreAllMocks());
 
@@ -140,27 +125,27 @@ describe("verifyVersion", () => {
 describe("transport-audit verify (exit status of the contract)", () => {
   it("exits 0 when reproduced, 1 when not, 2 when there is nothing to verify", async () => {
     const { a } = await publishedArchive();
-    const ok = await runCli(["verify", a.auditDir, "--version", "1"]);
+    const ok = await cli(["verify", a.auditDir, "--version", "1"]);
     expect(ok.code).toBe(0);
     expect(ok.stdout).toContain("REPRODUCED: version 1 of dot-lab-exchange");
     a.writeData(400, 1, "a different run");
-    const bad = await runCli(["verify", a.auditDir]);
+    const bad = await cli(["verify", a.auditDir]);
     expect(bad.code).toBe(1);
     expect(bad.stdout).toContain("NOT REPRODUCED: version 1 of dot-lab-exchange");
-    const none = await runCli(["verify", makeTempArchive().auditDir]);
+    const none = await cli(["verify", makeTempArchive().auditDir]);
     expect(none.code).toBe(2);
-    const badNumber = await runCli(["verify", a.auditDir, "--version", "two"]);
+    const badNumber = await cli(["verify", a.auditDir, "--version", "two"]);
     expect(badNumber.code).toBe(2);
     expect(badNumber.stderr).toContain(`option '--version <N>' argument 'two' is invalid. expected a version number 1, 2, 3, …, found "two"`);
   });
 
   it("publish prints the version and the verify command, and refuses a repeat with exit status 2", async () => {
     const a = makeTempArchive();
-    const first = await runCli(["publish", a.auditDir]);
+    const first = await cli(["publish", a.auditDir]);
     expect(first.code).toBe(0);
     expect(first.stdout).toContain(`published dot-lab-exchange version 1 in ${path.join(a.auditDir, "versions", "1")}`);
     expect(first.stdout).toContain(`verify it with: transport-audit verify ${a.auditDir} --version 1`);
-    const again = await runCli(["publish", a.auditDir]);
+    const again = await cli(["publish", a.auditDir]);
     expect(again.code).toBe(2);
     expect(again.stderr).toContain("nothing changed since version 1");
   });

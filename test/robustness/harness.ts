@@ -6,9 +6,8 @@
 import { spawnSync } from "node:child_process";
 import path from "node:path";
 import { fileURLToPath } from "node:url";
-import { vi } from "vitest";
-import { main } from "../../src/cli/program.ts";
 import { tempAudit } from "../helpers/tempAudit.ts";
+import { ANSI, type CliRun } from "../helpers/cliInProcess.ts";
 
 export const REPO = path.resolve(path.dirname(fileURLToPath(import.meta.url)), "..", "..");
 export const BIN = path.join(REPO, "bin", "transport-audit.js");
@@ -39,35 +38,7 @@ export function auditWith(yaml = VALID_YAML, files: Record<string, string> = { "
   return tempAudit(yaml, files);
 }
 
-// eslint-disable-next-line no-control-regex
-const ANSI = /\u001b\[[0-9;]*m/g;
-
-export interface CliRun {
-  code: number;
-  stdout: string;
-  stderr: string;
-}
-
-/** Run the command line in this process (as bin/transport-audit.js does), capturing both streams. */
-export async function cli(args: string[]): Promise<CliRun> {
-  let stdout = "";
-  let stderr = "";
-  const out = vi.spyOn(process.stdout, "write").mockImplementation((chunk: string | Uint8Array) => {
-    stdout += String(chunk);
-    return true;
-  });
-  const err = vi.spyOn(process.stderr, "write").mockImplementation((chunk: string | Uint8Array) => {
-    stderr += String(chunk);
-    return true;
-  });
-  try {
-    const code = await main(args);
-    return { code, stdout: stdout.replace(ANSI, ""), stderr: stderr.replace(ANSI, "") };
-  } finally {
-    out.mockRestore();
-    err.mockRestore();
-  }
-}
+export { cli } from "../helpers/cliInProcess.ts";
 
 /** Run the real launcher in a child process (a fresh Node, as a user's shell would). */
 export function cliProcess(args: string[]): CliRun {

@@ -1,31 +1,10 @@
 import fs from "node:fs";
 import os from "node:os";
 import path from "node:path";
-import { describe, expect, it, vi } from "vitest";
-import { main } from "../../src/cli/program.ts";
+import { describe, expect, it } from "vitest";
+import { cli } from "../helpers/cliInProcess.ts";
 import { DOT_PARAMETERS, FERMION_PARAMETERS, TILTED_PARAMETERS } from "../../src/synth/index.ts";
 import { parseParameters } from "../../src/synth/parameters.ts";
-
-/** Run the command line in this process (spawning a process per call is slow on a loaded machine). */
-async function cli(args: string[]): Promise<{ code: number; stdout: string; stderr: string }> {
-  let stdout = "";
-  let stderr = "";
-  const out = vi.spyOn(process.stdout, "write").mockImplementation((chunk: string | Uint8Array) => {
-    stdout += String(chunk);
-    return true;
-  });
-  const err = vi.spyOn(process.stderr, "write").mockImplementation((chunk: string | Uint8Array) => {
-    stderr += String(chunk);
-    return true;
-  });
-  try {
-    const code = await main(args);
-    return { code, stdout, stderr: stderr.replace(/\x1b\[[0-9;]*m/g, "") };
-  } finally {
-    out.mockRestore();
-    err.mockRestore();
-  }
-}
 
 describe("transport-audit synth (contract: audit-format.md)", () => {
   for (const [model, table] of [
