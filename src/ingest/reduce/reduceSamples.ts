@@ -10,7 +10,7 @@ import { MAX_ROW_PROBLEMS, newProblemLog, sampleRowsOf, type SampleRole, type Sa
 import type { SamplesDataset, SamplesReduction } from "../types.ts";
 import { coarserIndex, columnLevel, MAX_LEVEL, mergeCellTables } from "./cellTable.ts";
 import { PARTS, reduceInParts, workerBundle } from "./parallelReduce.ts";
-import type { KeyColumn, SampleColumn, SamplesPartSummary, SamplesReductionSpec } from "./samplesSink.ts";
+import { sigmaOfRows, type KeyColumn, type SampleColumn, type SamplesPartSummary, type SamplesReductionSpec } from "./samplesSink.ts";
 
 /**
  * Files above this size are summarised while they are read instead of being
@@ -184,11 +184,7 @@ export function reductionSpec(input: ReduceInput, probe: RowChunk | null, slotNa
     if (sample === null) return null;
     if (c === "betaW") return sample.W_data ? sample.W_data.map((w) => a.beta_bar * w) : null;
     if (c !== "sigma") return { Q: sample.Q, W: sample.W_data, dN: sample.dN, dE_A: sample.dE_A, dE_B: sample.dE_B }[c];
-    const out = new Float64Array(sample.rows);
-    for (let i = 0; i < sample.rows; i++) {
-      out[i] = (sample.W_data ? sigma.cW * sample.W_data[i] : 0) + sigma.cQ * sample.Q[i] + (sample.dN ? sigma.cN * sample.dN[i] : 0);
-    }
-    return out;
+    return sigmaOfRows(sample, sigma);
   };
 
   const step0 = new Float64Array(keyColumns.length);

@@ -1,6 +1,6 @@
 import fs from "node:fs";
 import { CellTable, type CellTableData, type GridSpec, type RowBlock } from "./cellTable.ts";
-import { logSigmaOverflow, newProblemLog, sampleRowsOf, type ProblemLog, type SampleRole, type SampleRoles } from "../samplesRows.ts";
+import { logSigmaOverflow, newProblemLog, sampleRowsOf, type ProblemLog, type SampleRole, type SampleRoles, type SampleRows } from "../samplesRows.ts";
 import type { RowChunk, ScanLayout, ScanState } from "../fast/scanLines.ts";
 import { scanFileRange } from "../fast/scanRange.ts";
 
@@ -64,12 +64,8 @@ export class SamplesReducer {
     const rows = sampleRowsOf(raw, spec.roles, spec.joules, chunk.rows, chunk.lines, this.rowProblems);
     if (this.rowProblems.count > 0) return; // the file is refused; only the problems matter now
     const columns: Record<SampleColumn, Float64Array | null> = { Q: rows.Q, W: rows.W_data, dN: rows.dN, dE_A: rows.dE_A, dE_B: rows.dE_B };
-    const { cW, cQ, cN } = spec.sigma;
     const W = rows.W_data;
-    const dN = rows.dN;
-    const Q = rows.Q;
-    const sigma = new Float64Array(chunk.rows);
-    for (let i = 0; i < chunk.rows; i++) sigma[i] = (W ? cW * W[i] : 0) + cQ * Q[i] + (dN ? cN * dN[i] : 0);
+    const sigma = sigmaOfRows(rows, spec.sigma);
     logSigmaOverflow(sigma, chunk.lines, spec.roles.Q ?? spec.roles.dE_B!, this.rowProblems);
     if (this.rowProblems.count > 0) return;
     const betaW = W ? W.map((w) => spec.betaBar * w) : null;
@@ -135,6 +131,14 @@ export class SamplesReducer {
     block.rows = n;
     this.table.addRows(block);
   }
+}
+
+/** Σ = cW W + cQ Q + cN ΔN of each row (k_B); `acceptPlain` forms the same sum row by row. */
+export function sigmaOfRows(rows: SampleRows, c: SamplesReductionSpec["sigma"]): Float64Array {
+  const { W_data: W, Q, dN } = rows;
+  const sigma = new Float64Array(rows.rows);
+  for (let i = 0; i < rows.rows; i++) sigma[i] = (W ? c.cW * W[i] : 0) + c.cQ * Q[i] + (dN ? c.cN * dN[i] : 0);
+  return sigma;
 }
 
 /** Scan one byte range of a file and reduce it: the work of one thread. */
