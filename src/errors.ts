@@ -33,6 +33,9 @@ export class ArchiveError extends InputError {
   override name = "ArchiveError";
 }
 
+/** At most this many problems are listed in one message; the others are counted. */
+export const MAX_REPORTED_PROBLEMS = 20;
+
 /** One located problem in a file; several are gathered before failing. */
 export interface CellProblem {
   row: number; // 1-based as a person counts lines, header included
@@ -45,7 +48,31 @@ export interface CellProblem {
  * one go: `data/run3.csv:14, column "n": expected a number, found "seven"`.
  */
 export function formatCellProblems(file: string, problems: CellProblem[], cap: number, total = problems.length): string {
-  const lines = problems.slice(0, cap).map((p) => `${file}:${p.row}, column "${p.column}": ${p.message}`);
+  return formatProblems(file, problems, cap, total, (p) => `${file}:${p.row}, column "${p.column}"`);
+}
+
+/** The same for files without lines (Parquet): `data/run3.parquet, row 14, column "n": …`, rows counted from 1. */
+export function formatRowNumberedProblems(file: string, problems: CellProblem[], total = problems.length): string {
+  return formatProblems(file, problems, MAX_REPORTED_PROBLEMS, total, (p) => `${file}, row ${p.row}, column "${p.column}"`);
+}
+
+function formatProblems(file: string, problems: CellProblem[], cap: number, total: number, where: (p: CellProblem) => string): string {
+  const lines = problems.slice(0, cap).map((p) => `${where(p)}: ${p.message}`);
   if (total > cap) lines.push(`… and ${total - cap} more problem(s) in ${file}`);
   return lines.join("\n");
+}
+
+/** Problems gathered over a file before failing: the first MAX_REPORTED_PROBLEMS, and how many in all. */
+export interface ProblemLog {
+  problems: CellProblem[];
+  count: number;
+}
+
+export function newProblemLog(): ProblemLog {
+  return { problems: [], count: 0 };
+}
+
+export function recordProblem(log: ProblemLog, row: number, column: string, message: string): void {
+  log.count++;
+  if (log.problems.length < MAX_REPORTED_PROBLEMS) log.problems.push({ row, column, message });
 }

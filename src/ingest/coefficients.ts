@@ -15,7 +15,7 @@
  * be given coefficients at all (thermoelectric form without Π, at B ≠ 0,
  * without its −B partner to supply Π(B) = T S(−B)) is the input refused.
  */
-import { ConfigError, DataError, formatCellProblems, type CellProblem } from "../errors.ts";
+import { ConfigError, DataError, formatCellProblems, MAX_REPORTED_PROBLEMS, newProblemLog, recordProblem } from "../errors.ts";
 import type { CoefficientsDatasetConfig } from "../config/types.ts";
 import { nearest } from "../config/nearest.ts";
 import { parseUnit, toSI, type ParsedUnit, type QuantityKey } from "../physics/units.ts";
@@ -25,7 +25,6 @@ import type { CoefficientPoint, CoefficientsDataset, PairingFinding } from "./ty
 
 const MAX_FLUXES = 9;
 const THERMOELECTRIC = ["G", "S", "Pi", "K"] as const;
-const MAX_REPORTED = 20;
 /** Paired rows whose temperatures differ by more than this fraction are reported. */
 const TEMPERATURE_TOLERANCE = 1e-3;
 
@@ -246,12 +245,8 @@ export async function loadCoefficients(config: CoefficientsDatasetConfig, filePa
   }
 
   // Per-cell checks: T > 0, u ≥ 0; gathered before failing.
-  const problems: CellProblem[] = [];
-  let problemCount = 0;
-  const problem = (i: number, column: string, message: string) => {
-    problemCount++;
-    if (problems.length < MAX_REPORTED) problems.push({ row: table.lineOfRow[i], column, message });
-  };
+  const problems = newProblemLog();
+  const problem = (i: number, column: string, message: string) => recordProblem(problems, table.lineOfRow[i], column, message);
   const Tcol = "column" in config.temperature ? table.columns.get(config.temperature.column)! : null;
   const Tvalue = "value" in config.temperature ? config.temperature.value : Number.NaN;
   for (let i = 0; i < table.rows; i++) {
@@ -263,7 +258,7 @@ export async function loadCoefficients(config: CoefficientsDatasetConfig, filePa
       }
     }
   }
-  if (problemCount > 0) throw new DataError(formatCellProblems(config.file, problems, MAX_REPORTED, problemCount));
+  if (problems.count > 0) throw new DataError(formatCellProblems(config.file, problems.problems, MAX_REPORTED_PROBLEMS, problems.count));
 
   const si = (role: string, i: number, uncertainty = false): number => {
     const raw = table.columns.get(col(uncertainty ? `u_${role}` : role))![i];

@@ -1,7 +1,7 @@
 import fs from "node:fs";
 import { createHash } from "node:crypto";
 import { CsvError, parse } from "csv-parse";
-import { DataError, formatCellProblems, type CellProblem } from "../errors.ts";
+import { DataError, formatCellProblems, MAX_REPORTED_PROBLEMS, newProblemLog, recordProblem } from "../errors.ts";
 import { nearest } from "../config/nearest.ts";
 
 /** A column of a CSV file that a dataset needs, and whether it may be missing. */
@@ -20,8 +20,6 @@ export interface NumericTable {
   lineOfRow: Uint32Array;
   headers: string[];
 }
-
-const MAX_REPORTED = 20;
 
 /**
  * The longest line (in characters) a table may have. A row of numbers, even
@@ -257,8 +255,7 @@ export async function readNumericCsv(filePath: string, label: string, requests: 
 
   let headers: string[] | null = null;
   let indices: { request: ColumnRequest; index: number; column: GrowableColumn }[] = [];
-  const problems: CellProblem[] = [];
-  let problemCount = 0;
+  const problems = newProblemLog();
   const lines = new GrowableColumn();
   let rows = 0;
   try {
@@ -291,8 +288,7 @@ export async function readNumericCsv(filePath: string, label: string, requests: 
       for (const entry of indices) {
         const parsed = describeCellProblem(record[entry.index] ?? "");
         if (typeof parsed === "string") {
-          problemCount++;
-          if (problems.length < MAX_REPORTED) problems.push({ row: info.lines, column: entry.request.column, message: parsed });
+          recordProblem(problems, info.lines, entry.request.column, parsed);
           entry.column.push(Number.NaN);
         } else entry.column.push(parsed);
       }
@@ -308,7 +304,7 @@ export async function readNumericCsv(filePath: string, label: string, requests: 
     stream.destroy();
   }
   if (headers === null) throw new DataError(`${label}: the file is empty; expected a header row and data rows`);
-  if (problemCount > 0) throw new DataError(formatCellProblems(label, problems, MAX_REPORTED, problemCount));
+  if (problems.count > 0) throw new DataError(formatCellProblems(label, problems.problems, MAX_REPORTED_PROBLEMS, problems.count));
   if (rows === 0) throw new DataError(`${label}: the file has a header but no data rows`);
   const columns = new Map<string, Float64Array>();
   for (const entry of indices) columns.set(entry.request.column, entry.column.toArray());

@@ -1,5 +1,5 @@
 import fs from "node:fs";
-import { ConfigError, DataError } from "../errors.ts";
+import { ConfigError, DataError, newProblemLog } from "../errors.ts";
 import type { SamplesDatasetConfig } from "../config/types.ts";
 import { joulesPerEnergyUnit, type EnergyUnit } from "../physics/energyUnits.ts";
 import { affinities, reservoirFromBeta, reservoirFromTemperature, type ReservoirState } from "../physics/affinities.ts";
@@ -9,7 +9,7 @@ import { readNumericTable } from "./fast/fastTable.ts";
 import { reduceSamplesFile, REDUCE_ABOVE_BYTES, type ReducedFields, type ReduceInput } from "./reduce/reduceSamples.ts";
 import { isParquetFile, readParquetRaw, reduceSamplesParquet } from "./reduce/samplesParquet.ts";
 import { formatRowProblems } from "./samplesRows.ts";
-import { logSigmaOverflow, newProblemLog, SAMPLE_ROLES, sampleRowsOf, type SampleRole, type SampleRoles } from "./samplesRows.ts";
+import { logSigmaOverflow, SAMPLE_ROLES, sampleRowsOf, type SampleRole, type SampleRoles } from "./samplesRows.ts";
 import type { SamplesDataset } from "./types.ts";
 
 function reservoirState(r: SamplesDatasetConfig["reservoirs"]["A"], joules: number): ReservoirState {

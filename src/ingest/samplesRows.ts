@@ -1,4 +1,4 @@
-import { formatCellProblems, type CellProblem } from "../errors.ts";
+import { formatCellProblems, formatRowNumberedProblems, MAX_REPORTED_PROBLEMS, recordProblem, type ProblemLog } from "../errors.ts";
 
 /**
  * Row rules of a `samples` dataset, shared by the whole-table reader and the
@@ -21,32 +21,14 @@ export interface SampleRoles {
 export const SAMPLE_ROLES = ["dE_A", "dE_B", "Q", "dN", "W", "count"] as const;
 export type SampleRole = (typeof SAMPLE_ROLES)[number];
 
-/** The first problems found, and how many there were. */
-export interface ProblemLog {
-  problems: CellProblem[];
-  count: number;
-}
-
-export const MAX_ROW_PROBLEMS = 20;
-
-export function newProblemLog(): ProblemLog {
-  return { problems: [], count: 0 };
-}
-
 /**
  * Problems as one message: `file:line, column "c": …` for text files (lines as
  * a person counts them), `file, row N, column "c": …` for Parquet (rows from 1).
  */
 export function formatRowProblems(label: string, problems: ProblemLog, located: "line" | "row"): string {
-  if (located === "line") return formatCellProblems(label, problems.problems, MAX_ROW_PROBLEMS, problems.count);
-  const lines = problems.problems.slice(0, MAX_ROW_PROBLEMS).map((p) => `${label}, row ${p.row}, column "${p.column}": ${p.message}`);
-  if (problems.count > MAX_ROW_PROBLEMS) lines.push(`… and ${problems.count - MAX_ROW_PROBLEMS} more problem(s) in ${label}`);
-  return lines.join("\n");
-}
-
-function log(problems: ProblemLog, row: number, column: string, message: string): void {
-  problems.count++;
-  if (problems.problems.length < MAX_ROW_PROBLEMS) problems.problems.push({ row, column, message });
+  return located === "line"
+    ? formatCellProblems(label, problems.problems, MAX_REPORTED_PROBLEMS, problems.count)
+    : formatRowNumberedProblems(label, problems.problems, problems.count);
 }
 
 /** One chunk of rows in SI (J) with their multiplicities. Arrays are `rows` long. */
@@ -97,10 +79,10 @@ export function sampleRowsOf(
       // (1e-6 of the largest energy in the row).
       const scale = Math.max(Math.abs(dE_A[i]), Math.abs(dE_B[i]));
       if (givenQ && Math.abs(givenQ[i] - derivedQ[i]) > 1e-6 * Math.max(scale, Math.abs(givenQ[i]))) {
-        log(problems, lines[i], roles.Q!, "disagrees with (dE_B − dE_A)/2 from the dE_A and dE_B columns of the same row; map either the column or the energy changes, or correct the row");
+        recordProblem(problems, lines[i], roles.Q!, "disagrees with (dE_B − dE_A)/2 from the dE_A and dE_B columns of the same row; map either the column or the energy changes, or correct the row");
       }
       if (givenW && Math.abs(givenW[i] - derivedW[i]) > 1e-6 * Math.max(scale, Math.abs(givenW[i]))) {
-        log(problems, lines[i], roles.W!, "disagrees with dE_A + dE_B from the dE_A and dE_B columns of the same row; map either the column or the energy changes, or correct the row");
+        recordProblem(problems, lines[i], roles.W!, "disagrees with dE_A + dE_B from the dE_A and dE_B columns of the same row; map either the column or the energy changes, or correct the row");
       }
     }
     Q = givenQ ?? derivedQ;
@@ -113,7 +95,7 @@ export function sampleRowsOf(
       const c = weight[i];
       // Above 2^53 consecutive whole numbers are no longer all representable (IEEE 754 binary64).
       if (c < 0 || !Number.isInteger(c) || c > Number.MAX_SAFE_INTEGER) {
-        log(problems, lines[i], roles.count!, `expected a count (a whole number from 0 to ${Number.MAX_SAFE_INTEGER}), found ${c}`);
+        recordProblem(problems, lines[i], roles.count!, `expected a count (a whole number from 0 to ${Number.MAX_SAFE_INTEGER}), found ${c}`);
       }
     }
   }
@@ -133,5 +115,5 @@ export const SIGMA_OVERFLOW = "the entropy production of this row is beyond doub
 
 /** Log every row whose Σ is not finite (energies so large, or temperatures so small, that it overflows). */
 export function logSigmaOverflow(sigma: ArrayLike<number>, lines: ArrayLike<number>, column: string, problems: ProblemLog): void {
-  for (let i = 0; i < sigma.length; i++) if (!Number.isFinite(sigma[i])) log(problems, lines[i], column, SIGMA_OVERFLOW);
+  for (let i = 0; i < sigma.length; i++) if (!Number.isFinite(sigma[i])) recordProblem(problems, lines[i], column, SIGMA_OVERFLOW);
 }

@@ -1,9 +1,9 @@
 import fs from "node:fs";
 import { createHash, type Hash } from "node:crypto";
-import { DataError, formatCellProblems, type CellProblem } from "../../errors.ts";
+import { DataError, formatCellProblems, MAX_REPORTED_PROBLEMS, type CellProblem } from "../../errors.ts";
 import { readNumericCsv, type ColumnRequest, type NumericTable } from "../readCsv.ts";
 import { plainHeader, type PlainHeader } from "./header.ts";
-import { MAX_PROBLEMS, type RowChunk } from "./scanLines.ts";
+import type { RowChunk } from "./scanLines.ts";
 import { scanFileRange } from "./scanRange.ts";
 
 /**
@@ -93,7 +93,7 @@ export function hashPrefix(fd: number, end: number, hash: Hash): void {
 export function throwCellProblems(label: string, problems: CellProblem[], total: number, lineOffset: number): void {
   if (total === 0) return;
   const located = problems.map((p) => ({ ...p, row: p.row + lineOffset }));
-  throw new DataError(formatCellProblems(label, located, MAX_PROBLEMS, total));
+  throw new DataError(formatCellProblems(label, located, MAX_REPORTED_PROBLEMS, total));
 }
 
 class GrowingColumn {

@@ -1,4 +1,4 @@
-import type { CellProblem } from "../../errors.ts";
+import { MAX_REPORTED_PROBLEMS, type CellProblem } from "../../errors.ts";
 import { describeCellProblem } from "../readCsv.ts";
 
 /**
@@ -48,7 +48,6 @@ export interface ScanState {
   structural: string | null;
 }
 
-export const MAX_PROBLEMS = 20;
 /** Numeric records are short; a longer line sends the file to the reference reader. */
 export const MAX_LINE_BYTES = 1 << 20;
 
@@ -261,7 +260,7 @@ export function scanLines(
         const message = lineProblems[slot];
         if (message === null) continue;
         state.problemCount++;
-        if (state.problems.length < MAX_PROBLEMS) state.problems.push({ row: state.line, column: layout.slotNames[slot], message });
+        if (state.problems.length < MAX_REPORTED_PROBLEMS) state.problems.push({ row: state.line, column: layout.slotNames[slot], message });
         lineProblems[slot] = null;
       }
     }

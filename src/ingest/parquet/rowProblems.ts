@@ -1,7 +1,5 @@
-import { DataError } from "../../errors.ts";
+import { DataError, formatRowNumberedProblems, MAX_REPORTED_PROBLEMS } from "../../errors.ts";
 
-/** At most this many problems are listed; the rest are counted (as readNumericCsv does). */
-export const MAX_REPORTED = 20;
 
 // Integers of magnitude up to 2^53 are exactly representable as IEEE 754 doubles; above
 // it not every integer is (IEEE 754-2019, binary64 has a 53-bit significand).
@@ -30,7 +28,7 @@ function before(a: RowProblem, b: RowProblem): boolean {
 
 /**
  * Bad cells of a file, gathered so that a user can fix them in one go. Keeps the
- * MAX_REPORTED earliest (by row, then column) whatever order the column chunks are
+ * MAX_REPORTED_PROBLEMS earliest (by row, then column) whatever order the column chunks are
  * decoded in, and counts the others, so memory stays bounded on a file full of nulls.
  */
 export class RowProblems {
@@ -42,7 +40,7 @@ export class RowProblems {
   add(row: number, columnIndex: number, column: string, value: unknown): void {
     this.total++;
     const problem = { row, columnIndex, column, value };
-    if (this.kept.length < MAX_REPORTED) {
+    if (this.kept.length < MAX_REPORTED_PROBLEMS) {
       this.kept.push(problem);
       return;
     }
@@ -53,11 +51,10 @@ export class RowProblems {
 
   /** One line per kept problem, `file, row N, column "c": …`, rows counted from 1. */
   toError(): DataError {
-    const lines = [...this.kept]
+    const kept = [...this.kept]
       .sort((a, b) => a.row - b.row || a.columnIndex - b.columnIndex)
-      .map((p) => `${this.label}, row ${p.row + 1}, column "${p.column}": ${describeBadValue(p.value)}`);
-    if (this.total > MAX_REPORTED) lines.push(`… and ${this.total - MAX_REPORTED} more problem(s) in ${this.label}`);
-    return new DataError(lines.join("\n"));
+      .map((p) => ({ row: p.row + 1, column: p.column, message: describeBadValue(p.value) }));
+    return new DataError(formatRowNumberedProblems(this.label, kept, this.total));
   }
 }
 

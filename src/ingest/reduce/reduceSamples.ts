@@ -1,12 +1,12 @@
 import fs from "node:fs";
-import { DataError, formatCellProblems, type CellProblem } from "../../errors.ts";
+import { DataError, formatCellProblems, type CellProblem, MAX_REPORTED_PROBLEMS, newProblemLog } from "../../errors.ts";
 import type { Affinities } from "../../physics/affinities.ts";
 import { entropyProduction } from "../../physics/entropyProduction.ts";
 import type { ColumnRequest } from "../readCsv.ts";
 import { openPlain } from "../fast/fastTable.ts";
 import type { RowChunk, ScanLayout } from "../fast/scanLines.ts";
 import { scanFileRange } from "../fast/scanRange.ts";
-import { MAX_ROW_PROBLEMS, newProblemLog, sampleRowsOf, type SampleRole, type SampleRoles } from "../samplesRows.ts";
+import { sampleRowsOf, type SampleRole, type SampleRoles } from "../samplesRows.ts";
 import type { SamplesDataset, SamplesReduction } from "../types.ts";
 import { coarserIndex, columnLevel, MAX_LEVEL, mergeCellTables } from "./cellTable.ts";
 import { PARTS, reduceInParts, workerBundle } from "./parallelReduce.ts";
@@ -133,7 +133,7 @@ function throwPartProblems(
     for (const p of problemsOf(part)) located.push({ ...p, row: p.row + offset });
     offset += part.state.line;
   }
-  throw new DataError(formatCellProblems(label, located.slice(0, MAX_ROW_PROBLEMS), MAX_ROW_PROBLEMS, total));
+  throw new DataError(formatCellProblems(label, located.slice(0, MAX_REPORTED_PROBLEMS), MAX_REPORTED_PROBLEMS, total));
 }
 
 /** The first whole rows of a plain CSV file (up to PROBE_BYTES), as the scanner gives them; null if none. */

@@ -1,6 +1,7 @@
 import fs from "node:fs";
+import { newProblemLog, type ProblemLog } from "../../errors.ts";
 import { CellTable, type CellTableData, type GridSpec, type RowBlock } from "./cellTable.ts";
-import { logSigmaOverflow, newProblemLog, sampleRowsOf, type ProblemLog, type SampleRole, type SampleRoles, type SampleRows } from "../samplesRows.ts";
+import { logSigmaOverflow, sampleRowsOf, type SampleRole, type SampleRoles, type SampleRows } from "../samplesRows.ts";
 import type { RowChunk, ScanLayout, ScanState } from "../fast/scanLines.ts";
 import { scanFileRange } from "../fast/scanRange.ts";
 
