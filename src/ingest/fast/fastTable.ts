@@ -46,7 +46,7 @@ export async function readNumericTable(
       },
     );
     if (state.structural !== null || state.rows === 0) return readNumericCsv(filePath, label, requests);
-    throwCellProblems(label, state.problems, state.problemCount, header.headerLines);
+    throwRangeProblems(label, header.headerLines, [{ problems: state.problems, count: state.problemCount, lines: state.line }]);
     const table = new Map<string, Float64Array>();
     header.layout.slotNames.forEach((name, s) => table.set(name, columns[s].toArray()));
     return { sha256: hash.digest("hex"), rows: state.rows, columns: table, lineOfRow: lines.toArray(), headers: header.names };
@@ -89,11 +89,29 @@ export function hashPrefix(fd: number, end: number, hash: Hash): void {
   hash.update(buffer.subarray(0, read));
 }
 
-/** Cell problems found by the scanner, as the reference reader words them (lines made absolute). */
-export function throwCellProblems(label: string, problems: CellProblem[], total: number, lineOffset: number): void {
+/** Problems found in one range of a file, their lines counted from the range's start. */
+export interface RangeProblems {
+  problems: CellProblem[];
+  count: number;
+  /** Lines in the range. */
+  lines: number;
+}
+
+/**
+ * Problems of consecutive ranges of a file (the data after `headerLines`
+ * lines), in file order with absolute lines, thrown as the reference reader
+ * words them; nothing when there are none.
+ */
+export function throwRangeProblems(label: string, headerLines: number, ranges: RangeProblems[]): void {
+  const total = ranges.reduce((a, r) => a + r.count, 0);
   if (total === 0) return;
-  const located = problems.map((p) => ({ ...p, row: p.row + lineOffset }));
-  throw new DataError(formatCellProblems(label, located, MAX_REPORTED_PROBLEMS, total));
+  const located: CellProblem[] = [];
+  let offset = headerLines;
+  for (const range of ranges) {
+    for (const p of range.problems) located.push({ ...p, row: p.row + offset });
+    offset += range.lines;
+  }
+  throw new DataError(formatCellProblems(label, located.slice(0, MAX_REPORTED_PROBLEMS), MAX_REPORTED_PROBLEMS, total));
 }
 
 class GrowingColumn {

@@ -1,16 +1,16 @@
 import fs from "node:fs";
-import { DataError, formatCellProblems, type CellProblem, MAX_REPORTED_PROBLEMS, newProblemLog } from "../../errors.ts";
+import { DataError, newProblemLog } from "../../errors.ts";
 import type { Affinities } from "../../physics/affinities.ts";
 import { entropyProduction } from "../../physics/entropyProduction.ts";
 import type { ColumnRequest } from "../readCsv.ts";
-import { openPlain } from "../fast/fastTable.ts";
+import { openPlain, throwRangeProblems } from "../fast/fastTable.ts";
 import type { RowChunk, ScanLayout } from "../fast/scanLines.ts";
 import { scanFileRange } from "../fast/scanRange.ts";
 import { sampleRowsOf, type SampleRole, type SampleRoles } from "../samplesRows.ts";
 import type { SamplesDataset, SamplesReduction } from "../types.ts";
 import { coarserIndex, columnLevel, MAX_LEVEL, mergeCellTables } from "./cellTable.ts";
 import { PARTS, reduceInParts, workerBundle } from "./parallelReduce.ts";
-import { sigmaOfRows, type KeyColumn, type SampleColumn, type SamplesPartSummary, type SamplesReductionSpec } from "./samplesSink.ts";
+import { sigmaOfRows, type KeyColumn, type SampleColumn, type SamplesReductionSpec } from "./samplesSink.ts";
 
 /**
  * Files above this size are summarised while they are read instead of being
@@ -111,29 +111,10 @@ export async function reduceSamplesFile(
   if (parts.some((p) => p.state.structural !== null)) return null;
   const rows = parts.reduce((a, p) => a + p.state.rows, 0);
   if (rows === 0) return null;
-  throwPartProblems(input.label, parts, header.headerLines, (p) => p.state.problems, (p) => p.state.problemCount);
-  throwPartProblems(input.label, parts, header.headerLines, (p) => p.rowProblems.problems, (p) => p.rowProblems.count);
+  throwRangeProblems(input.label, header.headerLines, parts.map((p) => ({ problems: p.state.problems, count: p.state.problemCount, lines: p.state.line })));
+  throwRangeProblems(input.label, header.headerLines, parts.map((p) => ({ problems: p.rowProblems.problems, count: p.rowProblems.count, lines: p.state.line })));
   const merged = mergeCellTables(spec.grid, parts.map((p) => p.table));
   return fieldsFromCells(input, spec, merged, rows, sha256, PARTS);
-}
-
-/** Problems of all parts, in file order with absolute lines, thrown as one message (or nothing). */
-function throwPartProblems(
-  label: string,
-  parts: SamplesPartSummary[],
-  headerLines: number,
-  problemsOf: (p: SamplesPartSummary) => CellProblem[],
-  countOf: (p: SamplesPartSummary) => number,
-): void {
-  const total = parts.reduce((a, p) => a + countOf(p), 0);
-  if (total === 0) return;
-  const located: CellProblem[] = [];
-  let offset = headerLines;
-  for (const part of parts) {
-    for (const p of problemsOf(part)) located.push({ ...p, row: p.row + offset });
-    offset += part.state.line;
-  }
-  throw new DataError(formatCellProblems(label, located.slice(0, MAX_REPORTED_PROBLEMS), MAX_REPORTED_PROBLEMS, total));
 }
 
 /** The first whole rows of a plain CSV file (up to PROBE_BYTES), as the scanner gives them; null if none. */
