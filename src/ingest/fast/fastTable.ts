@@ -78,7 +78,7 @@ export function openPlain(filePath: string, label: string, requests: ColumnReque
 }
 
 /** Feed bytes [0, end) of a file into a hash. */
-export function hashPrefix(fd: number, end: number, hash: Hash): void {
+function hashPrefix(fd: number, end: number, hash: Hash): void {
   const buffer = Buffer.allocUnsafe(end);
   let read = 0;
   while (read < end) {

@@ -48,9 +48,6 @@ export interface ScanState {
   structural: string | null;
 }
 
-/** Numeric records are short; a longer line sends the file to the reference reader. */
-export const MAX_LINE_BYTES = 1 << 20;
-
 const NL = 10;
 const CR = 13;
 const COMMA = 44;

@@ -1,6 +1,7 @@
 import fs from "node:fs";
 import type { Hash } from "node:crypto";
-import { ChunkBuilder, MAX_LINE_BYTES, newScanState, scanLines, type RowChunk, type ScanLayout, type ScanState } from "./scanLines.ts";
+import { MAX_LINE_CHARS } from "../readCsv.ts";
+import { ChunkBuilder, newScanState, scanLines, type RowChunk, type ScanLayout, type ScanState } from "./scanLines.ts";
 
 /** Bytes read at a time: large enough for system calls not to matter, small enough for the cache. */
 export const BLOCK_BYTES = 4 << 20;
@@ -57,7 +58,8 @@ export function scanFileRange(
     if (cut > 0) scanLines(buffer, 0, cut, layout, state, chunk, flush);
     options.onBytes?.(got);
     carry = filled - cut;
-    if (carry > MAX_LINE_BYTES) state.structural = `a line longer than ${MAX_LINE_BYTES} bytes`;
+    // The reference reader's limit (numeric lines are ASCII, so characters are bytes); it words the refusal.
+    if (carry > MAX_LINE_CHARS) state.structural = `a line longer than ${MAX_LINE_CHARS} bytes`;
     else if (carry > 0) buffer.copy(buffer, 0, cut, filled);
   }
   flush();

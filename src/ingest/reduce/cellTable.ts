@@ -150,14 +150,11 @@ export class CellTable {
     this.key = new Float64Array(spec.dims);
     this.inverseStep = Float64Array.from(spec.step0, (s) => 1 / s);
     this.factor = new Float64Array(spec.dims);
-    this.setFactors();
+    this.refreshFactors();
   }
 
+  /** 3^(column level) of each column, after the level was set. */
   refreshFactors(): void {
-    this.setFactors();
-  }
-
-  private setFactors(): void {
     for (let d = 0; d < this.spec.dims; d++) this.factor[d] = 3 ** columnLevel(this.level, this.spec.delay[d], this.spec.maxColumnLevel[d]);
   }
 
@@ -323,7 +320,7 @@ export class CellTable {
         });
         this.spec.maxColumnLevel.fill(Infinity);
       }
-      this.setFactors();
+      this.refreshFactors();
       this.allocate(this.slots);
       this.absorb(old, false);
     } while (this.size > this.spec.capacity);
