@@ -37,8 +37,8 @@ export interface SamplesPartSummary {
 export class SamplesReducer {
   readonly table: CellTable;
   readonly rowProblems = newProblemLog();
-  readonly xBuffer: Float64Array;
-  readonly vBuffer: Float64Array;
+  private readonly xBuffer: Float64Array;
+  private readonly vBuffer: Float64Array;
   private readonly rowBuffer = new Float64Array(5);
   private block: RowBlock = { rows: 0, x: new Float64Array(0), v: new Float64Array(0), sigma: new Float64Array(0) };
 
