@@ -125,147 +125,156 @@ export function scanLines(
   const fieldCount = layout.fieldCount;
   const slotOfField = layout.slotOfField;
   const lineProblems: (string | null)[] = new Array(slots).fill(null);
+  // Counters live in locals while the lines are scanned, and go back to state and chunk on the way out.
+  const { values, lines, capacity } = chunk;
+  let line = state.line;
+  let rows = state.rows;
+  let row = chunk.rows;
   let pos = from;
-  while (pos < to) {
-    let c = bytes[pos];
-    // Mixed line ends are counted differently by csv-parse; the reference reader takes such files.
-    if (c === NL) {
-      if (layout.crlf) return structural(state, "mixed line ends");
-      state.line++;
-      pos++;
-      continue; // empty line
-    }
-    if (c === CR && bytes[pos + 1] === NL) {
-      if (!layout.crlf) return structural(state, "mixed line ends");
-      state.line++;
-      pos += 2;
-      continue;
-    }
-    if (c === HASH) {
-      state.line++;
-      const nl = bytes.indexOf(NL, pos);
-      if ((bytes[nl - 1] === CR) !== layout.crlf) return structural(state, "mixed line ends");
-      pos = nl + 1;
-      continue; // comment line
-    }
-    state.line++;
-    const lineStart = pos;
-    const row = chunk.rows;
-    let field = 0;
-    let hasProblem = false;
-    let p = pos;
-    // One field per turn; p ends on the comma, CR or NL that closes it.
-    while (true) {
-      const fieldStart = p;
-      const slot = field < fieldCount ? slotOfField[field] : -1;
-      c = bytes[p];
-      while (c === SPACE || c === TAB) c = bytes[++p];
-      if (slot >= 0) {
-        let negative = false;
-        if (c === MINUS || c === PLUS) {
-          negative = c === MINUS;
-          c = bytes[++p];
-        }
-        let m = 0;
-        let digits = 0;
-        let any = false;
-        let scale = 0;
-        while (c >= ZERO && c <= NINE) {
-          any = true;
-          if (m !== 0 || c !== ZERO) {
-            m = m * 10 + (c - ZERO);
-            digits++;
-          }
-          c = bytes[++p];
-        }
-        if (c === DOT) {
-          c = bytes[++p];
-          while (c >= ZERO && c <= NINE) {
-            any = true;
-            scale--;
-            if (m !== 0 || c !== ZERO) {
-              m = m * 10 + (c - ZERO);
-              digits++;
-            }
-            c = bytes[++p];
-          }
-        }
-        let exact = any;
-        if (exact && (c === LOWER_E || c === UPPER_E)) {
-          c = bytes[++p];
-          let expNegative = false;
-          if (c === MINUS || c === PLUS) {
-            expNegative = c === MINUS;
-            c = bytes[++p];
-          }
-          let exponent = 0;
-          let expDigits = 0;
-          while (c >= ZERO && c <= NINE) {
-            if (exponent < 10000) exponent = exponent * 10 + (c - ZERO);
-            expDigits++;
-            c = bytes[++p];
-          }
-          if (expDigits === 0) exact = false;
-          scale += expNegative ? -exponent : exponent;
-        }
-        while (c === SPACE || c === TAB) c = bytes[++p];
-        if (c !== COMMA && c !== NL && c !== CR) exact = false;
-        if (digits > 16 || (digits === 16 && m >= TWO_53) || scale > 22 || scale < -22) exact = false;
-        let value: number;
-        if (exact) {
-          value = m === 0 ? 0 : scale === 0 ? m : scale > 0 ? m * POW10[scale] : m / POW10[-scale];
-          if (negative) value = -value;
-        } else {
-          // Outside the fast path: the cell's text goes through the reference cell rules.
-          p = fieldStart;
-          c = bytes[p];
-          while (c !== COMMA && c !== NL && c !== QUOTE && c !== CR) c = bytes[++p];
-          if (c === QUOTE) return structural(state, "a quoted field");
-          if (c === CR && bytes[p + 1] !== NL) return structural(state, "a carriage return inside a line");
-          const parsed = describeCellProblem(decoder.decode(bytes.subarray(fieldStart, p)));
-          if (typeof parsed === "string") {
-            lineProblems[slot] = parsed;
-            hasProblem = true;
-            value = Number.NaN;
-          } else value = parsed;
-        }
-        chunk.values[slot][row] = value;
-      } else {
-        while (c !== COMMA && c !== NL && c !== QUOTE && c !== CR) c = bytes[++p];
-        if (c === QUOTE) return structural(state, "a quoted field");
+  try {
+    while (pos < to) {
+      let c = bytes[pos];
+      // Mixed line ends are counted differently by csv-parse; the reference reader takes such files.
+      if (c === NL) {
+        if (layout.crlf) return structural(state, "mixed line ends");
+        line++;
+        pos++;
+        continue; // empty line
       }
-      field++;
-      if (c === COMMA) {
-        p++;
+      if (c === CR && bytes[pos + 1] === NL) {
+        if (!layout.crlf) return structural(state, "mixed line ends");
+        line++;
+        pos += 2;
         continue;
       }
-      if (c === CR && bytes[p + 1] !== NL) return structural(state, "a carriage return inside a line");
-      break;
-    }
-    const crlf = bytes[p] === CR;
-    if (crlf !== layout.crlf) return structural(state, "mixed line ends");
-    const lineEnd = crlf ? p + 2 : p + 1;
-    if (field !== fieldCount) return structural(state, `a record with ${field} field(s) where the header has ${fieldCount}`);
-    if (bytes[lineStart] === SPACE || bytes[lineStart] === TAB) {
-      // A blank-only line, or an indented "#": csv-parse's reading of those is its own; let it decide.
-      let q = lineStart;
-      while (bytes[q] === SPACE || bytes[q] === TAB) q++;
-      if (bytes[q] === HASH || bytes[q] === NL || bytes[q] === CR) return structural(state, "an indented comment or a blank line");
-    }
-    if (hasProblem) {
-      for (let slot = 0; slot < slots; slot++) {
-        const message = lineProblems[slot];
-        if (message === null) continue;
-        state.problemCount++;
-        if (state.problems.length < MAX_REPORTED_PROBLEMS) state.problems.push({ row: state.line, column: layout.slotNames[slot], message });
-        lineProblems[slot] = null;
+      if (c === HASH) {
+        line++;
+        const nl = bytes.indexOf(NL, pos);
+        if ((bytes[nl - 1] === CR) !== layout.crlf) return structural(state, "mixed line ends");
+        pos = nl + 1;
+        continue; // comment line
       }
+      line++;
+      const lineStart = pos;
+      let field = 0;
+      let hasProblem = false;
+      let p = pos;
+      // One field per turn; p ends on the comma, CR or NL that closes it.
+      while (true) {
+        const fieldStart = p;
+        const slot = field < fieldCount ? slotOfField[field] : -1;
+        c = bytes[p];
+        while (c === SPACE || c === TAB) c = bytes[++p];
+        if (slot >= 0) {
+          let negative = false;
+          if (c === MINUS || c === PLUS) {
+            negative = c === MINUS;
+            c = bytes[++p];
+          }
+          // Significand digits accumulate into m; it stays exact while below 2^53, which
+          // also rules out 17 or more significant digits (then m ≥ 10^16 > 2^53).
+          let m = 0;
+          const intStart = p;
+          while (c >= ZERO && c <= NINE) {
+            m = m * 10 + (c - ZERO);
+            c = bytes[++p];
+          }
+          let any = p > intStart;
+          let scale = 0;
+          if (c === DOT) {
+            const fracStart = ++p;
+            c = bytes[p];
+            while (c >= ZERO && c <= NINE) {
+              m = m * 10 + (c - ZERO);
+              c = bytes[++p];
+            }
+            scale = fracStart - p;
+            any = any || scale < 0;
+          }
+          let exact = any;
+          if (exact && (c === LOWER_E || c === UPPER_E)) {
+            c = bytes[++p];
+            let expNegative = false;
+            if (c === MINUS || c === PLUS) {
+              expNegative = c === MINUS;
+              c = bytes[++p];
+            }
+            let exponent = 0;
+            const expStart = p;
+            while (c >= ZERO && c <= NINE) {
+              if (exponent < 10000) exponent = exponent * 10 + (c - ZERO);
+              c = bytes[++p];
+            }
+            if (p === expStart) exact = false;
+            scale += expNegative ? -exponent : exponent;
+          }
+          while (c === SPACE || c === TAB) c = bytes[++p];
+          if (c !== COMMA && c !== NL && c !== CR) exact = false;
+          if (m >= TWO_53 || scale > 22 || scale < -22) exact = false;
+          let value: number;
+          if (exact) {
+            value = m === 0 ? 0 : scale === 0 ? m : scale > 0 ? m * POW10[scale] : m / POW10[-scale];
+            if (negative) value = -value;
+          } else {
+            // Outside the fast path: the cell's text goes through the reference cell rules.
+            p = fieldStart;
+            c = bytes[p];
+            while (c !== COMMA && c !== NL && c !== QUOTE && c !== CR) c = bytes[++p];
+            if (c === QUOTE) return structural(state, "a quoted field");
+            if (c === CR && bytes[p + 1] !== NL) return structural(state, "a carriage return inside a line");
+            const parsed = describeCellProblem(decoder.decode(bytes.subarray(fieldStart, p)));
+            if (typeof parsed === "string") {
+              lineProblems[slot] = parsed;
+              hasProblem = true;
+              value = Number.NaN;
+            } else value = parsed;
+          }
+          values[slot][row] = value;
+        } else {
+          while (c !== COMMA && c !== NL && c !== QUOTE && c !== CR) c = bytes[++p];
+          if (c === QUOTE) return structural(state, "a quoted field");
+        }
+        field++;
+        if (c === COMMA) {
+          p++;
+          continue;
+        }
+        if (c === CR && bytes[p + 1] !== NL) return structural(state, "a carriage return inside a line");
+        break;
+      }
+      const crlf = bytes[p] === CR;
+      if (crlf !== layout.crlf) return structural(state, "mixed line ends");
+      const lineEnd = crlf ? p + 2 : p + 1;
+      if (field !== fieldCount) return structural(state, `a record with ${field} field(s) where the header has ${fieldCount}`);
+      if (bytes[lineStart] === SPACE || bytes[lineStart] === TAB) {
+        // A blank-only line, or an indented "#": csv-parse's reading of those is its own; let it decide.
+        let q = lineStart;
+        while (bytes[q] === SPACE || bytes[q] === TAB) q++;
+        if (bytes[q] === HASH || bytes[q] === NL || bytes[q] === CR) return structural(state, "an indented comment or a blank line");
+      }
+      if (hasProblem) {
+        for (let slot = 0; slot < slots; slot++) {
+          const message = lineProblems[slot];
+          if (message === null) continue;
+          state.problemCount++;
+          if (state.problems.length < MAX_REPORTED_PROBLEMS) state.problems.push({ row: line, column: layout.slotNames[slot], message });
+          lineProblems[slot] = null;
+        }
+      }
+      lines[row] = line;
+      row++;
+      rows++;
+      if (row === capacity) {
+        chunk.rows = row;
+        flush();
+        row = chunk.rows;
+      }
+      pos = lineEnd;
     }
-    chunk.lines[row] = state.line;
-    chunk.rows++;
-    state.rows++;
-    if (chunk.rows === chunk.capacity) flush();
-    pos = lineEnd;
+  } finally {
+    state.line = line;
+    state.rows = rows;
+    chunk.rows = row;
   }
 }
 

@@ -85,26 +85,109 @@ export interface RowBlock {
   sigma: Float64Array;
 }
 
+/** Partitions of a table, by the top bits of a key's hash: 2^8, so that one partition's cells stay in cache while its rows go in. */
+const PARTITION_BITS = 8;
+const PARTITIONS = 1 << PARTITION_BITS;
+/** Rows held back per partition before they are added to its cells. */
+const PENDING_ROWS = 1024;
+
 /**
- * The table. Each cell's record lives at its hash slot, all quantities side by
- * side in one Float64Array: [key × dims, count, sums × stored, products ×
- * pairs, Σmin, Σmax, Σref, Σ w e^−(Σ−Σref)]. `addRows` inserts a block of rows
- * partition by partition (by the top bits of their slots), so that each
- * partition's records stay in cache while it is filled: with 10^5 cells, random
- * access into the table otherwise dominates the reading of a large file. Rows
- * keep their order within a cell (a stable partition), so every sum and each
- * cell's reference Σ are those of the row-by-row order — except in a block
- * during which the table goes up a level, whose remaining rows are added in
- * partition order (the same on every run, so results still reproduce exactly).
+ * One partition's cells: dense records in the order the cells first appear,
+ * and an open-addressing index over them (linear probing, at most half full)
+ * that keeps each key's hash beside its record number, so a probe reads a
+ * record only when the hash matches.
+ */
+class CellStore {
+  size = 0;
+  private slots = 16;
+  /** Record number + 1 at each slot (0: empty), and the hash of its key. */
+  private index = new Int32Array(16);
+  private tags = new Int32Array(16);
+  data: Float64Array;
+
+  constructor(
+    private readonly stride: number,
+    private readonly dims: number,
+    private readonly oMin: number,
+  ) {
+    this.data = new Float64Array(8 * stride);
+  }
+
+  /** Offset in `data` of the record with this key; a new, empty record if the key is new. */
+  recordFor(key: Float64Array, at: number, hash: number): number {
+    const { dims, data, index, tags } = this;
+    const mask = this.slots - 1;
+    let slot = hash & mask;
+    let r = index[slot];
+    while (r !== 0) {
+      if (tags[slot] === hash) {
+        const base = (r - 1) * this.stride;
+        let same = true;
+        for (let d = 0; d < dims; d++) {
+          if (data[base + d] !== key[at + d]) {
+            same = false;
+            break;
+          }
+        }
+        if (same) return base;
+      }
+      slot = (slot + 1) & mask;
+      r = index[slot];
+    }
+    const base = this.size * this.stride;
+    this.size++;
+    index[slot] = this.size;
+    tags[slot] = hash;
+    for (let d = 0; d < dims; d++) data[base + d] = key[at + d];
+    data[base + this.oMin] = Infinity;
+    data[base + this.oMin + 1] = -Infinity;
+    if (2 * this.size >= this.slots) this.grow();
+    return base;
+  }
+
+  /** Twice the slots, and room for twice the records (records keep their place). */
+  private grow(): void {
+    this.slots *= 2;
+    const mask = this.slots - 1;
+    const data = new Float64Array((this.slots / 2) * this.stride);
+    data.set(this.data.subarray(0, this.size * this.stride));
+    this.data = data;
+    const oldIndex = this.index;
+    const oldTags = this.tags;
+    this.index = new Int32Array(this.slots);
+    this.tags = new Int32Array(this.slots);
+    for (let s = 0; s < oldIndex.length; s++) {
+      if (oldIndex[s] === 0) continue;
+      let slot = oldTags[s] & mask;
+      while (this.index[slot] !== 0) slot = (slot + 1) & mask;
+      this.index[slot] = oldIndex[s];
+      this.tags[slot] = oldTags[s];
+    }
+  }
+}
+
+/**
+ * The table: PARTITIONS stores, a key going to the store chosen by the top bits
+ * of its hash. Each record holds, side by side in one Float64Array, [key × dims,
+ * count, sums × stored, products × pairs, Σmin, Σmax, Σref, Σ w e^−(Σ−Σref)].
+ *
+ * Rows do not go straight into their cells: each waits in its partition's
+ * queue, and a full queue is added to that partition's cells in one go. With
+ * 10^5 cells (about 14 MB of records) a row added directly costs a cache miss,
+ * which on this machine class is most of the time spent reading a large file;
+ * a partition's few hundred cells stay in cache while its queue goes in. A cell
+ * lives in one partition and a queue keeps its rows in order, so every sum,
+ * and each cell's reference Σ, follow the order of the rows, exactly as if
+ * they had been added one by one. The table goes up a level (`coarsen`) when,
+ * after a queue went in, it holds more cells than its capacity; whether rows
+ * are added one at a time (`add`) or in blocks (`addRows`), the queues and so
+ * the result are the same.
  */
 export class CellTable {
   level = 0;
+  /** Cells in all partitions. */
   size = 0;
-  private slots = 0;
-  private mask = 0;
-  private used!: Uint8Array;
-  private data!: Float64Array;
-  private readonly maxSlots: number;
+  private stores: CellStore[] = [];
   private readonly stride: number;
   private readonly oCount: number;
   private readonly oSums: number;
@@ -115,25 +198,20 @@ export class CellTable {
   private readonly oExp: number;
   private readonly pairA: Int32Array;
   private readonly pairB: Int32Array;
+  /** Three stored columns with all six pair products, in the order momentPairs gives (a fast path). */
+  private readonly threeCurrents: boolean;
   private readonly key: Float64Array;
   private readonly inverseStep: Float64Array;
   /** 3^(column level) of each column at the current table level. */
   private readonly factor: Float64Array;
-  // Scratch for addRows, grown on demand.
-  private hashes = new Int32Array(0);
-  private keysOfRows = new Float64Array(0);
-  private sortedHashes = new Int32Array(0);
-  private sortedKeys = new Float64Array(0);
-  private sortedValues = new Float64Array(0);
-  private sortedSigma = new Float64Array(0);
-  private sortedRow = new Int32Array(0);
-  private readonly partitionStart = new Int32Array(PARTITIONS + 1);
+  /** Each partition's queue: per row its grid key, stored values, weight and Σ, and the key's hash. */
+  private readonly entry: number;
+  private pending: Float64Array[] = [];
+  private pendingHash: Int32Array[] = [];
+  private readonly pendingRows = new Int32Array(PARTITIONS);
 
   constructor(readonly spec: GridSpec) {
     this.level = spec.startLevel;
-    let max = 1;
-    while (max < 2 * (spec.capacity + 1)) max *= 2;
-    this.maxSlots = max;
     this.oCount = spec.dims;
     this.oSums = this.oCount + 1;
     this.oProducts = this.oSums + spec.stored;
@@ -142,15 +220,15 @@ export class CellTable {
     this.oRef = this.oMax + 1;
     this.oExp = this.oRef + 1;
     this.stride = this.oExp + 1;
+    this.entry = spec.dims + spec.stored + 2;
     this.pairA = Int32Array.from(spec.pairs, (p) => p[0]);
     this.pairB = Int32Array.from(spec.pairs, (p) => p[1]);
-    // Start at a quarter of the largest table: at most two doublings (re-insertions), and a
-    // smaller working set while the table fills, which is most of the cost on this machine class.
-    this.allocate(Math.max(1 << 10, this.maxSlots / 4));
+    this.threeCurrents = spec.stored === 3 && spec.pairs.map((p) => p.join()).join(" ") === "0,0 0,1 0,2 1,1 1,2 2,2";
     this.key = new Float64Array(spec.dims);
     this.inverseStep = Float64Array.from(spec.step0, (s) => 1 / s);
     this.factor = new Float64Array(spec.dims);
     this.refreshFactors();
+    this.clear();
   }
 
   /** 3^(column level) of each column, after the level was set. */
@@ -158,11 +236,9 @@ export class CellTable {
     for (let d = 0; d < this.spec.dims; d++) this.factor[d] = 3 ** columnLevel(this.level, this.spec.delay[d], this.spec.maxColumnLevel[d]);
   }
 
-  private allocate(slots: number): void {
-    this.slots = slots;
-    this.mask = slots - 1;
-    this.used = new Uint8Array(slots);
-    this.data = new Float64Array(slots * this.stride);
+  /** No cells. */
+  private clear(): void {
+    this.stores = Array.from({ length: PARTITIONS }, () => new CellStore(this.stride, this.spec.dims, this.oMin));
     this.size = 0;
   }
 
@@ -185,60 +261,107 @@ export class CellTable {
     return h ^ (h >>> 15);
   }
 
-  /** Offset of the record with this key (created empty if new). */
-  private recordFor(key: Float64Array, at: number, hash: number): number {
-    const dims = this.spec.dims;
-    const data = this.data;
-    let slot = hash & this.mask;
-    while (this.used[slot] === 1) {
-      const base = slot * this.stride;
-      let same = true;
+  /** Queue one row: key columns x at xAt, stored values v at vAt. */
+  private enqueue(x: Float64Array, xAt: number, v: Float64Array, vAt: number, weight: number, sigma: number): void {
+    this.enqueueBlock(x, xAt, v, vAt, null, weight, Float64Array.of(sigma), 0, 1);
+  }
+
+  /**
+   * Queue rows [from, to) of a block (key columns x, stored values v, Σ), each
+   * of weight `weights[i]` or, without weights, `weight`. One loop with the
+   * grid key, its hash and the queue write inlined: this is the innermost
+   * loop of reading a large file.
+   */
+  private enqueueBlock(x: Float64Array, xAt: number, v: Float64Array, vAt: number, weights: Float64Array | null, weight: number, sigmas: Float64Array, from: number, to: number): void {
+    const { dims, stored } = this.spec;
+    if (this.pending.length === 0) {
+      this.pending = Array.from({ length: PARTITIONS }, () => new Float64Array(PENDING_ROWS * this.entry));
+      this.pendingHash = Array.from({ length: PARTITIONS }, () => new Int32Array(PENDING_ROWS));
+    }
+    const { inverseStep, factor, pendingRows, pending, pendingHash, entry, key } = this;
+    const shift = 32 - PARTITION_BITS;
+    for (let i = from; i < to; i++) {
+      const xi = xAt + (i - from) * dims;
+      let h = 0x811c9dc5;
       for (let d = 0; d < dims; d++) {
-        if (data[base + d] !== key[at + d]) {
-          same = false;
-          break;
-        }
+        const f = factor[d];
+        const k0 = Math.floor(x[xi + d] * inverseStep[d] + 0.5);
+        const k = f === 1 ? k0 : Math.floor((k0 + (f - 1) / 2) / f);
+        key[d] = k;
+        h = Math.imul(h ^ (k | 0), 0x01000193);
+        h = Math.imul(h ^ ((k / 4294967296) | 0), 0x01000193);
       }
-      if (same) return base;
-      slot = (slot + 1) & this.mask;
+      const hash = h ^ (h >>> 15);
+      const p = hash >>> shift;
+      const n = pendingRows[p];
+      const queue = pending[p];
+      let at = n * entry;
+      for (let d = 0; d < dims; d++) queue[at++] = key[d];
+      const vi = vAt + (i - from) * stored;
+      for (let s = 0; s < stored; s++) queue[at++] = v[vi + s];
+      queue[at++] = weights === null ? weight : weights[i];
+      queue[at] = sigmas[i];
+      pendingHash[p][n] = hash;
+      pendingRows[p] = n + 1;
+      if (n + 1 === PENDING_ROWS) {
+        this.flush(p);
+        if (this.size > this.spec.capacity) this.coarsen();
+      }
     }
-    this.used[slot] = 1;
-    this.size++;
-    const base = slot * this.stride;
-    for (let d = 0; d < dims; d++) data[base + d] = key[at + d];
-    data[base + this.oMin] = Infinity;
-    data[base + this.oMax] = -Infinity;
-    return base;
   }
 
-  /** Add `weight` realisations at record `base`. */
-  private accumulate(base: number, v: Float64Array, vAt: number, weight: number, sigma: number): void {
-    const data = this.data;
-    if (data[base + this.oCount] === 0) data[base + this.oRef] = sigma;
-    data[base + this.oCount] += weight;
-    const sums = base + this.oSums;
-    for (let s = 0; s < this.spec.stored; s++) data[sums + s] += weight * v[vAt + s];
-    const products = base + this.oProducts;
-    for (let p = 0; p < this.pairA.length; p++) data[products + p] += weight * v[vAt + this.pairA[p]] * v[vAt + this.pairB[p]];
-    if (sigma < data[base + this.oMin]) data[base + this.oMin] = sigma;
-    if (sigma > data[base + this.oMax]) data[base + this.oMax] = sigma;
-    data[base + this.oExp] += weight * Math.exp(data[base + this.oRef] - sigma);
-  }
-
-  /** After a new cell: grow the slots while they can, coarsen once the capacity is reached. */
-  private afterInsert(): boolean {
-    if (this.size > this.spec.capacity) {
-      this.coarsen();
-      return true;
+  /** Add partition p's queued rows to its cells. */
+  private flush(p: number): void {
+    const n = this.pendingRows[p];
+    if (n === 0) return;
+    const { dims, stored } = this.spec;
+    const queue = this.pending[p];
+    const hashes = this.pendingHash[p];
+    const store = this.stores[p];
+    const before = store.size;
+    const { oCount, oSums, oProducts, oMin, oMax, oRef, oExp, pairA, pairB, entry, threeCurrents } = this;
+    const P = pairA.length;
+    for (let i = 0; i < n; i++) {
+      const at = i * entry;
+      const base = store.recordFor(queue, at, hashes[i]);
+      const data = store.data;
+      const vAt = at + dims;
+      const weight = queue[vAt + stored];
+      const sigma = queue[vAt + stored + 1];
+      if (data[base + oCount] === 0) data[base + oRef] = sigma;
+      data[base + oCount] += weight;
+      if (threeCurrents) {
+        // The common layout written out: three currents and all six of their products.
+        const a = queue[vAt];
+        const b = queue[vAt + 1];
+        const c = queue[vAt + 2];
+        const o = base + oSums;
+        data[o] += weight * a;
+        data[o + 1] += weight * b;
+        data[o + 2] += weight * c;
+        const q = base + oProducts;
+        data[q] += weight * a * a;
+        data[q + 1] += weight * a * b;
+        data[q + 2] += weight * a * c;
+        data[q + 3] += weight * b * b;
+        data[q + 4] += weight * b * c;
+        data[q + 5] += weight * c * c;
+      } else {
+        for (let s = 0; s < stored; s++) data[base + oSums + s] += weight * queue[vAt + s];
+        for (let k = 0; k < P; k++) data[base + oProducts + k] += weight * queue[vAt + pairA[k]] * queue[vAt + pairB[k]];
+      }
+      if (sigma < data[base + oMin]) data[base + oMin] = sigma;
+      if (sigma > data[base + oMax]) data[base + oMax] = sigma;
+      data[base + oExp] += weight * Math.exp(data[base + oRef] - sigma);
     }
-    if (2 * this.size > this.slots && this.slots < this.maxSlots) this.grow();
-    return false;
+    this.size += store.size - before;
+    this.pendingRows[p] = 0;
   }
 
-  private grow(): void {
-    const old = this.export();
-    this.allocate(this.slots * 2);
-    this.absorb(old, false);
+  /** Every queued row added to its cells, the table coarsened if that made it exceed its capacity. */
+  private settle(): void {
+    for (let p = 0; p < PARTITIONS; p++) this.flush(p);
+    if (this.size > this.spec.capacity) this.coarsen();
   }
 
   /**
@@ -246,70 +369,18 @@ export class CellTable {
    * `values` (length stored) and entropy production `sigma`.
    */
   add(x: Float64Array, values: Float64Array, weight: number, sigma: number): void {
-    this.gridKey(x, 0, this.key, 0);
-    const before = this.size;
-    const base = this.recordFor(this.key, 0, this.hashOf(this.key, 0));
-    this.accumulate(base, values, 0, weight, sigma);
-    if (this.size !== before) this.afterInsert();
+    this.enqueue(x, 0, values, 0, weight, sigma);
   }
 
-  /** Add a block of rows of weight 1, partition by partition (see the class comment). */
+  /** Add a block of rows of weight 1, in order: the same as `add` row by row. */
   addRows(block: RowBlock): void {
-    const { dims, stored } = this.spec;
-    const n = block.rows;
-    if (this.hashes.length < n) {
-      this.hashes = new Int32Array(n);
-      this.sortedHashes = new Int32Array(n);
-      this.keysOfRows = new Float64Array(n * dims);
-      this.sortedKeys = new Float64Array(n * dims);
-      this.sortedValues = new Float64Array(n * stored);
-      this.sortedSigma = new Float64Array(n);
-      this.sortedRow = new Int32Array(n);
-    }
-    const level = this.level;
-    const keys = this.keysOfRows;
-    const hashes = this.hashes;
-    for (let i = 0; i < n; i++) {
-      this.gridKey(block.x, i * dims, keys, i * dims);
-      hashes[i] = this.hashOf(keys, i * dims);
-    }
-    // Stable counting sort of the rows by the top bits of their slot, moving the rows
-    // themselves so that both the rows and the records are then read in order.
-    const shift = Math.max(0, Math.log2(this.slots) - PARTITION_BITS);
-    const start = this.partitionStart;
-    start.fill(0);
-    for (let i = 0; i < n; i++) start[((hashes[i] & this.mask) >>> shift) + 1]++;
-    for (let p = 0; p < PARTITIONS; p++) start[p + 1] += start[p];
-    const sk = this.sortedKeys;
-    const sv = this.sortedValues;
-    const ss = this.sortedSigma;
-    const sh = this.sortedHashes;
-    const sr = this.sortedRow;
-    for (let i = 0; i < n; i++) {
-      const j = start[(hashes[i] & this.mask) >>> shift]++;
-      for (let d = 0; d < dims; d++) sk[j * dims + d] = keys[i * dims + d];
-      for (let s = 0; s < stored; s++) sv[j * stored + s] = block.v[i * stored + s];
-      ss[j] = block.sigma[i];
-      sh[j] = hashes[i];
-      sr[j] = i;
-    }
-    for (let j = 0; j < n; j++) {
-      if (this.level !== level) {
-        // The table went up a level part-way: the rest go in one by one at the new level.
-        const i = sr[j];
-        this.add(block.x.subarray(i * dims, (i + 1) * dims), sv.subarray(j * stored, (j + 1) * stored), 1, ss[j]);
-        continue;
-      }
-      const before = this.size;
-      const base = this.recordFor(sk, j * dims, sh[j]);
-      this.accumulate(base, sv, j * stored, 1, ss[j]);
-      if (this.size !== before) this.afterInsert();
-    }
+    this.enqueueBlock(block.x, 0, block.v, 0, null, 1, block.sigma, 0, block.rows);
   }
 
   /** Go up one level (or more, until the cells fit): pool neighbouring cells of the coarsenable columns. */
   coarsen(): void {
-    const old = this.export();
+    for (let p = 0; p < PARTITIONS; p++) this.flush(p);
+    const old = this.snapshot();
     do {
       this.level++;
       if (this.level > MAX_LEVEL) {
@@ -321,7 +392,7 @@ export class CellTable {
         this.spec.maxColumnLevel.fill(Infinity);
       }
       this.refreshFactors();
-      this.allocate(this.slots);
+      this.clear();
       this.absorb(old, false);
     } while (this.size > this.spec.capacity);
   }
@@ -336,9 +407,11 @@ export class CellTable {
         const k = data.keys[c * dims + d];
         key[d] = coarserIndex(k, columnLevel(data.level, delay[d], maxColumnLevel[d]), columnLevel(this.level, delay[d], maxColumnLevel[d]));
       }
-      const before = this.size;
-      const base = this.recordFor(key, 0, this.hashOf(key, 0));
-      const own = this.data;
+      const hash = this.hashOf(key, 0);
+      const store = this.stores[hash >>> (32 - PARTITION_BITS)];
+      const before = store.size;
+      const base = store.recordFor(key, 0, hash);
+      const own = store.data;
       if (own[base + this.oCount] === 0) own[base + this.oRef] = data.sigmaRef[c];
       own[base + this.oCount] += data.count[c];
       for (let s = 0; s < stored; s++) own[base + this.oSums + s] += data.sums[c * stored + s];
@@ -346,22 +419,20 @@ export class CellTable {
       if (data.sigmaMin[c] < own[base + this.oMin]) own[base + this.oMin] = data.sigmaMin[c];
       if (data.sigmaMax[c] > own[base + this.oMax]) own[base + this.oMax] = data.sigmaMax[c];
       own[base + this.oExp] += data.expSum[c] * Math.exp(own[base + this.oRef] - data.sigmaRef[c]);
-      if (this.size === before) continue;
-      if (autoCoarsen) this.afterInsert();
-      else if (2 * this.size > this.slots && this.slots < this.maxSlots) {
-        // Growing while re-inserting: finish into a larger table (the old one is a snapshot).
-        const partial = this.export();
-        const rest: CellTableData = sliceCells(data, c + 1, dims, stored, P);
-        this.allocate(this.slots * 2);
-        this.absorb(partial, false);
-        this.absorb(rest, false);
-        return;
-      }
+      if (store.size === before) continue;
+      this.size++;
+      if (autoCoarsen && this.size > this.spec.capacity) this.coarsen();
     }
   }
 
-  /** The occupied cells as plain arrays, in slot order. */
+  /** The cells as plain arrays (queued rows added first), partition by partition, each in the order its cells first appeared. */
   export(): CellTableData {
+    this.settle();
+    return this.snapshot();
+  }
+
+  /** The cells as plain arrays, without adding queued rows. */
+  private snapshot(): CellTableData {
     const { dims, stored } = this.spec;
     const P = this.pairA.length;
     const n = this.size;
@@ -377,43 +448,23 @@ export class CellTable {
       expSum: new Float64Array(n),
       products: new Float64Array(n * P),
     };
-    const data = this.data;
     let c = 0;
-    for (let slot = 0; slot < this.slots; slot++) {
-      if (this.used[slot] === 0) continue;
-      const base = slot * this.stride;
-      for (let d = 0; d < dims; d++) out.keys[c * dims + d] = data[base + d];
-      out.count[c] = data[base + this.oCount];
-      for (let s = 0; s < stored; s++) out.sums[c * stored + s] = data[base + this.oSums + s];
-      for (let p = 0; p < P; p++) out.products[c * P + p] = data[base + this.oProducts + p];
-      out.sigmaMin[c] = data[base + this.oMin];
-      out.sigmaMax[c] = data[base + this.oMax];
-      out.sigmaRef[c] = data[base + this.oRef];
-      out.expSum[c] = data[base + this.oExp];
-      c++;
+    for (const store of this.stores) {
+      const data = store.data;
+      for (let r = 0; r < store.size; r++, c++) {
+        const base = r * this.stride;
+        for (let d = 0; d < dims; d++) out.keys[c * dims + d] = data[base + d];
+        out.count[c] = data[base + this.oCount];
+        for (let s = 0; s < stored; s++) out.sums[c * stored + s] = data[base + this.oSums + s];
+        for (let p = 0; p < P; p++) out.products[c * P + p] = data[base + this.oProducts + p];
+        out.sigmaMin[c] = data[base + this.oMin];
+        out.sigmaMax[c] = data[base + this.oMax];
+        out.sigmaRef[c] = data[base + this.oRef];
+        out.expSum[c] = data[base + this.oExp];
+      }
     }
     return out;
   }
-}
-
-/** Partitions of a block of rows in `addRows`: 2^6, so that a partition's records fit in cache. */
-const PARTITION_BITS = 8;
-const PARTITIONS = 1 << PARTITION_BITS;
-
-/** Cells [from, cells) of a table's data. */
-function sliceCells(data: CellTableData, from: number, dims: number, stored: number, P: number): CellTableData {
-  return {
-    level: data.level,
-    cells: data.cells - from,
-    keys: data.keys.subarray(from * dims),
-    count: data.count.subarray(from),
-    sums: data.sums.subarray(from * stored),
-    sigmaMin: data.sigmaMin.subarray(from),
-    sigmaMax: data.sigmaMax.subarray(from),
-    sigmaRef: data.sigmaRef.subarray(from),
-    expSum: data.expSum.subarray(from),
-    products: data.products.subarray(from * P),
-  };
 }
 
 /**

@@ -5,7 +5,7 @@ import { fileURLToPath } from "node:url";
 import { createHash } from "node:crypto";
 import { Worker } from "node:worker_threads";
 import type { ScanLayout } from "../fast/scanLines.ts";
-import { sha256HexOfFileAsync } from "../fileDigest.ts";
+import { sha256HexOfFile, sha256HexOfFileAsync } from "../fileDigest.ts";
 import { reduceFileRange, type SamplesPartSummary, type SamplesReductionSpec } from "./samplesSink.ts";
 
 /** One thread's share of a file. */
@@ -117,17 +117,18 @@ export async function reduceInParts(
   const jobs: RangeJob[] = [];
   for (let k = 0; k < PARTS; k++) jobs.push({ file, start: cuts[k], end: cuts[k + 1], layout, spec });
   if (options.threads === false) {
-    const sha256 = await sha256HexOfFileAsync(file);
+    const sha256 = sha256HexOfFile(file);
     return { parts: jobs.map((j) => reduceFileRange(j.file, j.start, j.end, j.layout, j.spec, options.onBytes)), sha256 };
   }
-  void workerBundle(); // start bundling while the file is cut
-  const digest = sha256HexOfFileAsync(file);
-  const parts = await Promise.all(jobs.map((job) => runJob(job, options.onBytes)));
-  return { parts, sha256: await digest };
+  const workers = await Promise.all(jobs.map(startWorker));
+  const parts = Promise.all(workers.map((worker) => resultOf(worker, options.onBytes)));
+  parts.catch(() => {}); // a worker's failure is rethrown by the await below, not reported as unhandled meanwhile
+  const sha256 = await sha256HexOfFileAsync(file); // in this thread, while the workers scan
+  return { parts: await parts, sha256 };
 }
 
-async function runJob(job: RangeJob, onBytes?: (bytes: number) => void): Promise<SamplesPartSummary> {
-  const worker = await startWorker(job);
+/** The summary a started worker sends back (its listeners attached at once, so no message is missed). */
+function resultOf(worker: Worker, onBytes?: (bytes: number) => void): Promise<SamplesPartSummary> {
   return new Promise((resolve, reject) => {
     let settled = false;
     worker.on("message", (msg: { type: string; bytes?: number; summary?: SamplesPartSummary; message?: string }) => {
