@@ -6,7 +6,7 @@
 import fs from "node:fs";
 import path from "node:path";
 import { describe, expect, it } from "vitest";
-import { CellTable, coarserIndex, mergeCellTables, type GridSpec } from "../../src/ingest/reduce/cellTable.ts";
+import { CellTable, coarserIndex, keyOrder, mergeCellTables, type GridSpec } from "../../src/ingest/reduce/cellTable.ts";
 import { loadAuditDefinition } from "../../src/config/loadAudit.ts";
 import { loadSamples, type SamplesReadOptions } from "../../src/ingest/samples.ts";
 import type { Dataset, IngestedAudit, SamplesDataset } from "../../src/ingest/types.ts";
@@ -118,6 +118,24 @@ describe("cell table", () => {
     // same queues, so every floating-point sum is formed in the same order: exact equality, whether or
     // not the table goes up a level on the way (capacity 3000 makes it).
     for (const capacity of [100_000, 3000]) check(capacity);
+  });
+
+  it("orders cells lexicographically by key, through packed numbers or, for a huge range of keys, by comparison", () => {
+    // The packed order must equal a plain lexicographic comparison sort (common practice: a stable
+    // reference). Keys here include negatives, ties in the leading column, and in the second case a
+    // range near 2^40 that makes the box of keys too large to pack.
+    const rng = rngFromText("cell-table:order");
+    for (const spread of [40, 2 ** 40]) {
+      const cells = 5000;
+      const keys = new Float64Array(cells * 3);
+      for (let c = 0; c < cells; c++) {
+        keys[3 * c] = Math.round(rng.normal() * 5);
+        keys[3 * c + 1] = Math.round(rng.normal() * spread);
+        keys[3 * c + 2] = c; // distinct keys, as a table's are
+      }
+      const reference = Array.from({ length: cells }, (_, i) => i).sort((a, b) => keys[3 * a] - keys[3 * b] || keys[3 * a + 1] - keys[3 * b + 1] || keys[3 * a + 2] - keys[3 * b + 2]);
+      expect(Array.from(keyOrder(keys, 3, cells))).toEqual(reference);
+    }
   });
 });
 

@@ -99,18 +99,23 @@ const PENDING_ROWS = 1024;
  */
 class CellStore {
   size = 0;
-  private slots = 16;
+  private slots: number;
   /** Record number + 1 at each slot (0: empty), and the hash of its key. */
-  private index = new Int32Array(16);
-  private tags = new Int32Array(16);
+  private index: Int32Array;
+  private tags: Int32Array;
   data: Float64Array;
 
+  /** Room for `records` records (a power of two) before the first growth. */
   constructor(
     private readonly stride: number,
     private readonly dims: number,
     private readonly oMin: number,
+    records: number,
   ) {
-    this.data = new Float64Array(8 * stride);
+    this.slots = 2 * records;
+    this.index = new Int32Array(this.slots);
+    this.tags = new Int32Array(this.slots);
+    this.data = new Float64Array(records * stride);
   }
 
   /** Offset in `data` of the record with this key; a new, empty record if the key is new. */
@@ -238,7 +243,10 @@ export class CellTable {
 
   /** No cells. */
   private clear(): void {
-    this.stores = Array.from({ length: PARTITIONS }, () => new CellStore(this.stride, this.spec.dims, this.oMin));
+    // Room at the start for half the capacity, spread evenly: growing costs fresh memory, which is slow to touch.
+    let records = 8;
+    while (records < this.spec.capacity / (2 * PARTITIONS)) records *= 2;
+    this.stores = Array.from({ length: PARTITIONS }, () => new CellStore(this.stride, this.spec.dims, this.oMin, records));
     this.size = 0;
   }
 
@@ -480,16 +488,51 @@ export function mergeCellTables(spec: GridSpec, parts: CellTableData[]): CellTab
   return sortedByKey(spec, table.export());
 }
 
-function sortedByKey(spec: GridSpec, data: CellTableData): CellTableData {
-  const { dims, stored } = spec;
-  const order = Array.from({ length: data.cells }, (_, i) => i);
+/**
+ * Cell numbers in lexicographic order of their keys (cells × dims whole numbers).
+ * When the keys' ranges allow, each key and its cell number are packed into one
+ * exact double (rank of the key in the box of keys, times the number of cells,
+ * plus the cell number) and sorted as numbers, some ten times faster than a
+ * comparison sort; otherwise the comparison sort.
+ */
+export function keyOrder(keys: Float64Array, dims: number, cells: number): Int32Array {
+  const low = new Float64Array(dims).fill(Infinity);
+  const high = new Float64Array(dims).fill(-Infinity);
+  for (let c = 0; c < cells; c++) {
+    for (let d = 0; d < dims; d++) {
+      const k = keys[c * dims + d];
+      if (k < low[d]) low[d] = k;
+      if (k > high[d]) high[d] = k;
+    }
+  }
+  let box = Math.max(1, cells);
+  for (let d = 0; d < dims; d++) box *= high[d] - low[d] + 1;
+  if (box < 2 ** 53) {
+    const packed = new Float64Array(cells);
+    for (let c = 0; c < cells; c++) {
+      let rank = 0;
+      for (let d = 0; d < dims; d++) rank = rank * (high[d] - low[d] + 1) + (keys[c * dims + d] - low[d]);
+      packed[c] = rank * cells + c;
+    }
+    packed.sort();
+    const order = new Int32Array(cells);
+    for (let c = 0; c < cells; c++) order[c] = packed[c] % cells;
+    return order;
+  }
+  const order = Array.from({ length: cells }, (_, i) => i);
   order.sort((a, b) => {
     for (let d = 0; d < dims; d++) {
-      const diff = data.keys[a * dims + d] - data.keys[b * dims + d];
+      const diff = keys[a * dims + d] - keys[b * dims + d];
       if (diff !== 0) return diff;
     }
     return 0;
   });
+  return Int32Array.from(order);
+}
+
+function sortedByKey(spec: GridSpec, data: CellTableData): CellTableData {
+  const { dims, stored } = spec;
+  const order = keyOrder(data.keys, dims, data.cells);
   const out: CellTableData = {
     level: data.level,
     cells: data.cells,
@@ -502,16 +545,17 @@ function sortedByKey(spec: GridSpec, data: CellTableData): CellTableData {
     expSum: new Float64Array(data.cells),
     products: new Float64Array(data.cells * spec.pairs.length),
   };
-  order.forEach((from, to) => {
-    out.keys.set(data.keys.subarray(from * dims, (from + 1) * dims), to * dims);
-    out.sums.set(data.sums.subarray(from * stored, (from + 1) * stored), to * stored);
+  const P = spec.pairs.length;
+  for (let to = 0; to < data.cells; to++) {
+    const from = order[to];
+    for (let d = 0; d < dims; d++) out.keys[to * dims + d] = data.keys[from * dims + d];
+    for (let s = 0; s < stored; s++) out.sums[to * stored + s] = data.sums[from * stored + s];
+    for (let p = 0; p < P; p++) out.products[to * P + p] = data.products[from * P + p];
     out.count[to] = data.count[from];
     out.sigmaMin[to] = data.sigmaMin[from];
     out.sigmaMax[to] = data.sigmaMax[from];
     out.sigmaRef[to] = data.sigmaRef[from];
     out.expSum[to] = data.expSum[from];
-    const P = spec.pairs.length;
-    out.products.set(data.products.subarray(from * P, (from + 1) * P), to * P);
-  });
+  }
   return out;
 }
