@@ -174,7 +174,7 @@ function check(capacity: number): void {
     const b = mergeCellTables(spec, [blocks.export()]);
     expect(b.level).toBe(a.level);
     if (capacity < 10_000) expect(a.level).toBeGreaterThan(0);
-    for (const field of ["keys", "count", "sums", "products", "sigmaMin", "sigmaMax", "sigmaRef", "expSum"] as const) {
+    for (const field of ["keys", "count", "sums", "productTotals", "sigmaMin", "sigmaMax", "sigmaRef", "expSum"] as const) {
       expect(Array.from(b[field])).toEqual(Array.from(a[field]));
     }
     if (one.level === 0) {

@@ -34,7 +34,7 @@ export interface GridSpec {
   maxColumnLevel: Float64Array;
   /** Stored sums per cell. */
   stored: number;
-  /** Pairs (a, b) of stored columns whose product sums are kept too (second moments). */
+  /** Pairs (a, b) of stored columns whose product sums over the whole table are kept too (second moments). */
   pairs: [number, number][];
   /** Most cells a table may hold before it coarsens. */
   capacity: number;
@@ -54,8 +54,13 @@ export interface CellTableData {
   sums: Float64Array;
   sigmaMin: Float64Array;
   sigmaMax: Float64Array;
-  /** cells × pairs sums of w x_a x_b over each cell. */
-  products: Float64Array;
+  /**
+   * Sum of w x_a x_b over all realisations, one per pair: with the cells' sums this
+   * gives the within-cell scatter Σ_C (Σ_{i∈C} w x_a x_b − S_a S_b / n_C), which is
+   * all the checks need of second moments; per cell it would cost a sixth of
+   * the table's memory traffic.
+   */
+  productTotals: Float64Array;
   /** Σ of the first realisation of each cell, and the sum over the cell of w e^{−(Σ − that reference)}. */
   sigmaRef: Float64Array;
   expSum: Float64Array;
@@ -174,7 +179,8 @@ class CellStore {
 /**
  * The table: PARTITIONS stores, a key going to the store chosen by the top bits
  * of its hash. Each record holds, side by side in one Float64Array, [key × dims,
- * count, sums × stored, products × pairs, Σmin, Σmax, Σref, Σ w e^−(Σ−Σref)].
+ * count, sums × stored, Σmin, Σmax, Σref, Σ w e^−(Σ−Σref)]; the sums of products
+ * of pairs are kept for the table as a whole, in the order the rows arrive.
  *
  * Rows do not go straight into their cells: each waits in its partition's
  * queue, and a full queue is added to that partition's cells in one go. With
@@ -196,7 +202,6 @@ export class CellTable {
   private readonly stride: number;
   private readonly oCount: number;
   private readonly oSums: number;
-  private readonly oProducts: number;
   private readonly oMin: number;
   private readonly oMax: number;
   private readonly oRef: number;
@@ -205,6 +210,8 @@ export class CellTable {
   private readonly pairB: Int32Array;
   /** Three stored columns with all six pair products, in the order momentPairs gives (a fast path). */
   private readonly threeCurrents: boolean;
+  /** Sum of w x_a x_b of each pair over every row added. */
+  private productTotals: Float64Array;
   private readonly key: Float64Array;
   private readonly inverseStep: Float64Array;
   /** 3^(column level) of each column at the current table level. */
@@ -219,8 +226,7 @@ export class CellTable {
     this.level = spec.startLevel;
     this.oCount = spec.dims;
     this.oSums = this.oCount + 1;
-    this.oProducts = this.oSums + spec.stored;
-    this.oMin = this.oProducts + spec.pairs.length;
+    this.oMin = this.oSums + spec.stored;
     this.oMax = this.oMin + 1;
     this.oRef = this.oMax + 1;
     this.oExp = this.oRef + 1;
@@ -228,6 +234,7 @@ export class CellTable {
     this.entry = spec.dims + spec.stored + 2;
     this.pairA = Int32Array.from(spec.pairs, (p) => p[0]);
     this.pairB = Int32Array.from(spec.pairs, (p) => p[1]);
+    this.productTotals = new Float64Array(spec.pairs.length);
     this.threeCurrents = spec.stored === 3 && spec.pairs.map((p) => p.join()).join(" ") === "0,0 0,1 0,2 1,1 1,2 2,2";
     this.key = new Float64Array(spec.dims);
     this.inverseStep = Float64Array.from(spec.step0, (s) => 1 / s);
@@ -248,6 +255,7 @@ export class CellTable {
     while (records < this.spec.capacity / (2 * PARTITIONS)) records *= 2;
     this.stores = Array.from({ length: PARTITIONS }, () => new CellStore(this.stride, this.spec.dims, this.oMin, records));
     this.size = 0;
+    this.productTotals = new Float64Array(this.spec.pairs.length);
   }
 
   /** Grid indices of raw key values x (length dims) at the current level, into `out` at `at`. */
@@ -286,8 +294,9 @@ export class CellTable {
       this.pending = Array.from({ length: PARTITIONS }, () => new Float64Array(PENDING_ROWS * this.entry));
       this.pendingHash = Array.from({ length: PARTITIONS }, () => new Int32Array(PENDING_ROWS));
     }
-    const { inverseStep, factor, pendingRows, pending, pendingHash, entry, key } = this;
+    const { inverseStep, factor, pendingRows, pending, pendingHash, entry, key, pairA, pairB, threeCurrents } = this;
     const shift = 32 - PARTITION_BITS;
+    const P = pairA.length;
     for (let i = from; i < to; i++) {
       const xi = xAt + (i - from) * dims;
       let h = 0x811c9dc5;
@@ -307,8 +316,24 @@ export class CellTable {
       for (let d = 0; d < dims; d++) queue[at++] = key[d];
       const vi = vAt + (i - from) * stored;
       for (let s = 0; s < stored; s++) queue[at++] = v[vi + s];
-      queue[at++] = weights === null ? weight : weights[i];
+      const w = weights === null ? weight : weights[i];
+      queue[at++] = w;
       queue[at] = sigmas[i];
+      const totals = this.productTotals; // replaced when the table goes up a level
+      if (threeCurrents) {
+        // The common layout written out: three currents and their six products.
+        const a = v[vi];
+        const b = v[vi + 1];
+        const c = v[vi + 2];
+        totals[0] += w * a * a;
+        totals[1] += w * a * b;
+        totals[2] += w * a * c;
+        totals[3] += w * b * b;
+        totals[4] += w * b * c;
+        totals[5] += w * c * c;
+      } else {
+        for (let k = 0; k < P; k++) totals[k] += w * v[vi + pairA[k]] * v[vi + pairB[k]];
+      }
       pendingHash[p][n] = hash;
       pendingRows[p] = n + 1;
       if (n + 1 === PENDING_ROWS) {
@@ -327,8 +352,7 @@ export class CellTable {
     const hashes = this.pendingHash[p];
     const store = this.stores[p];
     const before = store.size;
-    const { oCount, oSums, oProducts, oMin, oMax, oRef, oExp, pairA, pairB, entry, threeCurrents } = this;
-    const P = pairA.length;
+    const { oCount, oSums, oMin, oMax, oRef, oExp, entry, threeCurrents } = this;
     for (let i = 0; i < n; i++) {
       const at = i * entry;
       const base = store.recordFor(queue, at, hashes[i]);
@@ -338,25 +362,13 @@ export class CellTable {
       const sigma = queue[vAt + stored + 1];
       if (data[base + oCount] === 0) data[base + oRef] = sigma;
       data[base + oCount] += weight;
+      const o = base + oSums;
       if (threeCurrents) {
-        // The common layout written out: three currents and all six of their products.
-        const a = queue[vAt];
-        const b = queue[vAt + 1];
-        const c = queue[vAt + 2];
-        const o = base + oSums;
-        data[o] += weight * a;
-        data[o + 1] += weight * b;
-        data[o + 2] += weight * c;
-        const q = base + oProducts;
-        data[q] += weight * a * a;
-        data[q + 1] += weight * a * b;
-        data[q + 2] += weight * a * c;
-        data[q + 3] += weight * b * b;
-        data[q + 4] += weight * b * c;
-        data[q + 5] += weight * c * c;
+        data[o] += weight * queue[vAt];
+        data[o + 1] += weight * queue[vAt + 1];
+        data[o + 2] += weight * queue[vAt + 2];
       } else {
-        for (let s = 0; s < stored; s++) data[base + oSums + s] += weight * queue[vAt + s];
-        for (let k = 0; k < P; k++) data[base + oProducts + k] += weight * queue[vAt + pairA[k]] * queue[vAt + pairB[k]];
+        for (let s = 0; s < stored; s++) data[o + s] += weight * queue[vAt + s];
       }
       if (sigma < data[base + oMin]) data[base + oMin] = sigma;
       if (sigma > data[base + oMax]) data[base + oMax] = sigma;
@@ -409,7 +421,7 @@ export class CellTable {
   absorb(data: CellTableData, autoCoarsen = true): void {
     const { dims, stored, delay, maxColumnLevel } = this.spec;
     const key = this.key;
-    const P = this.pairA.length;
+    for (let p = 0; p < this.productTotals.length; p++) this.productTotals[p] += data.productTotals[p];
     for (let c = 0; c < data.cells; c++) {
       for (let d = 0; d < dims; d++) {
         const k = data.keys[c * dims + d];
@@ -423,7 +435,6 @@ export class CellTable {
       if (own[base + this.oCount] === 0) own[base + this.oRef] = data.sigmaRef[c];
       own[base + this.oCount] += data.count[c];
       for (let s = 0; s < stored; s++) own[base + this.oSums + s] += data.sums[c * stored + s];
-      for (let p = 0; p < P; p++) own[base + this.oProducts + p] += data.products[c * P + p];
       if (data.sigmaMin[c] < own[base + this.oMin]) own[base + this.oMin] = data.sigmaMin[c];
       if (data.sigmaMax[c] > own[base + this.oMax]) own[base + this.oMax] = data.sigmaMax[c];
       own[base + this.oExp] += data.expSum[c] * Math.exp(own[base + this.oRef] - data.sigmaRef[c]);
@@ -442,7 +453,6 @@ export class CellTable {
   /** The cells as plain arrays, without adding queued rows. */
   private snapshot(): CellTableData {
     const { dims, stored } = this.spec;
-    const P = this.pairA.length;
     const n = this.size;
     const out: CellTableData = {
       level: this.level,
@@ -454,7 +464,7 @@ export class CellTable {
       sigmaMax: new Float64Array(n),
       sigmaRef: new Float64Array(n),
       expSum: new Float64Array(n),
-      products: new Float64Array(n * P),
+      productTotals: Float64Array.from(this.productTotals),
     };
     let c = 0;
     for (const store of this.stores) {
@@ -464,7 +474,6 @@ export class CellTable {
         for (let d = 0; d < dims; d++) out.keys[c * dims + d] = data[base + d];
         out.count[c] = data[base + this.oCount];
         for (let s = 0; s < stored; s++) out.sums[c * stored + s] = data[base + this.oSums + s];
-        for (let p = 0; p < P; p++) out.products[c * P + p] = data[base + this.oProducts + p];
         out.sigmaMin[c] = data[base + this.oMin];
         out.sigmaMax[c] = data[base + this.oMax];
         out.sigmaRef[c] = data[base + this.oRef];
@@ -543,14 +552,12 @@ function sortedByKey(spec: GridSpec, data: CellTableData): CellTableData {
     sigmaMax: new Float64Array(data.cells),
     sigmaRef: new Float64Array(data.cells),
     expSum: new Float64Array(data.cells),
-    products: new Float64Array(data.cells * spec.pairs.length),
+    productTotals: Float64Array.from(data.productTotals),
   };
-  const P = spec.pairs.length;
   for (let to = 0; to < data.cells; to++) {
     const from = order[to];
     for (let d = 0; d < dims; d++) out.keys[to * dims + d] = data.keys[from * dims + d];
     for (let s = 0; s < stored; s++) out.sums[to * stored + s] = data.sums[from * stored + s];
-    for (let p = 0; p < P; p++) out.products[to * P + p] = data.products[from * P + p];
     out.count[to] = data.count[from];
     out.sigmaMin[to] = data.sigmaMin[from];
     out.sigmaMax[to] = data.sigmaMax[from];

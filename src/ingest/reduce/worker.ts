@@ -18,7 +18,7 @@ try {
   });
   if (pending > 0) port.postMessage({ type: "bytes", bytes: pending });
   const t = summary.table;
-  port.postMessage({ type: "done", summary }, [t.keys.buffer, t.count.buffer, t.sums.buffer, t.sigmaMin.buffer, t.sigmaMax.buffer, t.sigmaRef.buffer, t.expSum.buffer, t.products.buffer] as ArrayBuffer[]);
+  port.postMessage({ type: "done", summary }, [t.keys.buffer, t.count.buffer, t.sums.buffer, t.sigmaMin.buffer, t.sigmaMax.buffer, t.sigmaRef.buffer, t.expSum.buffer, t.productTotals.buffer] as ArrayBuffer[]);
 } catch (err) {
   port.postMessage({ type: "error", message: (err as Error).stack ?? String(err) });
 }
