@@ -1,5 +1,5 @@
 import type { Rng } from "./rng.ts";
-import { poissonDeviate } from "./poissonDeviate.ts";
+import { poissonDeviate, poissonFromTable, poissonInversionTable, ptrsConstants, ptrsDeviate, type PtrsConstants } from "./poissonDeviate.ts";
 import { normalCdf, normalQuantile } from "./normal.ts";
 
 /**
@@ -56,6 +56,40 @@ function poissonOne(rng: Rng): number {
   let k = 0;
   while (u > POISSON_ONE_CDF[k] && k < POISSON_ONE_CDF.length - 1) k++;
   return k;
+}
+
+const UNIT = 1;
+const TABLE = 2;
+const PTRS = 3;
+const OTHER = 0;
+
+/**
+ * How each exactly resampled cell draws its Poisson(w) count, prepared once for
+ * all resamples: unit weights by the Poisson(1) table, weights below 10 by
+ * their inversion table, larger ones by PTRS with its constants; anything else
+ * (zero, or a weight poissonDeviate refuses) through poissonDeviate itself.
+ * Each way consumes the same uniforms and returns the same count as
+ * poissonDeviate(rng, w) (or poissonOne) would: resamples are unchanged, only
+ * the exponentials, logarithms and roots per draw are gone.
+ */
+function exactDraws(weights: Float64Array): { kind: Uint8Array; table: (Float64Array | null)[]; ptrs: (PtrsConstants | null)[] } {
+  const kind = new Uint8Array(weights.length);
+  const table: (Float64Array | null)[] = new Array(weights.length).fill(null);
+  const ptrs: (PtrsConstants | null)[] = new Array(weights.length).fill(null);
+  const tables = new Map<number, Float64Array>();
+  weights.forEach((w, j) => {
+    if (w === 1) kind[j] = UNIT;
+    else if (w > 0 && w < 10) {
+      kind[j] = TABLE;
+      let t = tables.get(w);
+      if (!t) tables.set(w, (t = poissonInversionTable(w)));
+      table[j] = t;
+    } else if (w >= 10 && Number.isFinite(w)) {
+      kind[j] = PTRS;
+      ptrs[j] = ptrsConstants(w);
+    } else kind[j] = OTHER;
+  });
+  return { kind, table, ptrs };
 }
 
 /** Indices of the `k` largest values of `score` (ties broken by index). */
@@ -137,11 +171,14 @@ export function bootstrapRatio(
   const exactV = Float64Array.from(exact, (i) => vAt(i));
   const exactW = Float64Array.from(exact, (i) => wAt(i));
   const light = exact.length < n;
+  const draw = exactDraws(exactW);
   for (let b = 0; b < B; b++) {
     let num = 0;
     let den = 0;
     for (let j = 0; j < exactU.length; j++) {
-      const c = exactW[j] === 1 ? poissonOne(rng) : poissonDeviate(rng, exactW[j]);
+      const kind = draw.kind[j];
+      const c =
+        kind === UNIT ? poissonOne(rng) : kind === TABLE ? poissonFromTable(rng.uniform(), draw.table[j]!) : kind === PTRS ? ptrsDeviate(rng, draw.ptrs[j]!) : poissonDeviate(rng, exactW[j]);
       if (c === 0) continue;
       num += c * exactU[j];
       den += c * exactV[j];

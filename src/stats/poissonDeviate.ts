@@ -16,19 +16,38 @@ export function poissonDeviate(rng: Rng, mean: number): number {
     let p = Math.exp(-mean);
     let cdf = p;
     const u = rng.uniform();
-    while (u > cdf && k < 1000) {
+    while (u > cdf && k < INVERSION_LIMIT) {
       k++;
       p *= mean / k;
       cdf += p;
     }
     return k;
   }
+  return ptrsDeviate(rng, ptrsConstants(mean));
+}
+
+/** The inversion loop stops here, whatever the draw (a draw beyond it has probability below 1e-300 for means < 10). */
+const INVERSION_LIMIT = 1000;
+
+/** Constants of Hörmann's PTRS for one mean (≥ 10). */
+export interface PtrsConstants {
+  mean: number;
+  loglam: number;
+  a: number;
+  b: number;
+  invAlpha: number;
+  vr: number;
+}
+
+export function ptrsConstants(mean: number): PtrsConstants {
   const slam = Math.sqrt(mean);
-  const loglam = Math.log(mean);
   const b = 0.931 + 2.53 * slam;
-  const a = -0.059 + 0.02483 * b;
-  const invAlpha = 1.1239 + 1.1328 / (b - 3.4);
-  const vr = 0.9277 - 3.6224 / (b - 2);
+  return { mean, loglam: Math.log(mean), a: -0.059 + 0.02483 * b, b, invAlpha: 1.1239 + 1.1328 / (b - 3.4), vr: 0.9277 - 3.6224 / (b - 2) };
+}
+
+/** One PTRS deviate (Hörmann 1993, algorithm PTRS). */
+export function ptrsDeviate(rng: Rng, c: PtrsConstants): number {
+  const { mean, loglam, a, b, invAlpha, vr } = c;
   for (;;) {
     const U = rng.uniform() - 0.5;
     const V = rng.uniform();
@@ -38,4 +57,34 @@ export function poissonDeviate(rng: Rng, mean: number): number {
     if (k < 0 || (us < 0.013 && V > us)) continue;
     if (Math.log(V) + Math.log(invAlpha) - Math.log(a / (us * us) + b) <= -mean + k * loglam - logGamma(k + 1)) return k;
   }
+}
+
+/**
+ * The cumulative probabilities that poissonDeviate's inversion forms for a mean
+ * below 10, k = 0, 1, … by the same recurrence and so the same doubles, up to
+ * where adding the next probability no longer changes the sum (or the loop's
+ * limit). A draw u gives the first k with u ≤ cdf[k], or INVERSION_LIMIT past
+ * the end: exactly poissonDeviate's answer for the same uniform, without its
+ * exponential and products on every draw.
+ */
+export function poissonInversionTable(mean: number): Float64Array {
+  const cdf: number[] = [];
+  let p = Math.exp(-mean);
+  let sum = p;
+  cdf.push(sum);
+  for (let k = 1; k <= INVERSION_LIMIT; k++) {
+    p *= mean / k;
+    const next = sum + p;
+    if (next === sum && k > mean) break; // past the mode p only falls, so the sum stays put from here on
+    sum = next;
+    cdf.push(sum);
+  }
+  return Float64Array.from(cdf);
+}
+
+/** poissonDeviate for a mean below 10 through its table (see poissonInversionTable): the same k for the same uniform. */
+export function poissonFromTable(u: number, cdf: Float64Array): number {
+  let k = 0;
+  while (k < cdf.length && u > cdf[k]) k++;
+  return k < cdf.length ? k : INVERSION_LIMIT;
 }

@@ -1,6 +1,6 @@
 import { describe, expect, it } from "vitest";
 import { bcaInterval, bcaPValue, bootstrapRatio, percentileInterval, sortedQuantile } from "../../src/stats/bootstrap.ts";
-import { poissonDeviate } from "../../src/stats/poissonDeviate.ts";
+import { poissonDeviate, poissonFromTable, poissonInversionTable, ptrsConstants, ptrsDeviate } from "../../src/stats/poissonDeviate.ts";
 import { hillTailShape } from "../../src/stats/tailShape.ts";
 import { rngFromText } from "../../src/stats/rng.ts";
 import { expectClose } from "../helpers/expectClose.ts";
@@ -23,6 +23,33 @@ describe("poissonDeviate", () => {
       // for the variance 5 standard errors, √((λ + 2λ²)/n) (fourth cumulant of the Poisson law).
       expectClose(mean, lambda, { atol: 5 * Math.sqrt(lambda / n), source: "Poisson mean = λ" });
       expectClose(variance, lambda, { atol: 5 * Math.sqrt((lambda + 2 * lambda * lambda) / n), source: "Poisson variance = λ" });
+    }
+  });
+});
+
+describe("Poisson draws prepared once per weight", () => {
+  // The bootstrap prepares each cell's draw once; a resample must not change. The reference is
+  // poissonDeviate itself, fed the same uniforms: equality is exact, not statistical.
+  it("inversion tables return poissonDeviate's count for every uniform, including ones at and beyond the tabulated sums", () => {
+    for (const mean of [1e-3, 0.5, 1.7, 2, 7, 9.999]) {
+      const table = poissonInversionTable(mean);
+      const uniforms: number[] = [0, 1 - 2 ** -53, 0.5 * (1 + table[table.length - 1])];
+      for (const c of table) uniforms.push(c, c - 2 ** -53 * c, Math.min(1 - 2 ** -53, c + 2 ** -53));
+      const rng = rngFromText(`poisson-table:${mean}`);
+      for (let i = 0; i < 20_000; i++) uniforms.push(rng.uniform());
+      for (const u of uniforms) {
+        const fixed = { uniform: () => u, normal: () => 0, int: () => 0, nextUint32: () => 0 };
+        expect(poissonFromTable(u, table)).toBe(poissonDeviate(fixed, mean));
+      }
+    }
+  });
+
+  it("PTRS with constants prepared once draws the same sequence as poissonDeviate from the same generator", () => {
+    for (const mean of [10, 37.2, 1e4]) {
+      const a = rngFromText(`ptrs:${mean}`);
+      const b = rngFromText(`ptrs:${mean}`);
+      const c = ptrsConstants(mean);
+      for (let i = 0; i < 20_000; i++) expect(ptrsDeviate(a, c)).toBe(poissonDeviate(b, mean));
     }
   });
 });

@@ -216,10 +216,9 @@ export class CellTable {
   private readonly inverseStep: Float64Array;
   /** 3^(column level) of each column at the current table level. */
   private readonly factor: Float64Array;
-  /** Each partition's queue: per row its grid key, stored values, weight and Σ, and the key's hash. */
+  /** Each partition's queue: per row its grid key, stored values, weight and Σ. */
   private readonly entry: number;
   private pending: Float64Array[] = [];
-  private pendingHash: Int32Array[] = [];
   private readonly pendingRows = new Int32Array(PARTITIONS);
 
   constructor(readonly spec: GridSpec) {
@@ -292,9 +291,8 @@ export class CellTable {
     const { dims, stored } = this.spec;
     if (this.pending.length === 0) {
       this.pending = Array.from({ length: PARTITIONS }, () => new Float64Array(PENDING_ROWS * this.entry));
-      this.pendingHash = Array.from({ length: PARTITIONS }, () => new Int32Array(PENDING_ROWS));
     }
-    const { inverseStep, factor, pendingRows, pending, pendingHash, entry, key, pairA, pairB, threeCurrents } = this;
+    const { inverseStep, factor, pendingRows, pending, entry, key, pairA, pairB, threeCurrents } = this;
     const shift = 32 - PARTITION_BITS;
     const P = pairA.length;
     for (let i = from; i < to; i++) {
@@ -334,7 +332,6 @@ export class CellTable {
       } else {
         for (let k = 0; k < P; k++) totals[k] += w * v[vi + pairA[k]] * v[vi + pairB[k]];
       }
-      pendingHash[p][n] = hash;
       pendingRows[p] = n + 1;
       if (n + 1 === PENDING_ROWS) {
         this.flush(p);
@@ -349,13 +346,13 @@ export class CellTable {
     if (n === 0) return;
     const { dims, stored } = this.spec;
     const queue = this.pending[p];
-    const hashes = this.pendingHash[p];
     const store = this.stores[p];
     const before = store.size;
     const { oCount, oSums, oMin, oMax, oRef, oExp, entry, threeCurrents } = this;
     for (let i = 0; i < n; i++) {
       const at = i * entry;
-      const base = store.recordFor(queue, at, hashes[i]);
+      // The hash is formed again from the queued key: cheaper than a second queue to write and read.
+      const base = store.recordFor(queue, at, this.hashOf(queue, at));
       const data = store.data;
       const vAt = at + dims;
       const weight = queue[vAt + stored];
