@@ -82,12 +82,14 @@ export function coarserIndex(k: number, fromLevel: number, toLevel: number): num
   return Math.floor((k + (p - 1) / 2) / p);
 }
 
-/** Rows handed to `addRows`: key columns and stored values row-major, one Σ a row, all of weight 1. */
+/** Rows handed to `addRows`: key columns and stored values row-major, one Σ a row. */
 export interface RowBlock {
   rows: number;
   x: Float64Array; // rows × dims
   v: Float64Array; // rows × stored
   sigma: Float64Array;
+  /** Realisations each row stands for (a histogram's counts); absent: one each. */
+  weight?: Float64Array;
 }
 
 /** Partitions of a table, by the top bits of a key's hash: 2^8, so that one partition's cells stay in cache while its rows go in. */
@@ -220,6 +222,9 @@ export class CellTable {
   private readonly entry: number;
   private pending: Float64Array[] = [];
   private readonly pendingRows = new Int32Array(PARTITIONS);
+  /** One row's weight and Σ, for `add`. */
+  private readonly oneWeight = new Float64Array(1);
+  private readonly oneSigma = new Float64Array(1);
 
   constructor(readonly spec: GridSpec) {
     this.level = spec.startLevel;
@@ -276,18 +281,13 @@ export class CellTable {
     return h ^ (h >>> 15);
   }
 
-  /** Queue one row: key columns x at xAt, stored values v at vAt. */
-  private enqueue(x: Float64Array, xAt: number, v: Float64Array, vAt: number, weight: number, sigma: number): void {
-    this.enqueueBlock(x, xAt, v, vAt, null, weight, Float64Array.of(sigma), 0, 1);
-  }
-
   /**
-   * Queue rows [from, to) of a block (key columns x, stored values v, Σ), each
-   * of weight `weights[i]` or, without weights, `weight`. One loop with the
-   * grid key, its hash and the queue write inlined: this is the innermost
-   * loop of reading a large file.
+   * Queue rows 0 … rows−1 of a block (key columns x, stored values v, Σ), each of
+   * weight `weights[i]`, or 1 without weights. One loop with the grid key, its
+   * hash and the queue write inlined: this is the innermost loop of reading a
+   * large file.
    */
-  private enqueueBlock(x: Float64Array, xAt: number, v: Float64Array, vAt: number, weights: Float64Array | null, weight: number, sigmas: Float64Array, from: number, to: number): void {
+  private enqueueBlock(x: Float64Array, v: Float64Array, weights: Float64Array | null, sigmas: Float64Array, rows: number): void {
     const { dims, stored } = this.spec;
     if (this.pending.length === 0) {
       this.pending = Array.from({ length: PARTITIONS }, () => new Float64Array(PENDING_ROWS * this.entry));
@@ -295,8 +295,8 @@ export class CellTable {
     const { inverseStep, factor, pendingRows, pending, entry, key, pairA, pairB, threeCurrents } = this;
     const shift = 32 - PARTITION_BITS;
     const P = pairA.length;
-    for (let i = from; i < to; i++) {
-      const xi = xAt + (i - from) * dims;
+    for (let i = 0; i < rows; i++) {
+      const xi = i * dims;
       let h = 0x811c9dc5;
       for (let d = 0; d < dims; d++) {
         const f = factor[d];
@@ -312,9 +312,9 @@ export class CellTable {
       const queue = pending[p];
       let at = n * entry;
       for (let d = 0; d < dims; d++) queue[at++] = key[d];
-      const vi = vAt + (i - from) * stored;
+      const vi = i * stored;
       for (let s = 0; s < stored; s++) queue[at++] = v[vi + s];
-      const w = weights === null ? weight : weights[i];
+      const w = weights === null ? 1 : weights[i];
       queue[at++] = w;
       queue[at] = sigmas[i];
       const totals = this.productTotals; // replaced when the table goes up a level
@@ -386,12 +386,14 @@ export class CellTable {
    * `values` (length stored) and entropy production `sigma`.
    */
   add(x: Float64Array, values: Float64Array, weight: number, sigma: number): void {
-    this.enqueue(x, 0, values, 0, weight, sigma);
+    this.oneWeight[0] = weight;
+    this.oneSigma[0] = sigma;
+    this.enqueueBlock(x, values, this.oneWeight, this.oneSigma, 1);
   }
 
-  /** Add a block of rows of weight 1, in order: the same as `add` row by row. */
+  /** Add a block of rows, in order: the same as `add` row by row. */
   addRows(block: RowBlock): void {
-    this.enqueueBlock(block.x, 0, block.v, 0, null, 1, block.sigma, 0, block.rows);
+    this.enqueueBlock(block.x, block.v, block.weight ?? null, block.sigma, block.rows);
   }
 
   /** Go up one level (or more, until the cells fit): pool neighbouring cells of the coarsenable columns. */

@@ -37,9 +37,8 @@ export interface SamplesPartSummary {
 export class SamplesReducer {
   readonly table: CellTable;
   readonly rowProblems = newProblemLog();
-  private readonly xBuffer: Float64Array;
-  private readonly vBuffer: Float64Array;
   private readonly rowBuffer = new Float64Array(5);
+  private weightBuffer = new Float64Array(0);
   private block: RowBlock = { rows: 0, x: new Float64Array(0), v: new Float64Array(0), sigma: new Float64Array(0) };
 
   /** Buffers for a block of rows, reused from chunk to chunk. */
@@ -52,8 +51,6 @@ export class SamplesReducer {
 
   constructor(readonly spec: SamplesReductionSpec) {
     this.table = new CellTable({ ...spec.grid, pairs: spec.grid.pairs.map(([a, b]) => [a, b]), delay: Float64Array.from(spec.grid.delay), maxColumnLevel: Float64Array.from(spec.grid.maxColumnLevel), step0: Float64Array.from(spec.grid.step0) });
-    this.xBuffer = new Float64Array(spec.keyColumns.length);
-    this.vBuffer = new Float64Array(spec.storedColumns.length);
   }
 
   accept(chunk: RowChunk): void {
@@ -73,15 +70,23 @@ export class SamplesReducer {
     const key = spec.keyColumns.map((c) => (c === "sigma" ? sigma : c === "betaW" ? betaW! : columns[c]!));
     const stored = spec.storedColumns.map((c) => columns[c]!);
     const weight = rows.weight;
-    const x = this.xBuffer;
-    const v = this.vBuffer;
+    const dims = key.length;
+    const S = stored.length;
+    const block = this.blockFor(chunk.rows, dims, S);
+    if (weight && this.weightBuffer.length < chunk.rows) this.weightBuffer = new Float64Array(chunk.rows);
+    const weights = this.weightBuffer;
+    let n = 0;
     for (let i = 0; i < chunk.rows; i++) {
       const w = weight ? weight[i] : 1;
-      if (w === 0) continue;
-      for (let d = 0; d < key.length; d++) x[d] = key[d][i];
-      for (let s = 0; s < stored.length; s++) v[s] = stored[s][i];
-      this.table.add(x, v, w, sigma[i]);
+      if (w === 0) continue; // a histogram's empty bin holds no realisation
+      for (let d = 0; d < dims; d++) block.x[n * dims + d] = key[d][i];
+      for (let s = 0; s < S; s++) block.v[n * S + s] = stored[s][i];
+      block.sigma[n] = sigma[i];
+      if (weight) weights[n] = w;
+      n++;
     }
+    block.rows = n;
+    this.table.addRows(weight ? { ...block, weight: weights } : block);
   }
 
   /**
