@@ -244,6 +244,52 @@ describe("cell summary of a samples file", () => {
     expect(Array.from(a.Q)).toEqual(Array.from(b.Q));
   });
 
+  it("summarises a histogram (a count column) into the same cells as the same realisations listed one a row", async () => {
+    // The same realisations, as rows and as counts of distinct rows: the weighted path must give the
+    // same cells, counts and sums as the plain one (sums to rounding: a count multiplies where the
+    // plain path adds; rtol 1e-12). Values printed to 0.1 meV, so that rows repeat.
+    const { W, Q, dN } = sampleTilted(family(1.3, 1.0, 0.05, true), 160_000, rngFromText("reduce:histogram"));
+    const rows: string[] = [];
+    const counts = new Map<string, number>();
+    for (let i = 0; i < W.length; i++) {
+      const line = `${W[i].toFixed(1)},${Q[i].toFixed(1)},${dN[i]}`;
+      rows.push(line);
+      counts.set(line, (counts.get(line) ?? 0) + 1);
+    }
+    expect(counts.size).toBeLessThan(rows.length / 2);
+    const head = (columns: string) => `id: reduce-histogram
+title: Reduction test histogram
+authors: [{ name: "Test Author" }]
+datasets:
+  - id: runs
+    kind: samples
+    file: data/runs.csv
+    columns: ${columns}
+    energy_unit: meV
+    reservoirs:
+      A: { T: 1.3, mu: 0.05 }
+      B: { T: 1.0, mu: 0 }
+    tau: 1.0e-9
+    work: measured
+checks: all
+`;
+    const plainDir = tempAudit(head("{ W: W, Q: Q, dN: dN }"), { "data/runs.csv": `W,Q,dN\n${rows.join("\n")}\n` });
+    const histogramDir = tempAudit(head("{ W: W, Q: Q, dN: dN, count: n }"), {
+      "data/runs.csv": `W,Q,dN,n\n${[...counts].map(([line, n]) => `${line},${n}`).join("\n")}\n`,
+    });
+    const plain = await loadBoth(plainDir);
+    const histogram = await loadBoth(histogramDir);
+    expect(histogram.reduced.reduction).not.toBeNull();
+    expect(histogram.reduced.realisations).toBe(rows.length);
+    expect(Array.from(histogram.reduced.weight!)).toEqual(Array.from(plain.reduced.weight!));
+    const why = "the same realisations, weighted instead of repeated; rtol 1e-12";
+    histogram.reduced.sigma.forEach((x, i) => expectClose(x, plain.reduced.sigma[i], { rtol: 1e-12, atol: 1e-12, source: why }));
+    histogram.reduced.Q.forEach((x, i) => expectClose(x, plain.reduced.Q[i], { rtol: 1e-12, atol: 1e-40, source: why }));
+    // Verdicts: the summarised histogram against the histogram read row by row (the same file, so the
+    // same bootstrap seeds; a different file, such as the plain one, draws other resamples).
+    expect(statuses(histogramDir, histogram.definition, histogram.reduced)).toEqual(statuses(histogramDir, histogram.definition, histogram.exact));
+  });
+
   it("widens cells until they fit the capacity, and still keeps the totals", async () => {
     const definition = loadAuditDefinition(dir);
     const config = definition.datasets[0] as SamplesDatasetConfig;
