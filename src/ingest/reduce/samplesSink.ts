@@ -113,6 +113,8 @@ export class SamplesReducer {
     const block = this.blockFor(chunk.rows, dims, S);
     const x = block.x;
     const v = block.v;
+    // The benchmark's and most files' layout, written out; any other through the index arrays.
+    const common = spec.keyColumns.join() === "sigma,betaW,dN" && spec.storedColumns.join() === "Q,W,dN";
     let n = 0;
     for (let i = 0; i < chunk.rows; i++) {
       const Q = qs[i] * j;
@@ -124,6 +126,17 @@ export class SamplesReducer {
         continue;
       }
       if (this.rowProblems.count > 0) continue; // the file is refused; only the problems matter now
+      block.sigma[n] = sigma;
+      if (common) {
+        x[3 * n] = sigma;
+        x[3 * n + 1] = bb * W;
+        x[3 * n + 2] = dN;
+        v[3 * n] = Q;
+        v[3 * n + 1] = W;
+        v[3 * n + 2] = dN;
+        n++;
+        continue;
+      }
       row[0] = sigma;
       row[1] = Q;
       row[2] = W;
@@ -131,7 +144,6 @@ export class SamplesReducer {
       row[4] = bb * W;
       for (let d = 0; d < dims; d++) x[n * dims + d] = row[keyAt[d]];
       for (let k = 0; k < S; k++) v[n * S + k] = row[storedAt[k]];
-      block.sigma[n] = sigma;
       n++;
     }
     block.rows = n;
