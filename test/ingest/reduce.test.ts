@@ -120,6 +120,39 @@ describe("cell table", () => {
     for (const capacity of [100_000, 3000]) check(capacity);
   });
 
+  it("merges sorted parts in one pass to the same bits as absorbing them into a table", () => {
+    // Workers send their parts sorted; the linear merge must repeat absorb's arithmetic exactly
+    // (first part's reference Σ, e^−Σ sums rescaled to it, sums in part order).
+    const spec: GridSpec = {
+      dims: 2,
+      step0: Float64Array.from([2 ** -10, 1]),
+      delay: Float64Array.from([0, Infinity]),
+      maxColumnLevel: Float64Array.from([Infinity, Infinity]),
+      stored: 2,
+      pairs: [[0, 0], [0, 1], [1, 1]],
+      capacity: 100_000,
+      startLevel: 0,
+    };
+    const rng = rngFromText("cell-table:merge");
+    const part = () => {
+      const table = new CellTable({ ...spec, delay: Float64Array.from(spec.delay), maxColumnLevel: Float64Array.from(spec.maxColumnLevel) });
+      for (let i = 0; i < 30_000; i++) {
+        const sigma = 2 * rng.normal();
+        const n = Math.round(2 * rng.normal());
+        table.add(Float64Array.of(sigma, n), Float64Array.of(1.7 * sigma, n), 1, sigma);
+      }
+      return table;
+    };
+    const tables = [part(), part()];
+    const linear = mergeCellTables(spec, tables.map((t) => t.exportSorted()));
+    const general = mergeCellTables(spec, tables.map((t) => t.export()));
+    expect(linear.cells).toBe(general.cells);
+    expect(linear.cells).toBeLessThan(tables[0].size + tables[1].size); // the parts share cells
+    for (const field of ["keys", "count", "sums", "productTotals", "sigmaMin", "sigmaMax", "sigmaRef", "expSum"] as const) {
+      expect(Array.from(linear[field])).toEqual(Array.from(general[field]));
+    }
+  });
+
   it("orders cells lexicographically by key, through packed numbers or, for a huge range of keys, by comparison", () => {
     // The packed order must equal a plain lexicographic comparison sort (common practice: a stable
     // reference). Keys here include negatives, ties in the leading column, and in the second case a

@@ -64,6 +64,8 @@ export interface CellTableData {
   /** Σ of the first realisation of each cell, and the sum over the cell of w e^{−(Σ − that reference)}. */
   sigmaRef: Float64Array;
   expSum: Float64Array;
+  /** Cells in lexicographic order of their keys (exportSorted), which merging can use. */
+  sorted?: boolean;
 }
 
 const EMPTY = -1;
@@ -449,6 +451,11 @@ export class CellTable {
     return this.snapshot();
   }
 
+  /** The cells as plain arrays (queued rows added first), sorted by key: what a worker sends, so that the merge is a linear pass. */
+  exportSorted(): CellTableData {
+    return sortedByKey(this.spec, this.export());
+  }
+
   /** The cells as plain arrays, without adding queued rows. */
   private snapshot(): CellTableData {
     const { dims, stored } = this.spec;
@@ -489,6 +496,77 @@ export class CellTable {
  * the summary does not depend on hash-table layout).
  */
 export function mergeCellTables(spec: GridSpec, parts: CellTableData[]): CellTableData {
+  const level = Math.max(spec.startLevel, ...parts.map((p) => p.level));
+  if (parts.every((p) => p.sorted && p.level === level)) {
+    // Sorted parts at one level: merged in one linear pass, with the arithmetic of absorbing them
+    // in part order into an empty table, so the result is the same to the last bit.
+    let merged = parts[0];
+    for (let k = 1; k < parts.length; k++) merged = mergeSorted(spec, merged, parts[k]);
+    if (merged.cells <= spec.capacity) return merged;
+  }
+  return mergeByTable(spec, parts);
+}
+
+/** Two sorted tables at one level, cells with equal keys combined (`a` first, as `absorb` would). */
+function mergeSorted(spec: GridSpec, a: CellTableData, b: CellTableData): CellTableData {
+  const { dims, stored } = spec;
+  const most = a.cells + b.cells;
+  const out: CellTableData = {
+    level: a.level,
+    cells: 0,
+    keys: new Float64Array(most * dims),
+    count: new Float64Array(most),
+    sums: new Float64Array(most * stored),
+    sigmaMin: new Float64Array(most),
+    sigmaMax: new Float64Array(most),
+    sigmaRef: new Float64Array(most),
+    expSum: new Float64Array(most),
+    productTotals: Float64Array.from(a.productTotals, (t, p) => t + b.productTotals[p]),
+    sorted: true,
+  };
+  const copy = (from: CellTableData, i: number, to: number) => {
+    for (let d = 0; d < dims; d++) out.keys[to * dims + d] = from.keys[i * dims + d];
+    for (let s = 0; s < stored; s++) out.sums[to * stored + s] = from.sums[i * stored + s];
+    out.count[to] = from.count[i];
+    out.sigmaMin[to] = from.sigmaMin[i];
+    out.sigmaMax[to] = from.sigmaMax[i];
+    out.sigmaRef[to] = from.sigmaRef[i];
+    out.expSum[to] = from.expSum[i];
+  };
+  let i = 0;
+  let j = 0;
+  let n = 0;
+  while (i < a.cells || j < b.cells) {
+    let order = i === a.cells ? 1 : j === b.cells ? -1 : 0;
+    for (let d = 0; order === 0 && d < dims; d++) order = Math.sign(a.keys[i * dims + d] - b.keys[j * dims + d]);
+    if (order < 0) copy(a, i++, n);
+    else if (order > 0) copy(b, j++, n);
+    else {
+      copy(a, i++, n);
+      out.count[n] += b.count[j];
+      for (let s = 0; s < stored; s++) out.sums[n * stored + s] += b.sums[j * stored + s];
+      if (b.sigmaMin[j] < out.sigmaMin[n]) out.sigmaMin[n] = b.sigmaMin[j];
+      if (b.sigmaMax[j] > out.sigmaMax[n]) out.sigmaMax[n] = b.sigmaMax[j];
+      out.expSum[n] += b.expSum[j] * Math.exp(out.sigmaRef[n] - b.sigmaRef[j]);
+      j++;
+    }
+    n++;
+  }
+  return {
+    ...out,
+    cells: n,
+    keys: out.keys.subarray(0, n * dims),
+    count: out.count.subarray(0, n),
+    sums: out.sums.subarray(0, n * stored),
+    sigmaMin: out.sigmaMin.subarray(0, n),
+    sigmaMax: out.sigmaMax.subarray(0, n),
+    sigmaRef: out.sigmaRef.subarray(0, n),
+    expSum: out.expSum.subarray(0, n),
+  };
+}
+
+/** The general merge: absorb the parts in order into a table (which coarsens if it must), then sort. */
+function mergeByTable(spec: GridSpec, parts: CellTableData[]): CellTableData {
   const table = new CellTable(spec);
   table.level = Math.max(spec.startLevel, ...parts.map((p) => p.level));
   table.refreshFactors();
@@ -552,6 +630,7 @@ function sortedByKey(spec: GridSpec, data: CellTableData): CellTableData {
     sigmaRef: new Float64Array(data.cells),
     expSum: new Float64Array(data.cells),
     productTotals: Float64Array.from(data.productTotals),
+    sorted: true,
   };
   for (let to = 0; to < data.cells; to++) {
     const from = order[to];

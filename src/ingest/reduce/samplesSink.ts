@@ -168,7 +168,7 @@ export function reduceFileRange(file: string, start: number, end: number, layout
     return {
       state: { rows: state.rows, line: state.line, problems: state.problems, problemCount: state.problemCount, structural: state.structural },
       rowProblems: reducer.rowProblems,
-      table: reducer.table.export(),
+      table: reducer.table.exportSorted(),
     };
   } finally {
     fs.closeSync(fd);
