@@ -4,11 +4,13 @@
 // file is cut and from threads, the reference reader's messages, and — the point of it all — the same
 // verdicts as the exact computation on the raw rows, on medium data drawn from laws with known answers.
 import fs from "node:fs";
+import os from "node:os";
 import path from "node:path";
 import { describe, expect, it } from "vitest";
 import { CellTable, coarserIndex, keyOrder, mergeCellTables, type GridSpec } from "../../src/ingest/reduce/cellTable.ts";
 import { loadAuditDefinition } from "../../src/config/loadAudit.ts";
 import { loadSamples, type SamplesReadOptions } from "../../src/ingest/samples.ts";
+import { removeStaleBundles } from "../../src/ingest/reduce/parallelReduce.ts";
 import type { Dataset, IngestedAudit, SamplesDataset } from "../../src/ingest/types.ts";
 import type { SamplesDatasetConfig } from "../../src/config/types.ts";
 import { runChecks } from "../../src/report/runAudit.ts";
@@ -94,6 +96,21 @@ rows,
   work: "measured",
   drawn,
   declared: { TA: 1.3, TB: 1.0, muA: 0.05 },
+});
+
+describe("reduction worker bundles", () => {
+  it("removes other versions' bundles unused for a week, and nothing else", () => {
+    const dir = fs.mkdtempSync(path.join(os.tmpdir(), "bundles-"));
+    const name = (digest: string) => `transport-audit-reduce-worker-${digest}.mjs`;
+    const weekAndADay = (8 * 24 * 3600 * 1000) / 1000;
+    const files = { keep: name("a".repeat(16)), stale: name("b".repeat(16)), recent: name("c".repeat(16)), other: "transport-audit-notes.txt" };
+    for (const f of Object.values(files)) fs.writeFileSync(path.join(dir, f), "");
+    const old = Date.now() / 1000 - weekAndADay;
+    for (const f of [files.keep, files.stale, files.other]) fs.utimesSync(path.join(dir, f), old, old);
+    removeStaleBundles(files.keep, dir);
+    expect(fs.readdirSync(dir).sort()).toEqual([files.keep, files.recent, files.other].sort());
+    fs.rmSync(dir, { recursive: true, force: true });
+  });
 });
 
 describe("cell grid arithmetic", () => {

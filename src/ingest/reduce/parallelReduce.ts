@@ -54,6 +54,7 @@ export function workerBundle(): Promise<string | null> {
         const temp = `${file}.${process.pid}.tmp`;
         fs.writeFileSync(temp, code);
         fs.renameSync(temp, file);
+        removeStaleBundles(path.basename(file));
       }
       return file;
     } catch {
@@ -61,6 +62,28 @@ export function workerBundle(): Promise<string | null> {
     }
   })();
   return bundled;
+}
+
+/** Bundles of other code versions untouched for this long are removed when a new one is written. */
+const STALE_BUNDLE_MS = 7 * 24 * 3600 * 1000;
+
+/**
+ * Remove the bundles earlier versions of the tool left in the temporary folder
+ * (one per version of the worker's code), except `keep` and any used in the
+ * last week: a process of an older version may still be starting workers on its own.
+ */
+export function removeStaleBundles(keep: string, dir = os.tmpdir()): void {
+  try {
+    const now = Date.now();
+    for (const name of fs.readdirSync(dir)) {
+      if (name === keep || !/^transport-audit-reduce-worker-[0-9a-f]{16}\.mjs$/.test(name)) continue;
+      const file = path.join(dir, name);
+      const stat = fs.statSync(file);
+      if (now - Math.max(stat.atimeMs, stat.mtimeMs) > STALE_BUNDLE_MS) fs.rmSync(file, { force: true });
+    }
+  } catch {
+    // Tidying only: a folder that cannot be listed or a file another process removed is no error.
+  }
 }
 
 /** Start a worker on the bundle, or through tsx's loader when there is none (plain Node cannot load .ts files). */
