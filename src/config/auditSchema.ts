@@ -1,4 +1,6 @@
 import { z } from "zod";
+import { CHECK_IDS } from "../checks/types.ts";
+import { nearest } from "./nearest.ts";
 import { datasetId, slug, text } from "./common.ts";
 import { samplesDatasetSchema } from "./samplesSchema.ts";
 import { coefficientsDatasetSchema } from "./coefficientsSchema.ts";
@@ -65,6 +67,17 @@ export const auditSchema = z
       if (first !== undefined) {
         ctx.addIssue({ code: "custom", path: ["datasets", i, "id"], message: `duplicates the id of datasets[${first}]` });
       } else seen.set(d.id, i);
+    });
+    // Unknown check ids are refused here, with their line, rather than after the data were read.
+    if (audit.checks === "all") return;
+    audit.checks.forEach((entry, i) => {
+      const id = typeof entry === "string" ? entry : Object.keys(entry)[0];
+      if ((CHECK_IDS as readonly string[]).includes(id)) return;
+      const hint = nearest(id, CHECK_IDS) ?? "";
+      const known = `${hint ? ` (did you mean ${hint}?)` : ""}: one of ${CHECK_IDS.join(", ")}`;
+      if (typeof entry === "string") ctx.addIssue({ code: "custom", path: ["checks", i], message: `must be a check id${known}` });
+      // A map's key is the id; its value (the options) is not what is wrong, so it is not quoted.
+      else ctx.addIssue({ code: "custom", path: ["checks", i, id], message: `is not a check id${known}`, params: { quoteFound: false } });
     });
   });
 

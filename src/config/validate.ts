@@ -104,7 +104,8 @@ export function validateLocated<S extends z.ZodTypeAny>(schema: S, doc: LocatedY
     const missing = found === undefined && issue.code === "invalid_type" && issue.received === "undefined";
     const said = plainMessage(issue);
     const message = missing ? `is missing; ${said === "is required" ? "it is required" : said}` : said;
-    const foundText = found === undefined ? "" : `, found ${describeFound(found)}`;
+    const quoteFound = !(issue.code === "custom" && issue.params?.quoteFound === false);
+    const foundText = found === undefined || !quoteFound ? "" : `, found ${describeFound(found)}`;
     lines.push(`${doc.file}:${doc.lineOf(issue.path) ?? "?"} ${formatKeyPath(issue.path)}: ${message}${foundText}`);
   }
   throw new ConfigError(lines.join("\n"));
