@@ -2,7 +2,8 @@
 // once into .bench/archive-200/, see bench/archiveGenerator.ts), built cold
 // (empty result cache: every audit ingested and checked) and warm (every
 // result taken from the cache: what remains is hashing the data files and
-// rendering). Each build runs the command line in a child process, whose
+// rendering). The cold build runs once in one thread (--threads 1) and once with
+// the default worker threads. Each build runs the command line in a child process, whose
 // wall time, pages per second and peak memory are reported.
 import { spawn } from "node:child_process";
 import fs from "node:fs";
@@ -92,7 +93,10 @@ export async function run(): Promise<Record<string, unknown>> {
       : `   reusing ${path.relative(process.cwd(), root)} (${GENERATOR_VERSION})\n`,
   );
   fs.rmSync(resultCacheDir(root), { recursive: true, force: true });
-  process.stderr.write("   cold build (empty result cache) …\n");
+  process.stderr.write("   cold builds (empty result cache), one thread and default threads …\n");
+  const coldOneThread = await timedBuild(root, out, ["--no-cache", "--threads", "1"]);
+  process.stdout.write(line("cold build, one thread", coldOneThread));
+  fs.rmSync(resultCacheDir(root), { recursive: true, force: true });
   const cold = await timedBuild(root, out, []);
   process.stdout.write(line("cold build", cold));
   process.stderr.write("   warm build (every result cached) …\n");
@@ -104,6 +108,7 @@ export async function run(): Promise<Record<string, unknown>> {
   process.stdout.write(`   load average ${os.loadavg().map((x) => x.toFixed(1)).join(" ")} (timings on a busy machine are longer)\n`);
   return {
     archive: { audits: AUDITS, generator: GENERATOR_VERSION, generated_now: generated, generation_seconds: generated ? generationSeconds : null },
+    cold_one_thread: coldOneThread,
     cold,
     warm,
     load_average: os.loadavg(),

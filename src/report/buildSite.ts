@@ -7,7 +7,8 @@ import { loadArchiveDefinition, type ArchiveDefinition } from "../config/archive
 import { AUDIT_FILE } from "../config/loadAudit.ts";
 import { InputError } from "../errors.ts";
 import { TOOL } from "../version.ts";
-import { pruneResultCache, resultCacheDir, runAuditCached } from "./resultCache.ts";
+import { runAuditFolders } from "./auditPool.ts";
+import { pruneResultCache, resultCacheDir } from "./resultCache.ts";
 import type { ResultDocument } from "./resultDocument.ts";
 import { auditPageModel, type AuditPageModel } from "./viewModel.ts";
 import { checkArchive } from "../archive/integrity.ts";
@@ -28,6 +29,8 @@ export interface BuildOptions {
    * not use are removed once the site is written.
    */
   cache?: "use" | "refresh";
+  /** Worker threads that run the audits (default: one a core, at most four; below two, or for small archives, this thread). */
+  threads?: number;
 }
 
 /** How many audits took their result from the cache and how many were run. */
@@ -127,22 +130,24 @@ export async function buildSite(options: BuildOptions): Promise<BuildOutcome> {
   const cache: CacheStatistics = { reused: 0, recomputed: 0, unstored: 0 };
   const cacheUse = { dir: resultCacheDir(options.root), read: (options.cache ?? "use") === "use" };
   const usedFingerprints = new Set<string>();
+  options.onProgress?.(0, folders.length, "");
+  const outcomes = await runAuditFolders(folders, cacheUse, {
+    threads: options.threads,
+    onDone: (done, total, folder) => options.onProgress?.(done, total, path.basename(folder)),
+  });
   for (const [i, folder] of folders.entries()) {
-    options.onProgress?.(i, folders.length, path.basename(folder));
     const folderRel = path.relative(options.root, folder).split(path.sep).join("/");
     const stored = checkArchive(folder);
     let current: ResultDocument | null = null;
-    try {
-      const run = await runAuditCached(folder, cacheUse);
+    const outcome = outcomes[i];
+    if (outcome.kind === "run") {
+      const { run } = outcome;
       current = run.result;
       usedFingerprints.add(run.result.fingerprint);
       if (run.fromCache) cache.reused++;
       else cache.recomputed++;
       if (!run.stored) cache.unstored++;
-    } catch (err) {
-      if (!(err instanceof InputError)) throw err;
-      broken.push({ folder: folderRel, error: err.message });
-    }
+    } else broken.push({ folder: folderRel, error: outcome.message });
     // Published versions stay on the site even when the current state cannot be run.
     if (!current && stored.versions.length === 0) continue;
     const latest = stored.versions[stored.versions.length - 1];
@@ -160,7 +165,6 @@ export async function buildSite(options: BuildOptions): Promise<BuildOutcome> {
     if (plan.draft) draftPages.push(auditPageModel(plan.draft.result, plan.draft.versioning));
     files.push(...plan.files);
   }
-  options.onProgress?.(folders.length, folders.length, "");
   const ids = new Set<string>();
   for (const a of audits) {
     if (ids.has(a.id)) throw new InputError(`two audits in ${options.root}/audits share the id ${JSON.stringify(a.id)}; ids must be unique in an archive`);
