@@ -2,7 +2,7 @@ import type { SamplesDataset } from "../../ingest/types.ts";
 import { normalQuantile, normalCdf } from "../../stats/normal.ts";
 import { weightedMeanOf, weightedMoments } from "../../stats/weightedMoments.ts";
 import { freedmanDiaconisBins, histogram, linearEdges } from "../../stats/histogram.ts";
-import { fmt, fmtInterval, numberOption, perDataset } from "../helpers.ts";
+import { fmt, numberOption, perDataset } from "../helpers.ts";
 import { sigmaVanishesIdentically, trivialAtEquilibrium } from "../equilibriumGuard.ts";
 import type { CheckContext, CheckDefinition, CheckResult, Status } from "../types.ts";
 import type { PlotSpec } from "../plotSpec.ts";

@@ -68,7 +68,6 @@ export interface CellTableData {
   sorted?: boolean;
 }
 
-const EMPTY = -1;
 /** Levels beyond this would need cell indices past 2^53 / 3^L exactness. */
 export const MAX_LEVEL = 30;
 
@@ -264,15 +263,6 @@ export class CellTable {
     this.productTotals = new Float64Array(this.spec.pairs.length);
   }
 
-  /** Grid indices of raw key values x (length dims) at the current level, into `out` at `at`. */
-  private gridKey(x: Float64Array, xAt: number, out: Float64Array, at: number): void {
-    for (let d = 0; d < this.spec.dims; d++) {
-      const k = Math.floor(x[xAt + d] * this.inverseStep[d] + 0.5);
-      const p = this.factor[d];
-      out[at + d] = p === 1 ? k : Math.floor((k + (p - 1) / 2) / p);
-    }
-  }
-
   private hashOf(key: Float64Array, at: number): number {
     let h = 0x811c9dc5;
     for (let d = 0; d < this.spec.dims; d++) {
@@ -299,6 +289,7 @@ export class CellTable {
     const P = pairA.length;
     for (let i = 0; i < rows; i++) {
       const xi = i * dims;
+      // The grid key (the level-0 cell, then coarserIndex's arithmetic) and hashOf's hash, inlined.
       let h = 0x811c9dc5;
       for (let d = 0; d < dims; d++) {
         const f = factor[d];
