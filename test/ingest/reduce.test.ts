@@ -6,6 +6,7 @@
 import fs from "node:fs";
 import os from "node:os";
 import path from "node:path";
+import fc from "fast-check";
 import { describe, expect, it } from "vitest";
 import { CellTable, coarserIndex, keyOrder, mergeCellTables, type GridSpec } from "../../src/ingest/reduce/cellTable.ts";
 import { loadAuditDefinition } from "../../src/config/loadAudit.ts";
@@ -168,6 +169,92 @@ describe("cell table", () => {
     for (const field of ["keys", "count", "sums", "productTotals", "sigmaMin", "sigmaMax", "sigmaRef", "expSum"] as const) {
       expect(Array.from(linear[field])).toEqual(Array.from(general[field]));
     }
+  });
+
+  it("keeps every total of the rows, however they are split into parts and blocks (property test, fast-check, fixed seed)", () => {
+    // Whatever the capacity (so whatever the changes of level), the block sizes, the weights and the
+    // number of parts, the merged table must hold the rows' total weight exactly (whole numbers), and
+    // their sums, sums of products and sum of w e^−Σ to rounding (rtol 1e-12; the order of additions
+    // differs from the reference's plain loop). Cells must stay within the capacity and keep each
+    // realisation's Σ inside its cell's range.
+    // Most rows share two keys, so that one partition's queue fills and goes in (and the table may
+    // change level) while rows are still arriving, as in a large file.
+    const rowArb = fc.record({
+      sigma: fc.oneof({ arbitrary: fc.double({ min: -6, max: 6, noNaN: true }), weight: 1 }, { arbitrary: fc.constantFrom(-1.5, 0.75), weight: 3 }),
+      n: fc.oneof({ arbitrary: fc.integer({ min: -3, max: 3 }), weight: 1 }, { arbitrary: fc.constant(1), weight: 3 }),
+      q: fc.double({ min: -2, max: 2, noNaN: true }),
+      w: fc.constantFrom(1, 1, 1, 2, 5),
+    });
+    fc.assert(
+      fc.property(
+        fc.array(rowArb, { minLength: 1, maxLength: 8000, size: "max" }),
+        fc.integer({ min: 1, max: 4 }),
+        fc.integer({ min: 1, max: 700 }),
+        fc.constantFrom(20, 200, 5000),
+        fc.boolean(),
+        (rows, parts, block, capacity, sorted) => {
+          const spec: GridSpec = {
+            dims: 2,
+            step0: Float64Array.from([2 ** -8, 1]),
+            delay: Float64Array.from([0, Infinity]),
+            maxColumnLevel: Float64Array.from([Infinity, Infinity]),
+            stored: 2,
+            pairs: [[0, 0], [0, 1], [1, 1]],
+            capacity,
+            startLevel: 0,
+          };
+          const tables: CellTable[] = [];
+          const per = Math.ceil(rows.length / parts);
+          for (let p = 0; p < parts; p++) {
+            const table = new CellTable({ ...spec, delay: Float64Array.from(spec.delay), maxColumnLevel: Float64Array.from(spec.maxColumnLevel) });
+            const mine = rows.slice(p * per, (p + 1) * per);
+            for (let from = 0; from < mine.length; from += block) {
+              const part = mine.slice(from, from + block);
+              table.addRows({
+                rows: part.length,
+                x: Float64Array.from(part.flatMap((r) => [r.sigma, r.n])),
+                v: Float64Array.from(part.flatMap((r) => [r.q, r.n])),
+                sigma: Float64Array.from(part, (r) => r.sigma),
+                weight: Float64Array.from(part, (r) => r.w),
+              });
+            }
+            tables.push(table);
+          }
+          const merged = mergeCellTables(spec, tables.map((t) => (sorted ? t.exportSorted() : t.export())));
+          expect(merged.cells).toBeLessThanOrEqual(Math.max(capacity, 7)); // ΔN alone takes 7 cells before it is pooled
+          let count = 0;
+          const sums = [0, 0];
+          let expSum = 0;
+          for (let c = 0; c < merged.cells; c++) {
+            count += merged.count[c];
+            sums[0] += merged.sums[2 * c];
+            sums[1] += merged.sums[2 * c + 1];
+            expSum += merged.expSum[c] * Math.exp(-merged.sigmaRef[c]);
+            expect(merged.sigmaMin[c]).toBeLessThanOrEqual(merged.sigmaMax[c]);
+          }
+          const ref = { count: 0, q: 0, n: 0, qq: 0, qn: 0, nn: 0, exp: 0, absQ: 0 };
+          for (const r of rows) {
+            ref.count += r.w;
+            ref.q += r.w * r.q;
+            ref.n += r.w * r.n;
+            ref.qq += r.w * r.q * r.q;
+            ref.qn += r.w * r.q * r.n;
+            ref.nn += r.w * r.n * r.n;
+            ref.exp += r.w * Math.exp(-r.sigma);
+            ref.absQ += r.w * Math.abs(r.q);
+          }
+          const why = "totals are kept exactly; rtol 1e-12 for the order of additions";
+          expect(count).toBe(ref.count);
+          expectClose(sums[0], ref.q, { rtol: 1e-12, atol: 1e-12 * ref.absQ + 1e-300, source: why });
+          expect(sums[1]).toBe(ref.n); // whole numbers times small weights: exact
+          expectClose(merged.productTotals[0], ref.qq, { rtol: 1e-12, atol: 1e-300, source: why });
+          expectClose(merged.productTotals[1], ref.qn, { rtol: 1e-12, atol: 1e-12 * ref.qq + 1e-300, source: why });
+          expect(merged.productTotals[2]).toBe(ref.nn);
+          expectClose(expSum, ref.exp, { rtol: 1e-12, source: why });
+        },
+      ),
+      { numRuns: Number(process.env.FUZZ_RUNS ?? 200), seed: Number(process.env.FUZZ_SEED ?? 20261202) },
+    );
   });
 
   it("orders cells lexicographically by key, through packed numbers or, for a huge range of keys, by comparison", () => {
