@@ -3,7 +3,7 @@ import os from "node:os";
 import path from "node:path";
 import { fileURLToPath } from "node:url";
 import { createHash } from "node:crypto";
-import { Worker } from "node:worker_threads";
+import { threadId, Worker } from "node:worker_threads";
 import type { ScanLayout } from "../fast/scanLines.ts";
 import { sha256HexOfFile, sha256HexOfFileAsync } from "../fileDigest.ts";
 import { reduceFileRange, type SamplesPartSummary, type SamplesReductionSpec } from "./samplesSink.ts";
@@ -51,7 +51,8 @@ export function workerBundle(): Promise<string | null> {
       const digest = createHash("sha256").update(code).digest("hex").slice(0, 16);
       const file = path.join(os.tmpdir(), `transport-audit-reduce-worker-${digest}.mjs`);
       if (!fs.existsSync(file)) {
-        const temp = `${file}.${process.pid}.tmp`;
+        // A temporary name of this process and thread: build workers may bundle at the same time.
+        const temp = `${file}.${process.pid}.${threadId}.tmp`;
         fs.writeFileSync(temp, code);
         fs.renameSync(temp, file);
         removeStaleBundles(path.basename(file));
