@@ -57,8 +57,8 @@ export interface CellTableData {
   /**
    * Sum of w x_a x_b over all realisations, one per pair: with the cells' sums this
    * gives the within-cell scatter Σ_C (Σ_{i∈C} w x_a x_b − S_a S_b / n_C), which is
-   * all the checks need of second moments; per cell it would cost a sixth of
-   * the table's memory traffic.
+   * all the checks need of second moments; per cell they would make each
+   * record half as large again (6 more numbers on 11 for three currents).
    */
   productTotals: Float64Array;
   /** Σ of the first realisation of each cell, and the sum over the cell of w e^{−(Σ − that reference)}. */
