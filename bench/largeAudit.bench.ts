@@ -67,7 +67,10 @@ export async function run(): Promise<Record<string, unknown>> {
   if (reference) {
     line("pandas + numpy reference", `${reference.total_seconds.toFixed(2)} s (parse ${reference.parse_seconds.toFixed(2)} s, statistics ${reference.stats_seconds.toFixed(2)} s), peak ${reference.peak_rss_mib.toFixed(0)} MiB`);
     line("ratio (ours / reference, in-process)", (ours.total_seconds / reference.total_seconds).toFixed(2));
-    if (referenceFit) line("  reference with the logistic fit", `${referenceFit.total_seconds.toFixed(2)} s, peak ${referenceFit.peak_rss_mib.toFixed(0)} MiB`);
+    if (referenceFit) {
+      line("  reference with the logistic fit", `${referenceFit.total_seconds.toFixed(2)} s, peak ${referenceFit.peak_rss_mib.toFixed(0)} MiB`);
+      line("  ratio to it", (ours.total_seconds / referenceFit.total_seconds).toFixed(2));
+    }
   } else line("pandas + numpy reference", rows > 2e7 ? "not run at this size" : "not run: /usr/bin/python3 lacks pandas (apt-get install python3-pandas)");
   return { rows, megabytes: mb, ours, reference, reference_with_fit: referenceFit, machine: { cpus: os.cpus().length, model: os.cpus()[0]?.model, node: process.version } };
 }
