@@ -450,19 +450,7 @@ export class CellTable {
   /** The cells as plain arrays, without adding queued rows. */
   private snapshot(): CellTableData {
     const { dims, stored } = this.spec;
-    const n = this.size;
-    const out: CellTableData = {
-      level: this.level,
-      cells: n,
-      keys: new Float64Array(n * dims),
-      count: new Float64Array(n),
-      sums: new Float64Array(n * stored),
-      sigmaMin: new Float64Array(n),
-      sigmaMax: new Float64Array(n),
-      sigmaRef: new Float64Array(n),
-      expSum: new Float64Array(n),
-      productTotals: Float64Array.from(this.productTotals),
-    };
+    const out = emptyCells(this.level, this.size, dims, stored, this.productTotals);
     let c = 0;
     for (const store of this.stores) {
       const data = store.data;
@@ -495,45 +483,23 @@ export function mergeCellTables(spec: GridSpec, parts: CellTableData[]): CellTab
     for (let k = 1; k < parts.length; k++) merged = mergeSorted(spec, merged, parts[k]);
     if (merged.cells <= spec.capacity) return merged;
   }
-  return mergeByTable(spec, parts);
+  return mergeByTable(spec, level, parts);
 }
 
 /** Two sorted tables at one level, cells with equal keys combined (`a` first, as `absorb` would). */
 function mergeSorted(spec: GridSpec, a: CellTableData, b: CellTableData): CellTableData {
   const { dims, stored } = spec;
-  const most = a.cells + b.cells;
-  const out: CellTableData = {
-    level: a.level,
-    cells: 0,
-    keys: new Float64Array(most * dims),
-    count: new Float64Array(most),
-    sums: new Float64Array(most * stored),
-    sigmaMin: new Float64Array(most),
-    sigmaMax: new Float64Array(most),
-    sigmaRef: new Float64Array(most),
-    expSum: new Float64Array(most),
-    productTotals: Float64Array.from(a.productTotals, (t, p) => t + b.productTotals[p]),
-    sorted: true,
-  };
-  const copy = (from: CellTableData, i: number, to: number) => {
-    for (let d = 0; d < dims; d++) out.keys[to * dims + d] = from.keys[i * dims + d];
-    for (let s = 0; s < stored; s++) out.sums[to * stored + s] = from.sums[i * stored + s];
-    out.count[to] = from.count[i];
-    out.sigmaMin[to] = from.sigmaMin[i];
-    out.sigmaMax[to] = from.sigmaMax[i];
-    out.sigmaRef[to] = from.sigmaRef[i];
-    out.expSum[to] = from.expSum[i];
-  };
+  const out = emptyCells(a.level, a.cells + b.cells, dims, stored, Float64Array.from(a.productTotals, (t, p) => t + b.productTotals[p]));
   let i = 0;
   let j = 0;
   let n = 0;
   while (i < a.cells || j < b.cells) {
     let order = i === a.cells ? 1 : j === b.cells ? -1 : 0;
     for (let d = 0; order === 0 && d < dims; d++) order = Math.sign(a.keys[i * dims + d] - b.keys[j * dims + d]);
-    if (order < 0) copy(a, i++, n);
-    else if (order > 0) copy(b, j++, n);
+    if (order < 0) copyCell(a, i++, out, n, dims, stored);
+    else if (order > 0) copyCell(b, j++, out, n, dims, stored);
     else {
-      copy(a, i++, n);
+      copyCell(a, i++, out, n, dims, stored);
       out.count[n] += b.count[j];
       for (let s = 0; s < stored; s++) out.sums[n * stored + s] += b.sums[j * stored + s];
       if (b.sigmaMin[j] < out.sigmaMin[n]) out.sigmaMin[n] = b.sigmaMin[j];
@@ -543,23 +509,13 @@ function mergeSorted(spec: GridSpec, a: CellTableData, b: CellTableData): CellTa
     }
     n++;
   }
-  return {
-    ...out,
-    cells: n,
-    keys: out.keys.subarray(0, n * dims),
-    count: out.count.subarray(0, n),
-    sums: out.sums.subarray(0, n * stored),
-    sigmaMin: out.sigmaMin.subarray(0, n),
-    sigmaMax: out.sigmaMax.subarray(0, n),
-    sigmaRef: out.sigmaRef.subarray(0, n),
-    expSum: out.expSum.subarray(0, n),
-  };
+  return { ...firstCells(out, n, dims, stored), sorted: true };
 }
 
 /** The general merge: absorb the parts in order into a table (which coarsens if it must), then sort. */
-function mergeByTable(spec: GridSpec, parts: CellTableData[]): CellTableData {
+function mergeByTable(spec: GridSpec, level: number, parts: CellTableData[]): CellTableData {
   const table = new CellTable(spec);
-  table.level = Math.max(spec.startLevel, ...parts.map((p) => p.level));
+  table.level = level;
   table.refreshFactors();
   for (const part of parts) table.absorb(part);
   return sortedByKey(spec, table.export());
@@ -610,28 +566,49 @@ export function keyOrder(keys: Float64Array, dims: number, cells: number): Int32
 function sortedByKey(spec: GridSpec, data: CellTableData): CellTableData {
   const { dims, stored } = spec;
   const order = keyOrder(data.keys, dims, data.cells);
-  const out: CellTableData = {
-    level: data.level,
-    cells: data.cells,
-    keys: new Float64Array(data.cells * dims),
-    count: new Float64Array(data.cells),
-    sums: new Float64Array(data.cells * stored),
-    sigmaMin: new Float64Array(data.cells),
-    sigmaMax: new Float64Array(data.cells),
-    sigmaRef: new Float64Array(data.cells),
-    expSum: new Float64Array(data.cells),
-    productTotals: Float64Array.from(data.productTotals),
-    sorted: true,
+  const out = emptyCells(data.level, data.cells, dims, stored, data.productTotals);
+  for (let to = 0; to < data.cells; to++) copyCell(data, order[to], out, to, dims, stored);
+  return { ...out, sorted: true };
+}
+
+/** Room for `cells` cells at a level, all zero, with the table's sums of products. */
+function emptyCells(level: number, cells: number, dims: number, stored: number, productTotals: Float64Array): CellTableData {
+  return {
+    level,
+    cells,
+    keys: new Float64Array(cells * dims),
+    count: new Float64Array(cells),
+    sums: new Float64Array(cells * stored),
+    sigmaMin: new Float64Array(cells),
+    sigmaMax: new Float64Array(cells),
+    sigmaRef: new Float64Array(cells),
+    expSum: new Float64Array(cells),
+    productTotals: Float64Array.from(productTotals),
   };
-  for (let to = 0; to < data.cells; to++) {
-    const from = order[to];
-    for (let d = 0; d < dims; d++) out.keys[to * dims + d] = data.keys[from * dims + d];
-    for (let s = 0; s < stored; s++) out.sums[to * stored + s] = data.sums[from * stored + s];
-    out.count[to] = data.count[from];
-    out.sigmaMin[to] = data.sigmaMin[from];
-    out.sigmaMax[to] = data.sigmaMax[from];
-    out.sigmaRef[to] = data.sigmaRef[from];
-    out.expSum[to] = data.expSum[from];
-  }
-  return out;
+}
+
+/** Cell i of `from` written as cell `to` of `out`. */
+function copyCell(from: CellTableData, i: number, out: CellTableData, to: number, dims: number, stored: number): void {
+  for (let d = 0; d < dims; d++) out.keys[to * dims + d] = from.keys[i * dims + d];
+  for (let s = 0; s < stored; s++) out.sums[to * stored + s] = from.sums[i * stored + s];
+  out.count[to] = from.count[i];
+  out.sigmaMin[to] = from.sigmaMin[i];
+  out.sigmaMax[to] = from.sigmaMax[i];
+  out.sigmaRef[to] = from.sigmaRef[i];
+  out.expSum[to] = from.expSum[i];
+}
+
+/** The first `cells` cells of a table's data (views, not copies). */
+function firstCells(data: CellTableData, cells: number, dims: number, stored: number): CellTableData {
+  return {
+    ...data,
+    cells,
+    keys: data.keys.subarray(0, cells * dims),
+    count: data.count.subarray(0, cells),
+    sums: data.sums.subarray(0, cells * stored),
+    sigmaMin: data.sigmaMin.subarray(0, cells),
+    sigmaMax: data.sigmaMax.subarray(0, cells),
+    sigmaRef: data.sigmaRef.subarray(0, cells),
+    expSum: data.expSum.subarray(0, cells),
+  };
 }
