@@ -35,15 +35,20 @@ export async function runAuditFolders(
   return runOnWorkers(folders, cache, threads, options.onDone);
 }
 
+/** One folder's outcome, whichever thread runs it; errors other than input errors are thrown. */
+export async function auditOutcome(folder: string, cache: CacheUse): Promise<AuditOutcome> {
+  try {
+    return { kind: "run", run: await runAuditCached(folder, cache) };
+  } catch (err) {
+    if (!(err instanceof InputError)) throw err;
+    return { kind: "input-error", message: err.message };
+  }
+}
+
 async function runInThisThread(folders: readonly string[], cache: CacheUse, onDone?: (done: number, total: number, folder: string) => void): Promise<AuditOutcome[]> {
   const outcomes: AuditOutcome[] = [];
   for (const folder of folders) {
-    try {
-      outcomes.push({ kind: "run", run: await runAuditCached(folder, cache) });
-    } catch (err) {
-      if (!(err instanceof InputError)) throw err;
-      outcomes.push({ kind: "input-error", message: err.message });
-    }
+    outcomes.push(await auditOutcome(folder, cache));
     onDone?.(outcomes.length, folders.length, folder);
   }
   return outcomes;
