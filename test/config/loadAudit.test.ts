@@ -1,6 +1,7 @@
 import { describe, expect, it } from "vitest";
 import { parseAuditDefinition } from "../../src/config/loadAudit.ts";
 import { ConfigError } from "../../src/errors.ts";
+import { thrownBy } from "../helpers/thrown.ts";
 
 const valid = `id: demo-audit
 title: A demo
@@ -19,13 +20,7 @@ datasets:
 `;
 
 function messageOf(source: string): string {
-  try {
-    parseAuditDefinition(source);
-  } catch (err) {
-    expect(err).toBeInstanceOf(ConfigError);
-    return (err as Error).message;
-  }
-  throw new Error("expected a ConfigError");
+  return thrownBy(ConfigError, () => parseAuditDefinition(source)).message;
 }
 
 describe("parseAuditDefinition", () => {

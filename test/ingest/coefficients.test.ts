@@ -4,6 +4,7 @@ import type { CoefficientsDataset } from "../../src/ingest/types.ts";
 import { ConfigError, DataError, UnitError } from "../../src/errors.ts";
 import { tempAudit } from "../helpers/tempAudit.ts";
 import { expectClose } from "../helpers/expectClose.ts";
+import { rejectedWith } from "../helpers/thrown.ts";
 
 function yaml(dataset: string): string {
   return `id: coeff-test
@@ -24,13 +25,8 @@ async function load(dataset: string, csv: string): Promise<CoefficientsDataset> 
   return audit.datasets[0] as CoefficientsDataset;
 }
 
-async function failure(dataset: string, csv: string): Promise<Error> {
-  try {
-    await load(dataset, csv);
-  } catch (err) {
-    return err as Error;
-  }
-  throw new Error("expected ingestion to fail");
+function failure(dataset: string, csv: string): Promise<Error> {
+  return rejectedWith(Error, () => load(dataset, csv));
 }
 
 const thermo = `    form: thermoelectric

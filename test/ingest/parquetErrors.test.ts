@@ -6,6 +6,7 @@ import { parquetWriteFile } from "hyparquet-writer";
 import { DataError } from "../../src/errors.ts";
 import { parquetInfo, readParquetColumns, readParquetTable } from "../../src/ingest/parquet/index.ts";
 import { writeSamplesParquet } from "../helpers/writeSamplesParquet.ts";
+import { rejectedWith } from "../helpers/thrown.ts";
 
 const LABEL = "data/samples.parquet";
 const dir = fs.mkdtempSync(path.join(os.tmpdir(), "ta-parquet-err-"));
@@ -23,13 +24,7 @@ function writeColumns(columnData: Columns, rowGroupSize?: number): string {
 
 /** The message of the DataError that `run` must throw. */
 async function dataErrorOf(run: () => Promise<unknown>): Promise<string> {
-  try {
-    await run();
-  } catch (err) {
-    expect(err).toBeInstanceOf(DataError);
-    return (err as Error).message;
-  }
-  throw new Error("expected a DataError");
+  return (await rejectedWith(DataError, run)).message;
 }
 
 const table = (file: string, columns: string[]) => () => readParquetTable(file, LABEL, columns);

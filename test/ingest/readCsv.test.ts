@@ -5,6 +5,7 @@ import { createHash } from "node:crypto";
 import { describe, expect, it } from "vitest";
 import { readNumericCsv } from "../../src/ingest/readCsv.ts";
 import { DataError } from "../../src/errors.ts";
+import { rejectedWith } from "../helpers/thrown.ts";
 
 function tempCsv(content: string): string {
   const file = path.join(fs.mkdtempSync(path.join(os.tmpdir(), "ta-csv-")), "run.csv");
@@ -13,13 +14,8 @@ function tempCsv(content: string): string {
 }
 
 async function errorOf(content: string, columns = ["q", "n"]): Promise<string> {
-  try {
-    await readNumericCsv(tempCsv(content), "data/run.csv", columns.map((c) => ({ column: c, role: c === "q" ? "Q" : "dN" })));
-  } catch (err) {
-    expect(err).toBeInstanceOf(DataError);
-    return (err as Error).message;
-  }
-  throw new Error("expected a DataError");
+  const requests = columns.map((c) => ({ column: c, role: c === "q" ? "Q" : "dN" }));
+  return (await rejectedWith(DataError, () => readNumericCsv(tempCsv(content), "data/run.csv", requests))).message;
 }
 
 describe("readNumericCsv", () => {

@@ -4,6 +4,7 @@ import type { SamplesDataset } from "../../src/ingest/types.ts";
 import { ConfigError, DataError, UnitError } from "../../src/errors.ts";
 import { expectClose } from "../helpers/expectClose.ts";
 import { tempAudit } from "../helpers/tempAudit.ts";
+import { rejectedWith } from "../helpers/thrown.ts";
 
 const KB = 1.380649e-23; // J/K, exact (SI 2019)
 const EV = 1.602176634e-19; // J, exact (SI 2019)
@@ -27,13 +28,8 @@ async function load(datasetYaml: string, csv: string): Promise<SamplesDataset> {
   return (await ingestAudit(audit(datasetYaml, csv))).datasets[0] as SamplesDataset;
 }
 
-async function errorOf(datasetYaml: string, csv: string): Promise<Error> {
-  try {
-    await load(datasetYaml, csv);
-  } catch (err) {
-    return err as Error;
-  }
-  throw new Error("expected ingestion to fail");
+function errorOf(datasetYaml: string, csv: string): Promise<Error> {
+  return rejectedWith(Error, () => load(datasetYaml, csv));
 }
 
 describe("loadSamples", () => {

@@ -19,27 +19,16 @@ import { parseAuditDefinition } from "../../src/config/loadAudit.ts";
 import { ConfigError, DataError, InputError, UnitError } from "../../src/errors.ts";
 import { ingestAudit } from "../../src/ingest/loadAudit.ts";
 import { auditWith, cli, VALID_CSV, VALID_YAML } from "./harness.ts";
+import { rejectedWith, thrownBy } from "../helpers/thrown.ts";
 
 /** The message of the ConfigError that parsing the text raises. */
 function configMessage(source: string): string {
-  try {
-    parseAuditDefinition(source);
-  } catch (err) {
-    expect(err).toBeInstanceOf(ConfigError);
-    return (err as Error).message;
-  }
-  throw new Error("expected a ConfigError");
+  return thrownBy(ConfigError, () => parseAuditDefinition(source)).message;
 }
 
 /** The error that ingesting an audit folder raises. */
-async function ingestError(dir: string): Promise<InputError> {
-  try {
-    await ingestAudit(dir);
-  } catch (err) {
-    expect(err).toBeInstanceOf(InputError);
-    return err as InputError;
-  }
-  throw new Error("expected an InputError");
+function ingestError(dir: string): Promise<InputError> {
+  return rejectedWith(InputError, () => ingestAudit(dir));
 }
 
 describe("malformed YAML names the line", () => {

@@ -18,6 +18,7 @@ import { ingestAudit } from "../../src/ingest/loadAudit.ts";
 import type { SamplesDataset } from "../../src/ingest/types.ts";
 import { expectClose } from "../helpers/expectClose.ts";
 import { auditWith, cli, VALID_YAML } from "./harness.ts";
+import { rejectedWith } from "../helpers/thrown.ts";
 
 /** An audit whose data/run.csv holds exactly these bytes (or is absent for null). */
 function auditWithData(content: string | Buffer | null, yaml = VALID_YAML): string {
@@ -28,13 +29,7 @@ function auditWithData(content: string | Buffer | null, yaml = VALID_YAML): stri
 }
 
 async function dataError(content: string | Buffer | null, yaml = VALID_YAML): Promise<string> {
-  try {
-    await ingestAudit(auditWithData(content, yaml));
-  } catch (err) {
-    expect(err).toBeInstanceOf(DataError);
-    return (err as Error).message;
-  }
-  throw new Error("expected a DataError");
+  return (await rejectedWith(DataError, () => ingestAudit(auditWithData(content, yaml)))).message;
 }
 
 async function heatOf(content: string | Buffer): Promise<number[]> {

@@ -12,6 +12,7 @@ import { describe, expect, it } from "vitest";
 import { PathError } from "../../src/errors.ts";
 import { ingestAudit } from "../../src/ingest/loadAudit.ts";
 import { cli, VALID_CSV, VALID_YAML } from "./harness.ts";
+import { rejectedWith } from "../helpers/thrown.ts";
 
 /**
  * An archive-like layout: <root>/outside.csv (a valid table beside the audit
@@ -31,13 +32,7 @@ function layout(secondFile: string): { root: string; audit: string } {
 }
 
 async function refusal(audit: string): Promise<string> {
-  try {
-    await ingestAudit(audit);
-  } catch (err) {
-    expect(err).toBeInstanceOf(PathError);
-    return (err as Error).message;
-  }
-  throw new Error("expected a PathError");
+  return (await rejectedWith(PathError, () => ingestAudit(audit))).message;
 }
 
 describe("data paths stay inside the audit folder", () => {
