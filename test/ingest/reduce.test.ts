@@ -130,6 +130,28 @@ describe("cell grid arithmetic", () => {
   });
 });
 
+/**
+ * A grid over (Σ, ΔN) as the reduction uses it: Σ on steps of `step` k_B, ΔN whole (it widens only
+ * once Σ can widen no more), with a current and ΔN stored.
+ */
+function sigmaCountGrid(step: number, capacity: number): GridSpec {
+  return {
+    dims: 2,
+    step0: Float64Array.from([step, 1]),
+    delay: Float64Array.from([0, Infinity]),
+    maxColumnLevel: Float64Array.from([Infinity, Infinity]),
+    stored: 2,
+    pairs: [[0, 0], [0, 1], [1, 1]],
+    capacity,
+    startLevel: 0,
+  };
+}
+
+/** A table on its own copy of the arrays of `spec` that a table changes when it must pool whole-number columns. */
+function tableOf(spec: GridSpec): CellTable {
+  return new CellTable({ ...spec, delay: Float64Array.from(spec.delay), maxColumnLevel: Float64Array.from(spec.maxColumnLevel) });
+}
+
 describe("cell table", () => {
   it("gives bit for bit the cells of row-by-row insertion when rows come in blocks, also across a change of level", () => {
     // Each cell's rows wait in one partition's queue in their order, and add() and addRows() fill the
@@ -141,19 +163,10 @@ describe("cell table", () => {
   it("merges sorted parts in one pass to the same bits as absorbing them into a table", () => {
     // Workers send their parts sorted; the linear merge must repeat absorb's arithmetic exactly
     // (first part's reference Σ, e^−Σ sums rescaled to it, sums in part order).
-    const spec: GridSpec = {
-      dims: 2,
-      step0: Float64Array.from([2 ** -10, 1]),
-      delay: Float64Array.from([0, Infinity]),
-      maxColumnLevel: Float64Array.from([Infinity, Infinity]),
-      stored: 2,
-      pairs: [[0, 0], [0, 1], [1, 1]],
-      capacity: 100_000,
-      startLevel: 0,
-    };
+    const spec = sigmaCountGrid(2 ** -10, 100_000);
     const rng = rngFromText("cell-table:merge");
     const part = () => {
-      const table = new CellTable({ ...spec, delay: Float64Array.from(spec.delay), maxColumnLevel: Float64Array.from(spec.maxColumnLevel) });
+      const table = tableOf(spec);
       for (let i = 0; i < 30_000; i++) {
         const sigma = 2 * rng.normal();
         const n = Math.round(2 * rng.normal());
@@ -193,20 +206,11 @@ describe("cell table", () => {
         fc.constantFrom(20, 200, 5000),
         fc.boolean(),
         (rows, parts, block, capacity, sorted) => {
-          const spec: GridSpec = {
-            dims: 2,
-            step0: Float64Array.from([2 ** -8, 1]),
-            delay: Float64Array.from([0, Infinity]),
-            maxColumnLevel: Float64Array.from([Infinity, Infinity]),
-            stored: 2,
-            pairs: [[0, 0], [0, 1], [1, 1]],
-            capacity,
-            startLevel: 0,
-          };
+          const spec = sigmaCountGrid(2 ** -8, capacity);
           const tables: CellTable[] = [];
           const per = Math.ceil(rows.length / parts);
           for (let p = 0; p < parts; p++) {
-            const table = new CellTable({ ...spec, delay: Float64Array.from(spec.delay), maxColumnLevel: Float64Array.from(spec.maxColumnLevel) });
+            const table = tableOf(spec);
             const mine = rows.slice(p * per, (p + 1) * per);
             for (let from = 0; from < mine.length; from += block) {
               const part = mine.slice(from, from + block);
@@ -277,62 +281,53 @@ describe("cell table", () => {
 });
 
 function check(capacity: number): void {
-    const spec: GridSpec = {
-      dims: 2,
-      step0: Float64Array.from([2 ** -12, 1]),
-      delay: Float64Array.from([0, Infinity]),
-      maxColumnLevel: Float64Array.from([Infinity, Infinity]),
-      stored: 2,
-      pairs: [[0, 0], [0, 1], [1, 1]],
-      capacity,
-      startLevel: 0,
-    };
-    const rng = rngFromText("cell-table:blocks");
-    // Enough rows for queues to fill and go in (and the table to change level) before the end.
-    const rows = 600_000;
-    const x = new Float64Array(rows * 2);
-    const v = new Float64Array(rows * 2);
-    const sigma = new Float64Array(rows);
+  const spec = sigmaCountGrid(2 ** -12, capacity);
+  const rng = rngFromText("cell-table:blocks");
+  // Enough rows for queues to fill and go in (and the table to change level) before the end.
+  const rows = 600_000;
+  const x = new Float64Array(rows * 2);
+  const v = new Float64Array(rows * 2);
+  const sigma = new Float64Array(rows);
+  for (let i = 0; i < rows; i++) {
+    sigma[i] = 2 * rng.normal();
+    x[2 * i] = sigma[i];
+    x[2 * i + 1] = Math.round(3 * rng.normal());
+    v[2 * i] = sigma[i] * 1.7;
+    v[2 * i + 1] = x[2 * i + 1];
+  }
+  const one = tableOf(spec);
+  for (let i = 0; i < rows; i++) one.add(x.subarray(2 * i, 2 * i + 2), v.subarray(2 * i, 2 * i + 2), 1, sigma[i]);
+  const blocks = tableOf(spec);
+  for (let from = 0; from < rows; from += 4096) {
+    const to = Math.min(rows, from + 4096);
+    blocks.addRows({ rows: to - from, x: x.slice(2 * from, 2 * to), v: v.slice(2 * from, 2 * to), sigma: sigma.slice(from, to) });
+  }
+  const a = mergeCellTables(spec, [one.export()]);
+  const b = mergeCellTables(spec, [blocks.export()]);
+  expect(b.level).toBe(a.level);
+  if (capacity < 10_000) expect(a.level).toBeGreaterThan(0);
+  for (const field of ["keys", "count", "sums", "productTotals", "sigmaMin", "sigmaMax", "sigmaRef", "expSum"] as const) {
+    expect(Array.from(b[field])).toEqual(Array.from(a[field]));
+  }
+  if (one.level === 0) {
+    // Without a change of level, each cell's sums are those of its rows in file order, formed one row
+    // at a time: a plain Map over the level-0 keys gives the same doubles.
+    const naive = new Map<string, { count: number; sums: number[]; ref: number; exp: number }>();
     for (let i = 0; i < rows; i++) {
-      sigma[i] = 2 * rng.normal();
-      x[2 * i] = sigma[i];
-      x[2 * i + 1] = Math.round(3 * rng.normal());
-      v[2 * i] = sigma[i] * 1.7;
-      v[2 * i + 1] = x[2 * i + 1];
+      const key = `${Math.floor(x[2 * i] * 2 ** 12 + 0.5)},${x[2 * i + 1]}`;
+      let cell = naive.get(key);
+      if (!cell) naive.set(key, (cell = { count: 0, sums: [0, 0], ref: sigma[i], exp: 0 }));
+      cell.count += 1;
+      cell.sums[0] += 1 * v[2 * i];
+      cell.sums[1] += 1 * v[2 * i + 1];
+      cell.exp += 1 * Math.exp(cell.ref - sigma[i]);
     }
-    const one = new CellTable({ ...spec, delay: Float64Array.from(spec.delay), maxColumnLevel: Float64Array.from(spec.maxColumnLevel) });
-    for (let i = 0; i < rows; i++) one.add(x.subarray(2 * i, 2 * i + 2), v.subarray(2 * i, 2 * i + 2), 1, sigma[i]);
-    const blocks = new CellTable({ ...spec, delay: Float64Array.from(spec.delay), maxColumnLevel: Float64Array.from(spec.maxColumnLevel) });
-    for (let from = 0; from < rows; from += 4096) {
-      const to = Math.min(rows, from + 4096);
-      blocks.addRows({ rows: to - from, x: x.slice(2 * from, 2 * to), v: v.slice(2 * from, 2 * to), sigma: sigma.slice(from, to) });
+    expect(a.cells).toBe(naive.size);
+    for (let c = 0; c < a.cells; c++) {
+      const cell = naive.get(`${a.keys[2 * c]},${a.keys[2 * c + 1]}`)!;
+      expect([a.count[c], a.sums[2 * c], a.sums[2 * c + 1], a.sigmaRef[c], a.expSum[c]]).toEqual([cell.count, cell.sums[0], cell.sums[1], cell.ref, cell.exp]);
     }
-    const a = mergeCellTables(spec, [one.export()]);
-    const b = mergeCellTables(spec, [blocks.export()]);
-    expect(b.level).toBe(a.level);
-    if (capacity < 10_000) expect(a.level).toBeGreaterThan(0);
-    for (const field of ["keys", "count", "sums", "productTotals", "sigmaMin", "sigmaMax", "sigmaRef", "expSum"] as const) {
-      expect(Array.from(b[field])).toEqual(Array.from(a[field]));
-    }
-    if (one.level === 0) {
-      // Without a change of level, each cell's sums are those of its rows in file order, formed one row
-      // at a time: a plain Map over the level-0 keys gives the same doubles.
-      const naive = new Map<string, { count: number; sums: number[]; ref: number; exp: number }>();
-      for (let i = 0; i < rows; i++) {
-        const key = `${Math.floor(x[2 * i] * 2 ** 12 + 0.5)},${x[2 * i + 1]}`;
-        let cell = naive.get(key);
-        if (!cell) naive.set(key, (cell = { count: 0, sums: [0, 0], ref: sigma[i], exp: 0 }));
-        cell.count += 1;
-        cell.sums[0] += 1 * v[2 * i];
-        cell.sums[1] += 1 * v[2 * i + 1];
-        cell.exp += 1 * Math.exp(cell.ref - sigma[i]);
-      }
-      expect(a.cells).toBe(naive.size);
-      for (let c = 0; c < a.cells; c++) {
-        const cell = naive.get(`${a.keys[2 * c]},${a.keys[2 * c + 1]}`)!;
-        expect([a.count[c], a.sums[2 * c], a.sums[2 * c + 1], a.sigmaRef[c], a.expSum[c]]).toEqual([cell.count, cell.sums[0], cell.sums[1], cell.ref, cell.exp]);
-      }
-    }
+  }
 }
 
 describe("cell summary of a samples file", () => {
