@@ -1,6 +1,7 @@
 import os from "node:os";
-import { Worker } from "node:worker_threads";
+import type { Worker } from "node:worker_threads";
 import { InputError } from "../errors.ts";
+import { startTsWorker } from "../threads/tsWorker.ts";
 import { runAuditCached, type CachedRun, type CacheUse } from "./resultCache.ts";
 
 /** What running one audit folder gave: its result, or the input error that stopped it. */
@@ -60,10 +61,7 @@ async function runInThisThread(folders: readonly string[], cache: CacheUse, onDo
  * digests from its own folder (src/), and a bundle elsewhere has no such folder.
  */
 function startAuditWorker(cache: CacheUse): Worker {
-  const loader = import.meta.resolve("tsx/esm/api");
-  const script = new URL("./auditWorker.ts", import.meta.url).href;
-  const bootstrap = `import { register } from ${JSON.stringify(loader)}; register(); await import(${JSON.stringify(script)});`;
-  return new Worker(bootstrap, { eval: true, workerData: { cache } });
+  return startTsWorker(new URL("./auditWorker.ts", import.meta.url), { cache });
 }
 
 function runOnWorkers(folders: readonly string[], cache: CacheUse, threads: number, onDone?: (done: number, total: number, folder: string) => void): Promise<AuditOutcome[]> {

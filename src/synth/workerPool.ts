@@ -1,5 +1,6 @@
 import os from "node:os";
-import { Worker } from "node:worker_threads";
+import type { Worker } from "node:worker_threads";
+import { startTsWorker } from "../threads/tsWorker.ts";
 import { blockRng, blockRunner, TASK_COLUMNS, type BlockTask } from "./blockTask.ts";
 
 /**
@@ -16,12 +17,9 @@ export interface PoolOptions {
   onProgress?: (done: number, total: number) => void;
 }
 
-/** Start a worker that runs worker.ts through tsx's loader (plain Node cannot load .ts files). */
+/** Start a worker that runs worker.ts. */
 function startWorker(): Worker {
-  const loader = import.meta.resolve("tsx/esm/api");
-  const script = new URL("./worker.ts", import.meta.url).href;
-  const bootstrap = `import { register } from ${JSON.stringify(loader)}; register(); await import(${JSON.stringify(script)});`;
-  return new Worker(bootstrap, { eval: true });
+  return startTsWorker(new URL("./worker.ts", import.meta.url));
 }
 
 /** The same blocks drawn in this thread, synchronously (small jobs, scripts that cannot await). */

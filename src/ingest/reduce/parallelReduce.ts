@@ -6,6 +6,7 @@ import { createHash } from "node:crypto";
 import { threadId, Worker } from "node:worker_threads";
 import type { ScanLayout } from "../fast/scanLines.ts";
 import { sha256HexOfFile, sha256HexOfFileAsync } from "../fileDigest.ts";
+import { startTsWorker } from "../../threads/tsWorker.ts";
 import { reduceFileRange, type SamplesPartSummary, type SamplesReductionSpec } from "./samplesSink.ts";
 
 /** One thread's share of a file. */
@@ -91,10 +92,7 @@ export function removeStaleBundles(keep: string, dir = os.tmpdir()): void {
 async function startWorker(job: RangeJob): Promise<Worker> {
   const bundle = await workerBundle();
   if (bundle) return new Worker(bundle, { workerData: job });
-  const loader = import.meta.resolve("tsx/esm/api");
-  const script = new URL("./worker.ts", import.meta.url).href;
-  const bootstrap = `import { register } from ${JSON.stringify(loader)}; register(); await import(${JSON.stringify(script)});`;
-  return new Worker(bootstrap, { eval: true, workerData: job });
+  return startTsWorker(new URL("./worker.ts", import.meta.url), job);
 }
 
 /** Byte offsets that cut [from, to) into `parts` ranges, each beginning at a line start. */
