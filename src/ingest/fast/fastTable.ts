@@ -25,8 +25,8 @@ export async function readNumericTable(
     const hash = createHash("sha256");
     hashPrefix(fd, header.dataStart, hash);
     const slots = header.layout.slotNames.length;
-    const columns = Array.from({ length: slots }, () => new GrowingColumn());
-    const lines = new GrowingLines();
+    const columns = Array.from({ length: slots }, () => new GrowingArray((n) => new Float64Array(n)));
+    const lines = new GrowingArray((n) => new Uint32Array(n));
     let done = header.dataStart;
     const state = scanFileRange(
       fd,
@@ -114,36 +114,25 @@ export function throwRangeProblems(label: string, headerLines: number, ranges: R
   throw new DataError(formatCellProblems(label, located.slice(0, MAX_REPORTED_PROBLEMS), MAX_REPORTED_PROBLEMS, total));
 }
 
-class GrowingColumn {
-  private data = new Float64Array(1 << 16);
+/** A typed array that doubles its room as values are appended. */
+class GrowingArray<A extends Float64Array | Uint32Array> {
+  private data: A;
   private length = 0;
-  append(values: Float64Array) {
+  constructor(private readonly make: (length: number) => A) {
+    this.data = make(1 << 16);
+  }
+  /** Append `values`, each plus `add` (copied as they are when `add` is 0, so −0 stays −0). */
+  append(values: ArrayLike<number>, add = 0): void {
     if (this.length + values.length > this.data.length) {
-      const next = new Float64Array(Math.max(this.data.length * 2, this.length + values.length));
+      const next = this.make(Math.max(this.data.length * 2, this.length + values.length));
       next.set(this.data.subarray(0, this.length));
       this.data = next;
     }
-    this.data.set(values, this.length);
+    if (add === 0) this.data.set(values, this.length);
+    else for (let i = 0; i < values.length; i++) this.data[this.length + i] = values[i] + add;
     this.length += values.length;
   }
-  toArray(): Float64Array {
-    return this.data.slice(0, this.length);
-  }
-}
-
-class GrowingLines {
-  private data = new Uint32Array(1 << 16);
-  private length = 0;
-  append(lines: Uint32Array, offset: number) {
-    if (this.length + lines.length > this.data.length) {
-      const next = new Uint32Array(Math.max(this.data.length * 2, this.length + lines.length));
-      next.set(this.data.subarray(0, this.length));
-      this.data = next;
-    }
-    for (let i = 0; i < lines.length; i++) this.data[this.length + i] = lines[i] + offset;
-    this.length += lines.length;
-  }
-  toArray(): Uint32Array {
-    return this.data.slice(0, this.length);
+  toArray(): A {
+    return this.data.slice(0, this.length) as A;
   }
 }
