@@ -1,4 +1,5 @@
 import fs from "node:fs";
+import { entropyProduction } from "../../physics/entropyProduction.ts";
 import { newProblemLog, type ProblemLog } from "../../errors.ts";
 import { CellTable, type CellTableData, type GridSpec, type RowBlock } from "./cellTable.ts";
 import { logSigmaOverflow, sampleRowsOf, type SampleRole, type SampleRoles, type SampleRows } from "../samplesRows.ts";
@@ -151,12 +152,14 @@ export class SamplesReducer {
   }
 }
 
-/** Σ = cW W + cQ Q + cN ΔN of each row (k_B); `acceptPlain` forms the same sum row by row. */
+/**
+ * Σ = cW W + cQ Q + cN ΔN of each row (k_B): entropyProduction with the
+ * reduction's coefficients (cW = 0 when the work is declared zero), absent
+ * columns counting as zeros. `acceptPlain` forms the same sum row by row.
+ */
 export function sigmaOfRows(rows: SampleRows, c: SamplesReductionSpec["sigma"]): Float64Array {
-  const { W_data: W, Q, dN } = rows;
-  const sigma = new Float64Array(rows.rows);
-  for (let i = 0; i < rows.rows; i++) sigma[i] = (W ? c.cW * W[i] : 0) + c.cQ * Q[i] + (dN ? c.cN * dN[i] : 0);
-  return sigma;
+  const zeros = rows.W_data && rows.dN ? null : new Float64Array(rows.rows);
+  return entropyProduction({ beta_bar: c.cW, a_Q: c.cQ, a_N: c.cN }, rows.W_data ?? zeros!, rows.Q, rows.dN ?? zeros!);
 }
 
 /** Scan one byte range of a file and reduce it: the work of one thread. */
