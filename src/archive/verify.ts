@@ -8,7 +8,7 @@ import { canonicalJson } from "../report/canonicalJson.ts";
 import type { ResultDocument } from "../report/resultDocument.ts";
 import { resultDocumentOf, runChecks } from "../report/runAudit.ts";
 import { TOOL } from "../version.ts";
-import { hexSha256OfFile } from "./digest.ts";
+import { sha256HexOfFile } from "../ingest/fileDigest.ts";
 import { diffValues, formatPath, formatValue, type ValueDifference } from "./diffValues.ts";
 import { checkArchive, type IntegrityProblem } from "./integrity.ts";
 import { DEFINITION_FILE, VERSIONS_DIR, listVersionNumbers } from "./layout.ts";
@@ -132,7 +132,7 @@ function checkDataFiles(auditDir: string, v: FrozenVersion): DataFileProblem[] {
       out.push({ dataset: input.id, file: input.file, frozen: input.sha256, now: null });
       continue;
     }
-    const now = fs.existsSync(file) ? hexSha256OfFile(file) : null;
+    const now = fs.existsSync(file) ? sha256HexOfFile(file) : null;
     if (now !== input.sha256) out.push({ dataset: input.id, file: input.file, frozen: input.sha256, now });
   }
   return out;
