@@ -2,8 +2,6 @@ import { CHECKS } from "../checks/index.ts";
 import { notApplicableResult } from "../checks/helpers.ts";
 import type { CheckContext, CheckDefinition, CheckOptions, CheckResult } from "../checks/types.ts";
 import type { AuditDefinition } from "../config/types.ts";
-import { ConfigError } from "../errors.ts";
-import { nearest } from "../config/nearest.ts";
 import { ingestAudit, type IngestOptions } from "../ingest/loadAudit.ts";
 import { describeReduction } from "../ingest/reduce/describeReduction.ts";
 import { FAITHFUL_CELL_WIDTH } from "../ingest/reduce/reduceSamples.ts";
@@ -23,14 +21,12 @@ export interface SelectedCheck {
 /** Resolve `checks:` (all, or a list with options) to check definitions. */
 export function selectChecks(definition: AuditDefinition, registry: readonly CheckDefinition[] = CHECKS): SelectedCheck[] {
   if (definition.checks === "all") return registry.map((d) => ({ definition: d, options: {}, explicit: false }));
-  const ids = registry.map((d) => d.id as string);
-  return definition.checks.map((entry, i) => {
+  return definition.checks.map((entry) => {
     const [id, options] = typeof entry === "string" ? [entry, {}] : Object.entries(entry)[0];
     const found = registry.find((d) => d.id === id);
-    if (!found) {
-      const hint = nearest(id, ids);
-      throw new ConfigError(`audit.yaml checks[${i}]: ${JSON.stringify(id)} is not a check id${hint ? ` (did you mean ${hint}?)` : ""}; known: ${ids.join(", ")}`);
-    }
+    // audit.yaml's check ids were validated when it was read (auditSchema.ts); only a registry given
+    // by code can lack one.
+    if (!found) throw new Error(`selectChecks: the registry has no check ${JSON.stringify(id)}`);
     return { definition: found, options: (options ?? {}) as CheckOptions, explicit: true };
   });
 }
