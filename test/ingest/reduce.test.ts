@@ -11,7 +11,7 @@ import { describe, expect, it } from "vitest";
 import { CellTable, coarserIndex, keyOrder, mergeCellTables, type GridSpec } from "../../src/ingest/reduce/cellTable.ts";
 import { loadAuditDefinition } from "../../src/config/loadAudit.ts";
 import { loadSamples, type SamplesReadOptions } from "../../src/ingest/samples.ts";
-import { removeStaleBundles } from "../../src/ingest/reduce/parallelReduce.ts";
+import { cachedWorkerBundle, digestOfInputs, removeStaleBundles, workerBundle, type BundleIndex } from "../../src/ingest/reduce/parallelReduce.ts";
 import type { Dataset, IngestedAudit, SamplesDataset } from "../../src/ingest/types.ts";
 import type { SamplesDatasetConfig } from "../../src/config/types.ts";
 import { runChecks } from "../../src/report/runAudit.ts";
@@ -111,6 +111,42 @@ describe("reduction worker bundles", () => {
     removeStaleBundles(files.keep, dir);
     expect(fs.readdirSync(dir).sort()).toEqual([files.keep, files.recent, files.other].sort());
     fs.rmSync(dir, { recursive: true, force: true });
+  });
+});
+
+describe("reduction worker bundle index", () => {
+  it("reuses a bundle only while every module it was built from has the same bytes", () => {
+    const dir = fs.mkdtempSync(path.join(os.tmpdir(), "bundle-index-"));
+    const bundle = path.join(dir, "bundle.mjs");
+    const modules = [path.join(dir, "a.ts"), path.join(dir, "b.js")];
+    fs.writeFileSync(bundle, "export {};\n");
+    fs.writeFileSync(modules[0], "export const a = 1;\n");
+    fs.writeFileSync(modules[1], "export const b = 2;\n");
+    const indexFile = path.join(dir, "index.json");
+    const index: BundleIndex = { bundle, inputs: modules, digest: digestOfInputs(modules) };
+    fs.writeFileSync(indexFile, JSON.stringify(index));
+    expect(cachedWorkerBundle(indexFile)).toBe(bundle);
+    // One byte changed in one module: the bundle is no longer the code.
+    fs.writeFileSync(modules[1], "export const b = 3;\n");
+    expect(cachedWorkerBundle(indexFile)).toBeNull();
+    fs.writeFileSync(modules[1], "export const b = 2;\n");
+    expect(cachedWorkerBundle(indexFile)).toBe(bundle);
+    // A module gone, the bundle gone, or no index: no reuse.
+    fs.rmSync(bundle);
+    expect(cachedWorkerBundle(indexFile)).toBeNull();
+    expect(cachedWorkerBundle(path.join(dir, "missing.json"))).toBeNull();
+    fs.rmSync(dir, { recursive: true, force: true });
+  });
+
+  it("records the worker's own modules beside the bundle esbuild writes", async () => {
+    const bundle = await workerBundle();
+    expect(bundle).not.toBeNull();
+    // The index of this install names the bundle just written (or one of identical code) and its modules.
+    const indexes = fs.readdirSync(os.tmpdir()).filter((f) => /^transport-audit-reduce-worker-index-[0-9a-f]{16}\.json$/.test(f));
+    const ours = indexes.map((f) => JSON.parse(fs.readFileSync(path.join(os.tmpdir(), f), "utf8")) as BundleIndex).find((i) => i.inputs.some((p) => p.endsWith(path.join("src", "ingest", "reduce", "worker.ts")) && p.startsWith(path.resolve("src"))));
+    expect(ours).toBeDefined();
+    expect(ours!.inputs).toContain(path.resolve("src/ingest/reduce/cellTable.ts"));
+    expect(ours!.inputs).toContain(path.resolve("src/ingest/fast/scanLines.ts"));
   });
 });
 
