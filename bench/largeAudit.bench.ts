@@ -63,10 +63,14 @@ export async function run(): Promise<Record<string, unknown>> {
   line("  reading + summarising", `${ours.read_seconds.toFixed(2)} s  (${(mb / ours.read_seconds).toFixed(0)} MB/s, ${(rows / ours.read_seconds / 1e6).toFixed(1)} M realisations/s)`);
   line("  analysis (all checks)", `${ours.analysis_seconds.toFixed(2)} s  (${(ours.analysis_seconds / ours.read_seconds).toFixed(2)} of the reading time; ${ours.cells} cells)`);
   line("  peak memory", `${ours.peak_rss_mib.toFixed(0)} MiB`);
+  const cores = os.cpus().length;
+  line("  CPU time, all threads", `${ours.cpu_seconds.toFixed(2)} s  (at best ${(ours.cpu_seconds / cores).toFixed(2)} s of wall time on ${cores} cores)`);
   line("  verdicts", `${ours.stamp}: ${Object.entries(ours.statuses).map(([k, v]) => `${k} ${v}`).join(", ")}`);
   if (reference) {
     line("pandas + numpy reference", `${reference.total_seconds.toFixed(2)} s (parse ${reference.parse_seconds.toFixed(2)} s, statistics ${reference.stats_seconds.toFixed(2)} s), peak ${reference.peak_rss_mib.toFixed(0)} MiB`);
     line("ratio (ours / reference, in-process)", (ours.total_seconds / reference.total_seconds).toFixed(2));
+    // The floor of the ratio for this work: its CPU time spread perfectly over every core.
+    line("  floor of the ratio (CPU time / cores)", (ours.cpu_seconds / cores / reference.total_seconds).toFixed(2));
     if (referenceFit) {
       line("  reference with the logistic fit", `${referenceFit.total_seconds.toFixed(2)} s, peak ${referenceFit.peak_rss_mib.toFixed(0)} MiB`);
       line("  ratio to it", (ours.total_seconds / referenceFit.total_seconds).toFixed(2));
