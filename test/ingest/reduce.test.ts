@@ -8,7 +8,7 @@ import os from "node:os";
 import path from "node:path";
 import fc from "fast-check";
 import { describe, expect, it } from "vitest";
-import { CellTable, coarserIndex, keyOrder, mergeCellTables, type GridSpec } from "../../src/ingest/reduce/cellTable.ts";
+import { CellTable, coarserIndex, columnLevel, keyOrder, MAX_LEVEL, mergeCellTables, type GridSpec } from "../../src/ingest/reduce/cellTable.ts";
 import { loadAuditDefinition } from "../../src/config/loadAudit.ts";
 import { loadSamples, type SamplesReadOptions } from "../../src/ingest/samples.ts";
 import { cachedWorkerBundle, digestOfInputs, removeStaleBundles, workerBundle, type BundleIndex } from "../../src/ingest/reduce/parallelReduce.ts";
@@ -183,11 +183,6 @@ function sigmaCountGrid(step: number, capacity: number): GridSpec {
   };
 }
 
-/** A table on its own copy of the arrays of `spec` that a table changes when it must pool whole-number columns. */
-function tableOf(spec: GridSpec): CellTable {
-  return new CellTable({ ...spec, delay: Float64Array.from(spec.delay), maxColumnLevel: Float64Array.from(spec.maxColumnLevel) });
-}
-
 describe("cell table", () => {
   it("gives bit for bit the cells of row-by-row insertion when rows come in blocks, also across a change of level", () => {
     // Each cell's rows wait in one partition's queue in their order, and add() and addRows() fill the
@@ -196,13 +191,48 @@ describe("cell table", () => {
     for (const capacity of [100_000, 3000]) check(capacity);
   });
 
+  it("reads a part's keys the same way in the merge when only that part had to widen its whole-number column", () => {
+    // More distinct counts than the capacity: one part's table goes past MAX_LEVEL, where its count
+    // column widens too; the other part stays low. The level alone fixes how each column is cut
+    // (columnLevel), so the merge must equal one table that received every row at the final level.
+    // Σ and the counts are whole multiples of the step, so every sum is exact and equality is exact.
+    const spec = sigmaCountGrid(2 ** -4, 64);
+    const rows = (n: number, counts: number, seed: string) => {
+      const rng = rngFromText(seed);
+      return Array.from({ length: n }, () => ({ sigma: Math.round(16 * rng.normal()) / 16, n: Math.floor(rng.uniform() * counts) - Math.floor(counts / 2) }));
+    };
+    const wide = rows(2000, 400, "cell-table:wide-counts");
+    const narrow = rows(2000, 12, "cell-table:narrow-counts");
+    const fill = (table: CellTable, part: { sigma: number; n: number }[]) => {
+      for (const r of part) table.add(Float64Array.of(r.sigma, r.n), Float64Array.of(r.sigma, r.n), 1, r.sigma);
+      return table;
+    };
+    const a = fill(new CellTable(spec), wide);
+    const b = fill(new CellTable(spec), narrow);
+    // (Rows wait in queues; exporting adds them and lets the table go up as it must.)
+    expect(a.export().level).toBeGreaterThan(MAX_LEVEL); // 400 distinct counts do not fit in 64 cells otherwise
+    expect(b.export().level).toBeLessThanOrEqual(MAX_LEVEL);
+    for (const sorted of [true, false]) {
+      const merged = mergeCellTables(spec, [a, b].map((t) => (sorted ? t.exportSorted() : t.export())));
+      const once = fill(new CellTable({ ...spec, startLevel: merged.level, capacity: 1 << 20 }), [...wide, ...narrow]);
+      const reference = mergeCellTables({ ...spec, capacity: 1 << 20 }, [once.exportSorted()]);
+      expect(merged.level).toBe(reference.level);
+      expect(Array.from(merged.keys)).toEqual(Array.from(reference.keys));
+      expect(Array.from(merged.count)).toEqual(Array.from(reference.count));
+      expect(Array.from(merged.sums)).toEqual(Array.from(reference.sums));
+      expect(merged.cells).toBeLessThanOrEqual(spec.capacity);
+    }
+    // The merged cells' count keys are at the level of the widened part: each count cell is 3^l counts wide.
+    expect(columnLevel(a.level, Infinity)).toBeGreaterThan(0);
+  });
+
   it("merges sorted parts in one pass to the same bits as absorbing them into a table", () => {
     // Workers send their parts sorted; the linear merge must repeat absorb's arithmetic exactly
     // (first part's reference Σ, e^−Σ sums rescaled to it, sums in part order).
     const spec = sigmaCountGrid(2 ** -10, 100_000);
     const rng = rngFromText("cell-table:merge");
     const part = () => {
-      const table = tableOf(spec);
+      const table = new CellTable(spec);
       for (let i = 0; i < 30_000; i++) {
         const sigma = 2 * rng.normal();
         const n = Math.round(2 * rng.normal());
@@ -246,7 +276,7 @@ describe("cell table", () => {
           const tables: CellTable[] = [];
           const per = Math.ceil(rows.length / parts);
           for (let p = 0; p < parts; p++) {
-            const table = tableOf(spec);
+            const table = new CellTable(spec);
             const mine = rows.slice(p * per, (p + 1) * per);
             for (let from = 0; from < mine.length; from += block) {
               const part = mine.slice(from, from + block);
@@ -331,9 +361,9 @@ function check(capacity: number): void {
     v[2 * i] = sigma[i] * 1.7;
     v[2 * i + 1] = x[2 * i + 1];
   }
-  const one = tableOf(spec);
+  const one = new CellTable(spec);
   for (let i = 0; i < rows; i++) one.add(x.subarray(2 * i, 2 * i + 2), v.subarray(2 * i, 2 * i + 2), 1, sigma[i]);
-  const blocks = tableOf(spec);
+  const blocks = new CellTable(spec);
   for (let from = 0; from < rows; from += 4096) {
     const to = Math.min(rows, from + 4096);
     blocks.addRows({ rows: to - from, x: x.slice(2 * from, 2 * to), v: v.slice(2 * from, 2 * to), sigma: sigma.slice(from, to) });

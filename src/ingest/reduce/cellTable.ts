@@ -7,8 +7,9 @@
  * The grid is centred and mirror-symmetric: at level 0 column d is cut into
  * cells [(k − ½)s, (k + ½)s) of width s = step0_d, so the mirror image of cell
  * k is cell −k and a realisation and its time reverse fall into mirrored cells.
- * Each table level L puts column d at its own level min(max_d, max(0, L − delay_d))
- * (a column with an infinite delay, such as a count, never widens), and each
+ * Each table level L ≤ MAX_LEVEL puts column d at its own level
+ * min(max_d, max(0, L − delay_d)) (a column with an infinite delay, such as a
+ * count, does not widen there), and each
  * column level triples the width: cell j at level l+1 is exactly cells 3j−1,
  * 3j, 3j+1 at level l (j = ⌊(k+1)/3⌋), so cells stay centred and
  * mirror-symmetric at every level, and summaries of different
@@ -68,12 +69,31 @@ export interface CellTableData {
   sorted?: boolean;
 }
 
-/** Levels beyond this would need cell indices past 2^53 / 3^L exactness. */
+/**
+ * The last level at which columns follow their delays and limits. At 30, Σ
+ * cells are 2^−12 · 3^30 ≈ 5·10^10 k_B wide, a single cell for any data: a
+ * table that still holds more cells than its capacity owes them to its
+ * whole-number (or limited) columns, so past this level every column widens.
+ */
 export const MAX_LEVEL = 30;
 
-/** A column's own level at table level L. */
+/**
+ * The highest level a table goes to: whole-number columns are then 3^33 ≈ 5.6·10^15
+ * wide, so that all counts a double holds exactly fall into at most three cells.
+ * A table past its capacity there (only data with values beyond 2^53 can) stays
+ * over it rather than widen cells whose widths are no longer exact.
+ */
+export const LAST_LEVEL = MAX_LEVEL + 33;
+
+/**
+ * A column's own level at table level L: min(max, max(0, L − delay)) up to
+ * MAX_LEVEL; past it, that level plus L − MAX_LEVEL, for every column (counts
+ * too). A function of the level alone, so every part of a file and the table
+ * that merges them read the same key the same way whatever levels they reached.
+ */
 export function columnLevel(level: number, delay: number, max = Infinity): number {
-  return Math.min(max, Math.max(0, level - delay));
+  if (level <= MAX_LEVEL) return Math.min(max, Math.max(0, level - delay));
+  return columnLevel(MAX_LEVEL, delay, max) + (level - MAX_LEVEL);
 }
 
 /** Index at `toLevel` of the cell with index k at `fromLevel` (centred cells, factor 3 a level). */
@@ -391,22 +411,15 @@ export class CellTable {
 
   /** Go up one level (or more, until the cells fit): pool neighbouring cells of the coarsenable columns. */
   coarsen(): void {
+    if (this.level >= LAST_LEVEL) return;
     for (let p = 0; p < PARTITIONS; p++) this.flush(p);
     const old = this.snapshot();
     do {
       this.level++;
-      if (this.level > MAX_LEVEL) {
-        // Whole-number columns alone hold more distinct values than the capacity: pool them too.
-        this.level = old.level + 1;
-        this.spec.delay.forEach((d, i) => {
-          if (!Number.isFinite(d)) this.spec.delay[i] = old.level;
-        });
-        this.spec.maxColumnLevel.fill(Infinity);
-      }
       this.refreshFactors();
       this.clear();
       this.absorb(old, false);
-    } while (this.size > this.spec.capacity);
+    } while (this.size > this.spec.capacity && this.level < LAST_LEVEL);
   }
 
   /** Add every cell of `data` (at a level ≤ this.level) into this table. */

@@ -51,7 +51,7 @@ export class SamplesReducer {
   }
 
   constructor(readonly spec: SamplesReductionSpec) {
-    this.table = new CellTable({ ...spec.grid, pairs: spec.grid.pairs.map(([a, b]) => [a, b]), delay: Float64Array.from(spec.grid.delay), maxColumnLevel: Float64Array.from(spec.grid.maxColumnLevel), step0: Float64Array.from(spec.grid.step0) });
+    this.table = new CellTable(spec.grid);
   }
 
   accept(chunk: RowChunk): void {
