@@ -503,6 +503,57 @@ checks: all
     expectClose(r, e, { rtol: 1e-10, source: "sum of e^−Σ is kept exactly at every level" });
   });
 
+  it("widens a count column with Σ when the start of the file shows more distinct counts than the table could hold", async () => {
+    // Counts spread over some 30 000 values (a long counting window) with a tiny chemical-potential
+    // affinity, so Σ stays of order one. With 16 384 cells the counts alone would overflow the table:
+    // kept apart, they would drive every other column past MAX_LEVEL (Σ cells ~5e10 k_B wide). The
+    // probe sees over 256 distinct counts (capacity / 64), so the counts widen with Σ instead and
+    // Σ's cells stay narrow; the totals stay exact at any width.
+    const rng = rngFromText("reduce:many-counts");
+    const lines = ["W,Q,dN"];
+    for (let i = 0; i < 60_000; i++) lines.push(`${(0.1 * rng.normal()).toFixed(6)},${(0.3 * rng.normal()).toFixed(6)},${Math.round(5000 * rng.normal())}`);
+    const yaml = `id: reduce-many-counts
+title: Reduction test with many distinct counts
+authors: [{ name: "Test Author" }]
+datasets:
+  - id: runs
+    kind: samples
+    file: data/runs.csv
+    columns: { W: W, Q: Q, dN: dN }
+    energy_unit: meV
+    reservoirs:
+      A: { T: 1.3, mu: 0.000001 }
+      B: { T: 1.0, mu: 0 }
+    tau: 1.0e-9
+    work: measured
+checks: all
+`;
+    const many = tempAudit(yaml, { "data/runs.csv": `${lines.join("\n")}\n` });
+    const config = loadAuditDefinition(many).datasets[0] as SamplesDatasetConfig;
+    const file = path.join(many, "data/runs.csv");
+    const reduced = await loadSamples(config, file, "datasets[0]", { ...REDUCE, cellCapacity: 1 << 14, threads: false });
+    const exact = await loadSamples(config, file, "datasets[0]", EXACT);
+    expect(reduced.sigma.length).toBeLessThanOrEqual(1 << 14);
+    expect(reduced.reduction!.steps.dN).toBeGreaterThan(1);
+    expect(reduced.reduction!.steps.sigma).toBeLessThan(1); // k_B; without the rule, 2^−12·3^31 ≈ 1.5e11
+    expect(reduced.realisations).toBe(60_000);
+    let e = 0;
+    let r = 0;
+    let nExact = 0;
+    let nReduced = 0;
+    for (let i = 0; i < exact.sigma.length; i++) {
+      e += Math.exp(-exact.sigma[i]);
+      nExact += exact.dN[i];
+    }
+    for (let i = 0; i < reduced.sigma.length; i++) {
+      r += reduced.weight![i] * Math.exp(-reduced.sigma[i]);
+      nReduced += reduced.weight![i] * reduced.dN[i];
+    }
+    expectClose(r, e, { rtol: 1e-10, source: "sum of e^−Σ is kept exactly at every level" });
+    expectClose(nReduced, nExact, { rtol: 1e-9, atol: 1e-6, source: "the total count is kept (cell means times multiplicities; rounding only)" });
+    fs.rmSync(many, { recursive: true, force: true });
+  });
+
   it("reports bad cells and disagreeing rows with the reference reader's words and absolute lines", async () => {
     const lines = ["dE_A,dE_B,Q"];
     // dE_A = −k/1000, dE_B = 0.2, Q = (0.2 + k/1000)/2: decimals printed exactly, so Q agrees with (dE_B − dE_A)/2.

@@ -60,6 +60,21 @@ const SIGMA_STEP = 2 ** -12;
  */
 const TRANSVERSE_MAX_LEVEL = 13;
 
+/**
+ * A count column widens with Σ when the probe alone shows more than
+ * capacity / MANY_COUNTS_FRACTION distinct counts (4096 at the default
+ * capacity): a file ~200 times the probe's length could then hold more
+ * distinct counts than the table has cells.
+ */
+const MANY_COUNTS_FRACTION = 64;
+
+/** Whether `values` hold more than `limit` distinct values (stops counting past it). */
+function distinctAbove(values: Float64Array, limit: number): boolean {
+  const seen = new Set<number>();
+  for (let i = 0; i < values.length && seen.size <= limit; i++) seen.add(values[i]);
+  return seen.size > limit;
+}
+
 /** Rows read from the start of the file to choose the grid. */
 const PROBE_BYTES = 1 << 20;
 
@@ -183,8 +198,11 @@ export function reductionSpec(input: ReduceInput, probe: RowChunk | null, slotNa
       }
     }
     if (whole) {
-      step0[d] = 1; // counts stay apart at every level
-      delay[d] = Infinity;
+      step0[d] = 1;
+      // Counts stay apart at every level, unless the start of the file already shows so many
+      // distinct counts that they alone could fill the table: then they widen with Σ, and Σ's
+      // cells can stay narrow (past MAX_LEVEL everything would widen, Σ included).
+      delay[d] = values !== null && distinctAbove(values, capacity / MANY_COUNTS_FRACTION) ? (transverse ? TRANSVERSE_MAX_LEVEL : 0) : Infinity;
     } else if (c === "sigma" || c === "betaW") {
       step0[d] = SIGMA_STEP;
       delay[d] = transverse ? TRANSVERSE_MAX_LEVEL : 0;
