@@ -11,6 +11,7 @@ import { describe, expect, it } from "vitest";
 import { CellTable, coarserIndex, columnLevel, keyOrder, MAX_LEVEL, mergeCellTables, type GridSpec } from "../../src/ingest/reduce/cellTable.ts";
 import { loadAuditDefinition } from "../../src/config/loadAudit.ts";
 import { loadSamples, type SamplesReadOptions } from "../../src/ingest/samples.ts";
+import { describeReduction } from "../../src/ingest/reduce/describeReduction.ts";
 import { cachedWorkerBundle, digestOfInputs, removeStaleBundles, workerBundle, type BundleIndex } from "../../src/ingest/reduce/parallelReduce.ts";
 import type { Dataset, IngestedAudit, SamplesDataset } from "../../src/ingest/types.ts";
 import type { SamplesDatasetConfig } from "../../src/config/types.ts";
@@ -537,6 +538,9 @@ checks: all
     expect(reduced.reduction!.steps.dN).toBeGreaterThan(1);
     expect(reduced.reduction!.steps.sigma).toBeLessThan(1); // k_B; without the rule, 2^−12·3^31 ≈ 1.5e11
     expect(reduced.realisations).toBe(60_000);
+    // The report's assumption says how wide the count cells are, not "equal ΔN".
+    expect(describeReduction(reduced)).toContain(`ΔN in cells of ${reduced.reduction!.steps.dN} counts`);
+    expect(describeReduction(exact)).toBeNull();
     let e = 0;
     let r = 0;
     let nExact = 0;

@@ -15,7 +15,7 @@ export function describeReduction(d: SamplesDataset): string | null {
   for (const [column, step] of Object.entries(r.steps)) {
     if (column === "sigma") continue;
     if (column === "betaW") widths.push(`β̄W in cells ${sig(step)} k_B wide`);
-    else if (column === "dN") widths.push("equal ΔN");
+    else if (column === "dN") widths.push(step === 1 ? "equal ΔN" : `ΔN in cells of ${step} counts`);
     else widths.push(`${column} in cells ${sig(step / d.energyUnit.joules)} ${unit} wide`);
   }
   const pooled = r.pooledFraction > 0
