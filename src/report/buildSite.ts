@@ -105,6 +105,9 @@ export async function renderSite(out: string, data: SiteData): Promise<void> {
       c.addGlobalData("tool", TOOL);
     },
   });
+  // Eleventy still prints its "Wrote N files" summary in quiet mode; the build reports for itself.
+  // (disableLogger is public in Eleventy 3 but missing from the types its JSDoc yields.)
+  (elev as unknown as { disableLogger(): void }).disableLogger();
   await elev.write();
   copyAssets(out);
   for (const f of data.files ?? []) {

@@ -18,7 +18,7 @@ import { describe, expect, it } from "vitest";
 import { parseAuditDefinition } from "../../src/config/loadAudit.ts";
 import { ConfigError, DataError, InputError, UnitError } from "../../src/errors.ts";
 import { ingestAudit } from "../../src/ingest/loadAudit.ts";
-import { auditWith, cli, VALID_CSV, VALID_YAML } from "./harness.ts";
+import { auditWith, cli, cliProcess, VALID_CSV, VALID_YAML } from "./harness.ts";
 import { rejectedWith, thrownBy } from "../helpers/thrown.ts";
 
 /** The message of the ConfigError that parsing the text raises. */
@@ -144,6 +144,23 @@ describe("duplicate ids", () => {
     expect(r.stderr).toBe(`error: two audits in ${root}/audits share the id "demo-audit"; ids must be unique in an archive\n`);
     // Nothing is rendered from an archive that cannot be built.
     expect(fs.existsSync(out)).toBe(false);
+  });
+});
+
+describe("build output", () => {
+  it("prints the build's own summary and nothing from the site generator", async () => {
+    const root = fs.mkdtempSync(path.join(os.tmpdir(), "ta-build-output-"));
+    const dir = path.join(root, "audits", "only");
+    fs.mkdirSync(path.join(dir, "data"), { recursive: true });
+    fs.writeFileSync(path.join(dir, "audit.yaml"), VALID_YAML);
+    fs.writeFileSync(path.join(dir, "data", "run.csv"), VALID_CSV);
+    const out = path.join(root, "site");
+    // In a process of its own: the generator logs through the console, which the in-process helper does not see.
+    const r = cliProcess(["build", "--root", root, "--out", out, "--no-cache"]);
+    expect(r.code).toBe(0);
+    expect(r.stdout).toBe(`site index: ${out}/index.html\n`);
+    expect(r.stderr).toBe("built 1 audit report(s)\n");
+    fs.rmSync(root, { recursive: true, force: true });
   });
 });
 
