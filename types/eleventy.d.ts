@@ -13,6 +13,8 @@ declare module "@11ty/eleventy" {
   export class Eleventy {
     constructor(input: string, output: string, options?: EleventyOptions);
     write(): Promise<unknown>;
+    /** Silences Eleventy's console output, including the "Wrote N files" summary quiet mode keeps. */
+    disableLogger(): void;
     toJSON(): Promise<{ url: string; inputPath: string; outputPath: string; content: string }[]>;
   }
   export default Eleventy;

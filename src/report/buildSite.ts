@@ -106,8 +106,7 @@ export async function renderSite(out: string, data: SiteData): Promise<void> {
     },
   });
   // Eleventy still prints its "Wrote N files" summary in quiet mode; the build reports for itself.
-  // (disableLogger is public in Eleventy 3 but missing from the types its JSDoc yields.)
-  (elev as unknown as { disableLogger(): void }).disableLogger();
+  elev.disableLogger();
   await elev.write();
   copyAssets(out);
   for (const f of data.files ?? []) {
