@@ -12,7 +12,7 @@ import { CellTable, coarserIndex, columnLevel, keyOrder, MAX_LEVEL, mergeCellTab
 import { loadAuditDefinition } from "../../src/config/loadAudit.ts";
 import { loadSamples, type SamplesReadOptions } from "../../src/ingest/samples.ts";
 import { describeReduction } from "../../src/ingest/reduce/describeReduction.ts";
-import { cachedWorkerBundle, digestOfInputs, removeStaleBundles, workerBundle, type BundleIndex } from "../../src/ingest/reduce/parallelReduce.ts";
+import { cachedWorkerBundle, digestOfInputs, privateBundleDir, removeStaleBundles, workerBundle, type BundleIndex } from "../../src/ingest/reduce/parallelReduce.ts";
 import type { Dataset, IngestedAudit, SamplesDataset } from "../../src/ingest/types.ts";
 import type { SamplesDatasetConfig } from "../../src/config/types.ts";
 import { runChecks } from "../../src/report/runAudit.ts";
@@ -139,12 +139,38 @@ describe("reduction worker bundle index", () => {
     fs.rmSync(dir, { recursive: true, force: true });
   });
 
+  it("keeps bundles in a folder of this user's that nobody else can write, and refuses any other", () => {
+    // The system's temporary folder is shared on a cluster's login node: code found there is trusted
+    // only inside a directory owned by this user with no group or other write permission (POSIX
+    // permission bits; common practice for per-user temporary folders).
+    const base = fs.mkdtempSync(path.join(os.tmpdir(), "bundle-dir-"));
+    const dir = privateBundleDir(base);
+    expect(dir).not.toBeNull();
+    const stat = fs.statSync(dir!);
+    expect(stat.isDirectory()).toBe(true);
+    expect(stat.mode & 0o077).toBe(0);
+    expect(privateBundleDir(base)).toBe(dir); // found again as it is
+    fs.chmodSync(dir!, 0o777);
+    expect(privateBundleDir(base)).toBeNull(); // writable by others: not ours alone
+    fs.rmSync(dir!, { recursive: true });
+    const elsewhere = fs.mkdtempSync(path.join(os.tmpdir(), "bundle-elsewhere-"));
+    fs.symlinkSync(elsewhere, dir!);
+    expect(privateBundleDir(base)).toBeNull(); // a symbolic link, whatever it points to
+    fs.rmSync(dir!);
+    fs.writeFileSync(dir!, "");
+    expect(privateBundleDir(base)).toBeNull(); // a file in its place
+    fs.rmSync(base, { recursive: true, force: true });
+    fs.rmSync(elsewhere, { recursive: true, force: true });
+  });
+
   it("records the worker's own modules beside the bundle esbuild writes", async () => {
     const bundle = await workerBundle();
     expect(bundle).not.toBeNull();
     // The index of this install names the bundle just written (or one of identical code) and its modules.
-    const indexes = fs.readdirSync(os.tmpdir()).filter((f) => /^transport-audit-reduce-worker-index-[0-9a-f]{16}\.json$/.test(f));
-    const ours = indexes.map((f) => JSON.parse(fs.readFileSync(path.join(os.tmpdir(), f), "utf8")) as BundleIndex).find((i) => i.inputs.some((p) => p.endsWith(path.join("src", "ingest", "reduce", "worker.ts")) && p.startsWith(path.resolve("src"))));
+    const dir = privateBundleDir()!;
+    expect(path.dirname(bundle!)).toBe(dir);
+    const indexes = fs.readdirSync(dir).filter((f) => /^transport-audit-reduce-worker-index-[0-9a-f]{16}\.json$/.test(f));
+    const ours = indexes.map((f) => JSON.parse(fs.readFileSync(path.join(dir, f), "utf8")) as BundleIndex).find((i) => i.inputs.some((p) => p.endsWith(path.join("src", "ingest", "reduce", "worker.ts")) && p.startsWith(path.resolve("src"))));
     expect(ours).toBeDefined();
     expect(ours!.inputs).toContain(path.resolve("src/ingest/reduce/cellTable.ts"));
     expect(ours!.inputs).toContain(path.resolve("src/ingest/fast/scanLines.ts"));

@@ -31,14 +31,46 @@ let bundled: Promise<string | null> | null = null;
 const WORKER_ENTRY = fileURLToPath(new URL("./worker.ts", import.meta.url));
 
 /**
+ * The folder for worker bundles and their index: `transport-audit-<uid>` in
+ * the system's temporary folder, created readable and writable by this user
+ * only. The temporary folder itself is writable by every user of a shared
+ * machine (a cluster's login node), and a bundle someone else put there would
+ * run as our code; so the folder is used only when it is a real directory
+ * (lstat: a symbolic link is not followed) owned by this user and writable by
+ * nobody else. Null otherwise, and workers then start through tsx on the
+ * sources: slower, never someone else's code.
+ */
+export function privateBundleDir(base = os.tmpdir()): string | null {
+  const uid = typeof process.getuid === "function" ? process.getuid() : null;
+  const dir = path.join(base, `transport-audit-${uid ?? "user"}`);
+  try {
+    fs.mkdirSync(dir, { mode: 0o700 });
+  } catch (err) {
+    if ((err as NodeJS.ErrnoException).code !== "EEXIST") return null;
+  }
+  try {
+    const stat = fs.lstatSync(dir);
+    if (!stat.isDirectory()) return null;
+    // Ownership and permission bits mean nothing on Windows, where the temporary folder is the user's own.
+    if (uid !== null && (stat.uid !== uid || (stat.mode & 0o022) !== 0)) return null;
+    return dir;
+  } catch {
+    return null;
+  }
+}
+
+/**
  * Where the bundle's inputs are recorded (one file per install, named by the
  * entry's path): the bundle's file and the digest of every module that went
  * into it, so that a later process can start workers on the bundle at once,
- * without waiting for esbuild, when none of those modules changed.
+ * without waiting for esbuild, when none of those modules changed. Null
+ * without a private folder.
  */
-function bundleIndexFile(): string {
+function bundleIndexFile(): string | null {
+  const dir = privateBundleDir();
+  if (dir === null) return null;
   const id = createHash("sha256").update(WORKER_ENTRY).digest("hex").slice(0, 16);
-  return path.join(os.tmpdir(), `transport-audit-reduce-worker-index-${id}.json`);
+  return path.join(dir, `transport-audit-reduce-worker-index-${id}.json`);
 }
 
 export interface BundleIndex {
@@ -67,6 +99,7 @@ export function digestOfInputs(paths: string[]): string {
  * read and hashed); null otherwise.
  */
 export function cachedWorkerBundle(indexFile = bundleIndexFile()): string | null {
+  if (indexFile === null) return null;
   try {
     const index = JSON.parse(fs.readFileSync(indexFile, "utf8")) as BundleIndex;
     if (!fs.existsSync(index.bundle) || digestOfInputs(index.inputs) !== index.digest) return null;
@@ -78,8 +111,8 @@ export function cachedWorkerBundle(indexFile = bundleIndexFile()): string | null
 
 /**
  * worker.ts and what it imports, bundled into one plain JavaScript file by
- * esbuild (the transpiler tsx itself uses), written once per content under the
- * system's temporary folder. A worker started on it is ready in tens of
+ * esbuild (the transpiler tsx itself uses), written once per content into this
+ * user's private folder under the system's temporary one (privateBundleDir). A worker started on it is ready in tens of
  * milliseconds; one that registers tsx and transpiles on start takes over a
  * second on this machine class, which would cost more than the parallel
  * reading saves. The bundle an earlier process wrote is taken as it is when
@@ -114,19 +147,21 @@ export function workerBundle(): Promise<string | null> {
         write: false,
         logLevel: "silent",
       });
+      const dir = privateBundleDir();
+      if (dir === null) return null;
       const code = out.outputFiles[0].contents;
       const digest = createHash("sha256").update(code).digest("hex").slice(0, 16);
-      const file = path.join(os.tmpdir(), `transport-audit-reduce-worker-${digest}.mjs`);
+      const file = path.join(dir, `transport-audit-reduce-worker-${digest}.mjs`);
       // A temporary name of this process and thread: build workers may bundle at the same time.
       const temp = `.${process.pid}.${threadId}.tmp`;
       if (!fs.existsSync(file)) {
         fs.writeFileSync(file + temp, code);
         fs.renameSync(file + temp, file);
-        removeStaleBundles(path.basename(file));
+        removeStaleBundles(path.basename(file), dir);
       }
       read.sort((a, b) => (a.path < b.path ? -1 : a.path > b.path ? 1 : 0));
       const index: BundleIndex = { bundle: file, inputs: read.map((r) => r.path), digest: digestOfContents(read) };
-      const indexFile = bundleIndexFile();
+      const indexFile = bundleIndexFile()!;
       fs.writeFileSync(indexFile + temp, JSON.stringify(index));
       fs.renameSync(indexFile + temp, indexFile);
       return file;
@@ -141,11 +176,11 @@ export function workerBundle(): Promise<string | null> {
 const STALE_BUNDLE_MS = 7 * 24 * 3600 * 1000;
 
 /**
- * Remove the bundles earlier versions of the tool left in the temporary folder
+ * Remove the bundles earlier versions of the tool left in the bundle folder
  * (one per version of the worker's code), except `keep` and any used in the
  * last week: a process of an older version may still be starting workers on its own.
  */
-export function removeStaleBundles(keep: string, dir = os.tmpdir()): void {
+export function removeStaleBundles(keep: string, dir: string): void {
   try {
     const now = Date.now();
     for (const name of fs.readdirSync(dir)) {
