@@ -8,7 +8,7 @@ import type { RowChunk, ScanLayout } from "../fast/scanLines.ts";
 import { scanFileRange } from "../fast/scanRange.ts";
 import { sampleRowsOf, type SampleRole, type SampleRoles } from "../samplesRows.ts";
 import type { SamplesDataset, SamplesReduction } from "../types.ts";
-import { coarserIndex, columnLevel, MAX_LEVEL, mergeCellTables } from "./cellTable.ts";
+import { columnLevel, MAX_LEVEL, mergeCellTables } from "./cellTable.ts";
 import { PARTS, reduceInParts, workerBundle } from "./parallelReduce.ts";
 import { sigmaOfRows, type KeyColumn, type SampleColumn, type SamplesReductionSpec } from "./samplesSink.ts";
 
@@ -239,25 +239,64 @@ function momentPairs(stored: SampleColumn[]): [number, number][] {
 
 /**
  * Number of probe rows' distinct cells at a level (stops counting past
- * `limit`). Cells are told apart by a 53-bit hash of their key: a collision
- * among some 10^4 keys has a probability near 10^−7 and would only make the
- * start level one finer, which the table corrects as it fills.
+ * `limit`), from the rows' level-0 cell indices `k0` (rows × dims). Cells are
+ * told apart by a 53-bit hash of their key: a collision among some 10^4 keys
+ * has a probability near 10^−7 and would only make the start level one finer,
+ * which the table corrects as it fills.
  */
-function probeCells(keys: Float64Array[], rows: number, step0: Float64Array, delay: Float64Array, maxLevel: Float64Array, level: number, limit: number): number {
-  const seen = new Set<number>();
+function probeCells(k0: Float64Array, dims: number, rows: number, delay: Float64Array, maxLevel: Float64Array, level: number, limit: number): number {
+  // coarserIndex(k, 0, l) = ⌊(k + (p − 1)/2) / p⌋ with p = 3^l, its factors taken once per column.
+  const p = Float64Array.from(delay, (dl, d) => 3 ** columnLevel(level, dl, maxLevel[d]));
+  const half = p.map((f) => (f - 1) / 2);
+  const seen = new HashSet53(limit + 1);
   for (let i = 0; i < rows && seen.size <= limit; i++) {
     let h1 = 0x811c9dc5;
     let h2 = 0x01000193;
-    for (let d = 0; d < keys.length; d++) {
-      const k = coarserIndex(Math.floor(keys[d][i] / step0[d] + 0.5), 0, columnLevel(level, delay[d], maxLevel[d]));
+    for (let d = 0; d < dims; d++) {
+      const k = Math.floor((k0[i * dims + d] + half[d]) / p[d]);
       const lo = k | 0;
       const hi = (k / 4294967296) | 0;
       h1 = Math.imul(h1 ^ lo, 0x01000193) ^ hi;
       h2 = Math.imul(h2 ^ hi, 0x5bd1e995) ^ lo;
     }
-    seen.add((h1 >>> 0) * 2097152 + (h2 >>> 11));
+    seen.add(h1 | 0, h2 >>> 11);
   }
   return seen.size;
+}
+
+/**
+ * A set of 53-bit values given as a high 32-bit and a low 21-bit part, for
+ * at most `most` values: open addressing in typed arrays, some ten times
+ * faster than a Set of the same values as doubles (which V8 keeps as heap
+ * numbers) in the probe's bisection.
+ */
+class HashSet53 {
+  size = 0;
+  private readonly high: Int32Array;
+  /** Low part + 1 (0: empty slot). */
+  private readonly low: Int32Array;
+  private readonly mask: number;
+
+  constructor(most: number) {
+    let slots = 16;
+    while (slots < 2 * most) slots *= 2;
+    this.high = new Int32Array(slots);
+    this.low = new Int32Array(slots);
+    this.mask = slots - 1;
+  }
+
+  /** Add the value high · 2^21 + low (low in [0, 2^21)); at most `most` distinct values. */
+  add(high: number, low: number): void {
+    let slot = Math.imul(high ^ Math.imul(low, 0x9e3779b1), 0x85ebca6b) >>> 0;
+    slot = (slot ^ (slot >>> 16)) & this.mask;
+    while (this.low[slot] !== 0) {
+      if (this.high[slot] === high && this.low[slot] === low + 1) return;
+      slot = (slot + 1) & this.mask;
+    }
+    this.high[slot] = high;
+    this.low[slot] = low + 1;
+    this.size++;
+  }
 }
 
 /**
@@ -268,12 +307,16 @@ function probeCells(keys: Float64Array[], rows: number, step0: Float64Array, del
  * same either way.
  */
 function levelForProbe(keys: Float64Array[], rows: number, step0: Float64Array, delay: Float64Array, maxLevel: Float64Array, target: number): number {
+  // Each row's level-0 cell once, for every level the bisection tries.
+  const dims = keys.length;
+  const k0 = new Float64Array(rows * dims);
+  for (let i = 0; i < rows; i++) for (let d = 0; d < dims; d++) k0[i * dims + d] = Math.floor(keys[d][i] / step0[d] + 0.5);
   let lo = 0;
   let hi = MAX_LEVEL;
-  if (probeCells(keys, rows, step0, delay, maxLevel, hi, target) > target) return hi;
+  if (probeCells(k0, dims, rows, delay, maxLevel, hi, target) > target) return hi;
   while (lo < hi) {
     const mid = (lo + hi) >> 1;
-    if (probeCells(keys, rows, step0, delay, maxLevel, mid, target) <= target) hi = mid;
+    if (probeCells(k0, dims, rows, delay, maxLevel, mid, target) <= target) hi = mid;
     else lo = mid + 1;
   }
   return lo;
