@@ -92,6 +92,49 @@ function exactDraws(weights: Float64Array): { kind: Uint8Array; table: (Float64A
   return { kind, table, ptrs };
 }
 
+/** a before b in the order of Float64Array.prototype.sort (ascending, NaN last). */
+function before(a: number, b: number): boolean {
+  return a < b || (a === a && b !== b);
+}
+
+/**
+ * The value at position `rank` (from 0) of `values` sorted ascending (NaN
+ * last), as `Float64Array.from(values).sort()[rank]` gives it, in linear
+ * expected time: Hoare's selection (Find, Commun. ACM 4, 321 (1961); from
+ * memory) with a median-of-three pivot, on a copy.
+ */
+export function selectRank(values: Float64Array, rank: number): number {
+  const a = Float64Array.from(values);
+  let lo = 0;
+  let hi = a.length - 1;
+  while (hi > lo) {
+    const mid = (lo + hi) >>> 1;
+    // Median of three as the pivot, moved to a[mid].
+    if (before(a[mid], a[lo])) swap(a, mid, lo);
+    if (before(a[hi], a[lo])) swap(a, hi, lo);
+    if (before(a[hi], a[mid])) swap(a, hi, mid);
+    const pivot = a[mid];
+    let i = lo;
+    let j = hi;
+    while (i <= j) {
+      while (before(a[i], pivot)) i++;
+      while (before(pivot, a[j])) j--;
+      if (i <= j) swap(a, i++, j--);
+    }
+    // Now a[lo..j] ≤ pivot ≤ a[i..hi], and a[j+1..i−1] equal the pivot.
+    if (rank <= j) hi = j;
+    else if (rank >= i) lo = i;
+    else return a[rank];
+  }
+  return a[rank];
+}
+
+function swap(a: Float64Array, i: number, j: number): void {
+  const t = a[i];
+  a[i] = a[j];
+  a[j] = t;
+}
+
 /** Indices of the `k` largest values of `score` (ties broken by index). */
 function largestIndices(score: Float64Array, k: number): Uint32Array {
   if (k >= score.length) {
@@ -99,8 +142,7 @@ function largestIndices(score: Float64Array, k: number): Uint32Array {
     for (let i = 0; i < all.length; i++) all[i] = i;
     return all;
   }
-  const sorted = Float64Array.from(score).sort();
-  const threshold = sorted[score.length - k];
+  const threshold = selectRank(score, score.length - k);
   const out = new Uint32Array(k);
   let m = 0;
   for (let i = 0; i < score.length && m < k; i++) if (score[i] > threshold) out[m++] = i;

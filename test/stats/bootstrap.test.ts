@@ -1,5 +1,5 @@
 import { describe, expect, it } from "vitest";
-import { bcaInterval, bcaPValue, bootstrapRatio, percentileInterval, sortedQuantile } from "../../src/stats/bootstrap.ts";
+import { bcaInterval, bcaPValue, bootstrapRatio, percentileInterval, selectRank, sortedQuantile } from "../../src/stats/bootstrap.ts";
 import { poissonDeviate, poissonFromTable, poissonInversionTable, ptrsConstants, ptrsDeviate } from "../../src/stats/poissonDeviate.ts";
 import { hillTailShape } from "../../src/stats/tailShape.ts";
 import { rngFromText } from "../../src/stats/rng.ts";
@@ -50,6 +50,30 @@ describe("Poisson draws prepared once per weight", () => {
       const b = rngFromText(`ptrs:${mean}`);
       const c = ptrsConstants(mean);
       for (let i = 0; i < 20_000; i++) expect(ptrsDeviate(a, c)).toBe(poissonDeviate(b, mean));
+    }
+  });
+});
+
+describe("selectRank", () => {
+  it("gives the value a full sort puts at each rank, ties, infinities, NaN and signed zeros included", () => {
+    // The reference is Float64Array.prototype.sort (ECMAScript: numeric order, NaN last); the
+    // bootstraps' choice of exactly resampled cells depends on this value, so it must be identical.
+    const rng = rngFromText("select-rank");
+    const specials = [0, -0, Infinity, -Infinity, NaN, 1, 1, 1];
+    for (let trial = 0; trial < 300; trial++) {
+      const n = 1 + Math.floor(rng.uniform() * (trial < 200 ? 40 : 3000));
+      const values = new Float64Array(n);
+      for (let i = 0; i < n; i++) {
+        const r = rng.uniform();
+        values[i] = r < 0.15 ? specials[Math.floor(rng.uniform() * specials.length)] : r < 0.5 ? Math.round(10 * rng.normal()) : rng.normal();
+      }
+      const sorted = Float64Array.from(values).sort();
+      for (const rank of [0, n - 1, Math.floor(rng.uniform() * n), Math.floor(n / 2)]) {
+        const got = selectRank(values, rank);
+        const want = sorted[rank];
+        // Equal as the threshold is used (> and ===): NaN for NaN, and −0 and 0 alike.
+        expect(Number.isNaN(want) ? Number.isNaN(got) : got === want, `n=${n} rank=${rank}: ${got} for ${want}`).toBe(true);
+      }
     }
   });
 });
