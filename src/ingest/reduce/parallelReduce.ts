@@ -27,6 +27,9 @@ export const PARTS = 2;
 
 let bundled: Promise<string | null> | null = null;
 
+/** esbuild's loader for each kind of module the worker may import. */
+const LOADERS: Record<string, "ts" | "js" | "json"> = { ".ts": "ts", ".mts": "ts", ".cts": "ts", ".js": "js", ".mjs": "js", ".cjs": "js", ".json": "json" };
+
 /** The worker's entry module. */
 const WORKER_ENTRY = fileURLToPath(new URL("./worker.ts", import.meta.url));
 
@@ -89,6 +92,7 @@ function digestOfContents(files: { path: string; bytes: Uint8Array }[]): string 
   return hash.digest("hex");
 }
 
+/** Digest of the files at `paths` as they are now, in the form the index records. */
 export function digestOfInputs(paths: string[]): string {
   return digestOfContents(paths.map((p) => ({ path: p, bytes: fs.readFileSync(p) })));
 }
@@ -111,13 +115,13 @@ export function cachedWorkerBundle(indexFile = bundleIndexFile()): string | null
 
 /**
  * worker.ts and what it imports, bundled into one plain JavaScript file by
- * esbuild (the transpiler tsx itself uses), written once per content into this
- * user's private folder under the system's temporary one (privateBundleDir). A worker started on it is ready in tens of
- * milliseconds; one that registers tsx and transpiles on start takes over a
- * second on this machine class, which would cost more than the parallel
- * reading saves. The bundle an earlier process wrote is taken as it is when
- * none of its modules changed (cachedWorkerBundle), which spares esbuild's
- * some 70 ms. Null when bundling is not possible (then tsx is used).
+ * esbuild (the transpiler tsx itself uses), written once per content into
+ * this user's private folder (privateBundleDir). A worker started on it is
+ * ready in tens of milliseconds; one that registers tsx and transpiles on
+ * start takes over a second on this machine class, which would cost more than
+ * the parallel reading saves. The bundle an earlier process wrote is taken as
+ * it is when none of its modules changed (cachedWorkerBundle), sparing the
+ * 70–110 ms esbuild takes. Null when bundling is not possible (then tsx is used).
  */
 export function workerBundle(): Promise<string | null> {
   const cached = bundled === null ? cachedWorkerBundle() : null;
@@ -130,10 +134,11 @@ export function workerBundle(): Promise<string | null> {
       const recordInputs = {
         name: "record-inputs",
         setup(build: import("esbuild").PluginBuild) {
-          build.onLoad({ filter: /\.[cm]?[jt]s$/ }, (args) => {
+          // Every file esbuild loads, whatever its kind, so that none escapes the digest.
+          build.onLoad({ filter: /.*/ }, (args) => {
             const bytes = fs.readFileSync(args.path);
             read.push({ path: args.path, bytes });
-            return { contents: bytes, loader: /\.[cm]?ts$/.test(args.path) ? "ts" : "js" };
+            return { contents: bytes, loader: LOADERS[path.extname(args.path)] ?? "default" };
           });
         },
       };
