@@ -266,9 +266,9 @@ function probeCells(k0: Float64Array, dims: number, rows: number, delay: Float64
 
 /**
  * A set of 53-bit values given as a high 32-bit and a low 21-bit part, for
- * at most `most` values: open addressing in typed arrays, some ten times
- * faster than a Set of the same values as doubles (which V8 keeps as heap
- * numbers) in the probe's bisection.
+ * at most `most` values: open addressing in typed arrays, which spares the
+ * probe's bisection a Set of the same values as doubles (V8 keeps values
+ * beyond 2^31 as heap numbers there).
  */
 class HashSet53 {
   size = 0;
