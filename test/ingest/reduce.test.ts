@@ -47,29 +47,38 @@ interface Scenario {
   declared: { TA: number; TB: number; muA: number };
 }
 
-function auditFor(s: Scenario, seed: string): string {
-  const { W, Q, dN } = sampleTilted(s.drawn, s.rows, rngFromText(seed));
-  const lines = [s.header];
-  for (let i = 0; i < s.rows; i++) lines.push(s.line(W[i], Q[i], dN[i]));
-  return tempAudit(
-    `id: reduce-${s.name}
-title: Reduction test ${s.name}
+/** audit.yaml of one `samples` dataset `runs` (data/runs.csv, meV) at reservoirs (TA, TB, μ_A) in K and meV, all checks. */
+function runsAuditYaml(name: string, columns: string, declared: Scenario["declared"], work: Scenario["work"]): string {
+  return `id: reduce-${name}
+title: Reduction test ${name}
 authors: [{ name: "Test Author" }]
 datasets:
   - id: runs
     kind: samples
     file: data/runs.csv
-    columns: ${s.columns}
+    columns: ${columns}
     energy_unit: meV
     reservoirs:
-      A: { T: ${s.declared.TA}, mu: ${s.declared.muA} }
-      B: { T: ${s.declared.TB}, mu: 0 }
+      A: { T: ${declared.TA}, mu: ${declared.muA} }
+      B: { T: ${declared.TB}, mu: 0 }
     tau: 1.0e-9
-    work: ${s.work}
+    work: ${work}
 checks: all
-`,
-    { "data/runs.csv": `${lines.join("\n")}\n` },
-  );
+`;
+}
+
+function auditFor(s: Scenario, seed: string): string {
+  const { W, Q, dN } = sampleTilted(s.drawn, s.rows, rngFromText(seed));
+  const lines = [s.header];
+  for (let i = 0; i < s.rows; i++) lines.push(s.line(W[i], Q[i], dN[i]));
+  return tempAudit(runsAuditYaml(s.name, s.columns, s.declared, s.work), { "data/runs.csv": `${lines.join("\n")}\n` });
+}
+
+/** Σ over a dataset's rows or cells of multiplicity × f(i). */
+function weightedTotal(d: SamplesDataset, f: (i: number) => number): number {
+  let s = 0;
+  for (let i = 0; i < d.sigma.length; i++) s += (d.weight ? d.weight[i] : 1) * f(i);
+  return s;
 }
 
 async function loadBoth(dir: string, file = "data/runs.csv"): Promise<{ exact: SamplesDataset; reduced: SamplesDataset; definition: ReturnType<typeof loadAuditDefinition> }> {
@@ -433,25 +442,20 @@ describe("cell summary of a samples file", () => {
     expect(reduced.rows).toBe(exact.rows);
     expect(reduced.realisations).toBe(exact.rows);
     expect(reduced.sha256).toBe(exact.sha256);
-    const total = (d: SamplesDataset, f: (i: number) => number) => {
-      let s = 0;
-      for (let i = 0; i < d.sigma.length; i++) s += (d.weight ? d.weight[i] : 1) * f(i);
-      return s;
-    };
     const why = "kept exactly by construction; rtol 1e-10 allows for the different order of additions";
-    expectClose(total(reduced, (i) => reduced.Q[i]), total(exact, (i) => exact.Q[i]), { rtol: 1e-10, source: why });
-    expectClose(total(reduced, (i) => reduced.W[i]), total(exact, (i) => exact.W[i]), { rtol: 1e-10, source: why });
-    expectClose(total(reduced, (i) => reduced.dN[i]), total(exact, (i) => exact.dN[i]), { atol: 1e-6, source: why });
-    expectClose(total(reduced, (i) => Math.exp(-reduced.sigma[i])), total(exact, (i) => Math.exp(-exact.sigma[i])), { rtol: 1e-10, source: why });
+    expectClose(weightedTotal(reduced, (i) => reduced.Q[i]), weightedTotal(exact, (i) => exact.Q[i]), { rtol: 1e-10, source: why });
+    expectClose(weightedTotal(reduced, (i) => reduced.W[i]), weightedTotal(exact, (i) => exact.W[i]), { rtol: 1e-10, source: why });
+    expectClose(weightedTotal(reduced, (i) => reduced.dN[i]), weightedTotal(exact, (i) => exact.dN[i]), { atol: 1e-6, source: why });
+    expectClose(weightedTotal(reduced, (i) => Math.exp(-reduced.sigma[i])), weightedTotal(exact, (i) => Math.exp(-exact.sigma[i])), { rtol: 1e-10, source: why });
     // Second moments: the cells' means plus the kept within-cell scatter give the raw variances
     // (law of total variance), the covariance too.
     for (const [name, ofD] of [["Q", (d: SamplesDataset) => d.Q], ["W", (d: SamplesDataset) => d.W], ["dN", (d: SamplesDataset) => d.dN]] as const) {
       expectClose(currentMoments(reduced, ofD(reduced), name).variance, weightedMoments(ofD(exact)).variance, { rtol: 1e-9, source: `${name}: law of total variance; rounding only` });
     }
     const covariance = (d: SamplesDataset) => {
-      const mq = total(d, (i) => d.Q[i]) / d.realisations;
-      const mw = total(d, (i) => d.W[i]) / d.realisations;
-      return (total(d, (i) => (d.Q[i] - mq) * (d.W[i] - mw)) + withinCellScatter(d, "Q", "W")) / d.realisations;
+      const mq = weightedTotal(d, (i) => d.Q[i]) / d.realisations;
+      const mw = weightedTotal(d, (i) => d.W[i]) / d.realisations;
+      return (weightedTotal(d, (i) => (d.Q[i] - mq) * (d.W[i] - mw)) + withinCellScatter(d, "Q", "W")) / d.realisations;
     };
     expectClose(covariance(reduced), covariance(exact), { rtol: 1e-9, source: "Cov(Q, W): law of total covariance; rounding only" });
     // Each cell's Σ lies within the Σ range of its realisations, which the reduction reports.
@@ -482,22 +486,7 @@ describe("cell summary of a samples file", () => {
       counts.set(line, (counts.get(line) ?? 0) + 1);
     }
     expect(counts.size).toBeLessThan(rows.length / 2);
-    const head = (columns: string) => `id: reduce-histogram
-title: Reduction test histogram
-authors: [{ name: "Test Author" }]
-datasets:
-  - id: runs
-    kind: samples
-    file: data/runs.csv
-    columns: ${columns}
-    energy_unit: meV
-    reservoirs:
-      A: { T: 1.3, mu: 0.05 }
-      B: { T: 1.0, mu: 0 }
-    tau: 1.0e-9
-    work: measured
-checks: all
-`;
+    const head = (columns: string) => runsAuditYaml("histogram", columns, { TA: 1.3, TB: 1.0, muA: 0.05 }, "measured");
     const plainDir = tempAudit(head("{ W: W, Q: Q, dN: dN }"), { "data/runs.csv": `W,Q,dN\n${rows.join("\n")}\n` });
     const histogramDir = tempAudit(head("{ W: W, Q: Q, dN: dN, count: n }"), {
       "data/runs.csv": `W,Q,dN,n\n${[...counts].map(([line, n]) => `${line},${n}`).join("\n")}\n`,
@@ -523,10 +512,8 @@ checks: all
     expect(small.sigma.length).toBeLessThanOrEqual(2000);
     expect(small.realisations).toBe(60_000);
     const { exact } = await loadBoth(dir);
-    let e = 0;
-    let r = 0;
-    for (let i = 0; i < exact.sigma.length; i++) e += Math.exp(-exact.sigma[i]);
-    for (let i = 0; i < small.sigma.length; i++) r += small.weight![i] * Math.exp(-small.sigma[i]);
+    const r = weightedTotal(small, (i) => Math.exp(-small.sigma[i]));
+    const e = weightedTotal(exact, (i) => Math.exp(-exact.sigma[i]));
     expectClose(r, e, { rtol: 1e-10, source: "sum of e^−Σ is kept exactly at every level" });
   });
 
@@ -539,22 +526,7 @@ checks: all
     const rng = rngFromText("reduce:many-counts");
     const lines = ["W,Q,dN"];
     for (let i = 0; i < 60_000; i++) lines.push(`${(0.1 * rng.normal()).toFixed(6)},${(0.3 * rng.normal()).toFixed(6)},${Math.round(5000 * rng.normal())}`);
-    const yaml = `id: reduce-many-counts
-title: Reduction test with many distinct counts
-authors: [{ name: "Test Author" }]
-datasets:
-  - id: runs
-    kind: samples
-    file: data/runs.csv
-    columns: { W: W, Q: Q, dN: dN }
-    energy_unit: meV
-    reservoirs:
-      A: { T: 1.3, mu: 0.000001 }
-      B: { T: 1.0, mu: 0 }
-    tau: 1.0e-9
-    work: measured
-checks: all
-`;
+    const yaml = runsAuditYaml("many-counts", "{ W: W, Q: Q, dN: dN }", { TA: 1.3, TB: 1.0, muA: 0.000001 }, "measured");
     const many = tempAudit(yaml, { "data/runs.csv": `${lines.join("\n")}\n` });
     const config = loadAuditDefinition(many).datasets[0] as SamplesDatasetConfig;
     const file = path.join(many, "data/runs.csv");
@@ -567,18 +539,10 @@ checks: all
     // The report's assumption says how wide the count cells are, not "equal ΔN".
     expect(describeReduction(reduced)).toContain(`ΔN in cells of ${reduced.reduction!.steps.dN} counts`);
     expect(describeReduction(exact)).toBeNull();
-    let e = 0;
-    let r = 0;
-    let nExact = 0;
-    let nReduced = 0;
-    for (let i = 0; i < exact.sigma.length; i++) {
-      e += Math.exp(-exact.sigma[i]);
-      nExact += exact.dN[i];
-    }
-    for (let i = 0; i < reduced.sigma.length; i++) {
-      r += reduced.weight![i] * Math.exp(-reduced.sigma[i]);
-      nReduced += reduced.weight![i] * reduced.dN[i];
-    }
+    const r = weightedTotal(reduced, (i) => Math.exp(-reduced.sigma[i]));
+    const e = weightedTotal(exact, (i) => Math.exp(-exact.sigma[i]));
+    const nReduced = weightedTotal(reduced, (i) => reduced.dN[i]);
+    const nExact = weightedTotal(exact, (i) => exact.dN[i]);
     expectClose(r, e, { rtol: 1e-10, source: "sum of e^−Σ is kept exactly at every level" });
     expectClose(nReduced, nExact, { rtol: 1e-9, atol: 1e-6, source: "the total count is kept (cell means times multiplicities; rounding only)" });
     fs.rmSync(many, { recursive: true, force: true });
