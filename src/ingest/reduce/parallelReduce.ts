@@ -69,8 +69,7 @@ export function privateBundleDir(base = os.tmpdir()): string | null {
  * without waiting for esbuild, when none of those modules changed. Null
  * without a private folder.
  */
-function bundleIndexFile(): string | null {
-  const dir = privateBundleDir();
+function bundleIndexFile(dir = privateBundleDir()): string | null {
   if (dir === null) return null;
   const id = createHash("sha256").update(WORKER_ENTRY).digest("hex").slice(0, 16);
   return path.join(dir, `transport-audit-reduce-worker-index-${id}.json`);
@@ -166,7 +165,7 @@ export function workerBundle(): Promise<string | null> {
       }
       read.sort((a, b) => (a.path < b.path ? -1 : a.path > b.path ? 1 : 0));
       const index: BundleIndex = { bundle: file, inputs: read.map((r) => r.path), digest: digestOfContents(read) };
-      const indexFile = bundleIndexFile()!;
+      const indexFile = bundleIndexFile(dir)!;
       fs.writeFileSync(indexFile + temp, JSON.stringify(index));
       fs.renameSync(indexFile + temp, indexFile);
       return file;
