@@ -9,6 +9,7 @@ import { fmt, fmtInterval, notApplicableResult, numberOption, perDataset } from 
 import type { CheckContext, CheckDefinition, CheckResult, Status, TableSpec } from "../types.ts";
 import { binnedLogRatio, type LogRatio } from "./binnedLogRatio.ts";
 import { jointHistogramPlot, logRatioPlot, mirrorHistogramPlot } from "./plots.ts";
+import { mirrorSymmetryResult } from "./mirrorSymmetry.ts";
 
 /** Fewer negative-Σ realisations than this cannot pin the slope (the rare side carries the information). */
 export const MIN_NEGATIVE = 20;
@@ -198,13 +199,14 @@ export function exchangeFluctuationForDataset(d: SamplesDataset, ctx: CheckConte
     if (sigma[i] < 0) negative += w;
     else if (sigma[i] > 0) positive += w;
   }
+  // Σ ≡ 0 (the zero-affinity point of a sweep): the relation is the mirror symmetry P(z) = P(−z), tested as such.
+  if (negative + positive === 0) return mirrorSymmetryResult(d, ctx.settings, margin, assumptionsFor(d));
 
   // (1) Contracted relation: slope c of ln P(Σ)/P(−Σ), fitted without bins.
-  const sigmaVaries = negative + positive > 0;
-  const contracted: LogisticFit | null = sigmaVaries ? fitExchangeLogistic([sigma], weight) : null;
-  const slopeOk = contracted?.status === "converged";
-  const slope = slopeOk ? contracted!.coefficients[0] : Number.NaN;
-  const slopeSe = slopeOk ? contracted!.standardErrors[0] : Number.NaN;
+  const contracted: LogisticFit = fitExchangeLogistic([sigma], weight);
+  const slopeOk = contracted.status === "converged";
+  const slope = slopeOk ? contracted.coefficients[0] : Number.NaN;
+  const slopeSe = slopeOk ? contracted.standardErrors[0] : Number.NaN;
   const slopeCi: [number, number] = [slope - z * slopeSe, slope + z * slopeSe];
   const cubic = slopeOk ? logisticScoreTest(contracted!, [sigma], [cubed(sigma)], weight) : null;
   const ratio: LogRatio = binnedLogRatio(sigma, weight, minBinCount, d.reduction?.steps.sigma ?? null);
@@ -270,23 +272,19 @@ export function exchangeFluctuationForDataset(d: SamplesDataset, ctx: CheckConte
   } else if (rejected.length > 0) {
     status = "fail";
     summary = `The exchange fluctuation relation is violated: ${rejected.map((t) => t.describe).join("; ")} (Holm-adjusted p ≤ ${alpha}).${effectiveText}${identText}`;
-  } else if (!sigmaVaries) {
-    status = "inconclusive";
-    summary = "Σ is zero in every realisation, so the contracted relation P(Σ)/P(−Σ) = e^Σ says nothing.";
-    reason = "The declared affinities make Σ vanish (or no energy or particles were exchanged); the relation is tested by data with non-zero Σ.";
-  } else if (negative >= MIN_NEGATIVE && positive < negative && contracted?.status === "separable") {
+  } else if (negative >= MIN_NEGATIVE && positive < negative && contracted.status === "separable") {
     // The mirror image of the usual shortage: Σ < 0 in (nearly) every realisation, so P(Σ) has no partner P(−Σ).
     status = "inconclusive";
     summary = `${positive === 0 ? "No realisation has" : `Only ${fmt(positive)} of ${n} realisations ${positive === 1 ? "has" : "have"}`} Σ > 0 while ${fmt(negative)} have Σ < 0: without mirrored events the slope of ln P(Σ)/P(−Σ) cannot be estimated.`;
     reason = `The ratio needs realisations of both signs. Σ < 0 in nearly every run contradicts the declared affinities (are reservoirs A and B, or the sign of Q, swapped?); the second-law check judges the mean.`;
-  } else if (negative < MIN_NEGATIVE || contracted?.status === "separable") {
+  } else if (negative < MIN_NEGATIVE || contracted.status === "separable") {
     status = "inconclusive";
     summary = `Only ${fmt(negative)} of ${n} realisations have Σ < 0: too few to estimate the slope of ln P(Σ)/P(−Σ).`;
     reason = `At least ${MIN_NEGATIVE} realisations with negative Σ are needed; a shorter contact time or smaller affinities make them more frequent, or record about ${Math.ceil((MIN_NEGATIVE / Math.max(negative, 0.5)) * n).toLocaleString("en")} runs.`;
   } else if (!slopeOk) {
     status = "inconclusive";
     summary = "The slope of ln P(Σ)/P(−Σ) could not be estimated.";
-    reason = `${contracted?.message ?? "The fit failed"}; please report this dataset if it has many realisations of both signs.`;
+    reason = `${contracted.message ?? "The fit failed"}; please report this dataset if it has many realisations of both signs.`;
   } else if (ident.basis.length > 0 && !jointOk) {
     // The channels left are linearly independent in the data, so this is a fit that more data can rescue.
     status = "inconclusive";
