@@ -11,6 +11,7 @@ import type { CheckContext, CheckDefinition, CheckResult, Status, TableSpec } fr
 import { binnedLogRatio, type LogRatio } from "./binnedLogRatio.ts";
 import { jointHistogramPlot, logRatioPlot, mirrorHistogramPlot } from "./plots.ts";
 import { mirrorSymmetryResult } from "./mirrorSymmetry.ts";
+import { marginOption, countOption } from "../options.ts";
 
 /** Fewer negative-Σ realisations than this cannot pin the slope (the rare side carries the information). */
 export const MIN_NEGATIVE = 20;
@@ -415,6 +416,7 @@ export const exchangeFluctuation: CheckDefinition = {
   id: "exchange-fluctuation",
   title: "Detailed exchange fluctuation relation",
   verdictBearing: true,
+  options: { margin: marginOption, min_bin_count: countOption(5) },
   run: perDataset("samples", exchangeFluctuationForDataset),
 };
 

@@ -196,5 +196,6 @@ export const figuresOfMerit: CheckDefinition = {
   id: "figures-of-merit",
   title: "Figures of merit: ZT, efficiencies and the field asymmetry",
   verdictBearing: false,
+  options: {},
   run: perDataset("coefficients", figuresOfMeritForDataset),
 };

@@ -21,6 +21,7 @@ import {
 } from "./responseFit.ts";
 import { judgeComparisons, relationSentence, type Comparison, type RelationId } from "./relations.ts";
 import { entryUnit, fluxUnit, sliceplots, texColumn, texMatrix, texUnits } from "./presentation.ts";
+import { marginOption } from "../options.ts";
 
 const REFERENCES = [
   "D. Andrieux and P. Gaspard, J. Chem. Phys. 121, 6167 (2004)",
@@ -349,5 +350,6 @@ export const fluctuationDissipation: CheckDefinition = {
   id: "fluctuation-dissipation",
   title: "Fluctuation–dissipation across an affinity sweep: Onsager matrices from means and from fluctuations",
   verdictBearing: true,
+  options: { margin: marginOption },
   run: runFluctuationDissipation,
 };

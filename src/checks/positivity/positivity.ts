@@ -301,5 +301,6 @@ export const positivity: CheckDefinition = {
   id: "positivity",
   title: "Positivity: the symmetric part of the Onsager matrix",
   verdictBearing: true,
+  options: {},
   run: perDataset("coefficients", positivityForDataset),
 };

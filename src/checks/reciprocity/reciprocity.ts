@@ -19,6 +19,7 @@ import { fmt, numberOption, perDataset } from "../helpers.ts";
 import type { CheckContext, CheckDefinition, CheckResult, Status, TableSpec } from "../types.ts";
 import type { PlotSpec, Series } from "../plotSpec.ts";
 import { engineeringScale, groupBy, pointLabel, sortedBy, sweepAxisLabel } from "./points.ts";
+import { fractionMarginOption, positiveOption } from "../options.ts";
 
 /** One tested relation X = Y at one operating point. */
 export interface Comparison {
@@ -596,5 +597,6 @@ export const reciprocity: CheckDefinition = {
   id: "reciprocity",
   title: "Reciprocity: Onsager–Casimir relations and the Kelvin relation",
   verdictBearing: true,
+  options: { margin: fractionMarginOption, dof: positiveOption },
   run: perDataset("coefficients", reciprocityForDataset),
 };
