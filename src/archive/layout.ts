@@ -1,7 +1,7 @@
 import fs from "node:fs";
 import path from "node:path";
 import { ArchiveError } from "../errors.ts";
-import { STAGING_PREFIX } from "../output/staging.ts";
+import { STAGING_PREFIX, removeStaleStaging } from "../output/staging.ts";
 
 /** Where published versions live inside an audit folder (contract: `versions/<N>/`). */
 export const VERSIONS_DIR = "versions";
@@ -59,4 +59,17 @@ export function listVersionNumbers(auditDir: string): number[] {
     .filter((e) => e.isDirectory() && /^[1-9]\d*$/.test(e.name))
     .map((e) => Number(e.name))
     .sort((a, b) => a - b);
+}
+
+/**
+ * Remove the staging folders a killed publish left in `versions/` (their
+ * owning process is gone); nothing when `versions` is missing or a link.
+ */
+export function removeStaleVersionStaging(auditDir: string): string[] {
+  try {
+    if (!fs.lstatSync(versionsDir(auditDir)).isDirectory()) return [];
+  } catch {
+    return [];
+  }
+  return removeStaleStaging(versionsDir(auditDir));
 }

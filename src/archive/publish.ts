@@ -8,9 +8,9 @@ import type { ResultDocument } from "../report/resultDocument.ts";
 import { resultDocumentOf, runChecks } from "../report/runAudit.ts";
 import { sha256Of } from "./digest.ts";
 import { checkArchive } from "./integrity.ts";
-import { DEFINITION_FILE, LOCK_FILE, MANIFEST_FILE, RESULT_FILE, VERSIONS_DIR, refuseLinkedVersions, versionDir, versionsDir } from "./layout.ts";
+import { DEFINITION_FILE, LOCK_FILE, MANIFEST_FILE, RESULT_FILE, VERSIONS_DIR, refuseLinkedVersions, removeStaleVersionStaging, versionDir, versionsDir } from "./layout.ts";
 import { acquireLock } from "./lock.ts";
-import { makeStagingDir, removeStaleStaging } from "../output/staging.ts";
+import { makeStagingDir } from "../output/staging.ts";
 import { faultPoint } from "../output/faults.ts";
 import { onInterrupt } from "../interrupt/cancellation.ts";
 import { MANIFEST_FORMAT, manifestText, type VersionManifest } from "./manifest.ts";
@@ -102,7 +102,7 @@ export async function publishAudit(auditDir: string, options: PublishOptions = {
     forget();
   });
   try {
-    removeStaleStaging(versionsDir(auditDir));
+    removeStaleVersionStaging(auditDir);
     const state = checkArchive(auditDir);
     if (state.problems.length > 0) {
       throw new ArchiveError(

@@ -33,8 +33,11 @@ export function refuseOutInArchive(out: string, places: ArchivePlaces): void {
   if (isWithin(root, target)) {
     throw new PathError(`${said}: ${target === root ? "is" : "contains"} the archive root ${places.root}; the site is written into a folder of its own (for example ${path.join(places.root, "site")}), which build replaces whole`);
   }
+  if (isWithin(audits, target)) {
+    throw new PathError(`${said}: ${target === audits ? "is" : "contains"} the audits folder ${places.auditsDir}; the site is written into a folder of its own (for example ${path.join(places.root, "site")}), which build replaces whole`);
+  }
   if (isWithin(target, audits)) {
-    throw new PathError(`${said}: ${target === audits ? "is" : "lies inside"} the audits folder ${places.auditsDir}; the site must be written outside the audits (for example ${path.join(places.root, "site")})`);
+    throw new PathError(`${said}: lies inside the audits folder ${places.auditsDir}; the site must be written outside the audits (for example ${path.join(places.root, "site")})`);
   }
   for (const folder of places.auditFolders) {
     const real = realPathOf(folder);

@@ -19,7 +19,7 @@ import { removeStaleStaging } from "../output/staging.ts";
 import { isWithin } from "../output/paths.ts";
 import { faultPoint } from "../output/faults.ts";
 import { onInterrupt } from "../interrupt/cancellation.ts";
-import { versionsDir } from "../archive/layout.ts";
+import { removeStaleVersionStaging } from "../archive/layout.ts";
 
 const PROJECT_ROOT = path.resolve(path.dirname(fileURLToPath(import.meta.url)), "..", "..");
 const TEMPLATES = path.join(PROJECT_ROOT, "templates");
@@ -188,7 +188,7 @@ export async function buildSite(options: BuildOptions): Promise<BuildOutcome> {
     let stored: ReturnType<typeof checkArchive>;
     try {
       stored = checkArchive(folder);
-      removeStaleStaging(versionsDir(folder));
+      removeStaleVersionStaging(folder);
     } catch (err) {
       // A versions folder that cannot be trusted at all (a symbolic link elsewhere): the audit is left off the site.
       if (!(err instanceof InputError)) throw err;
