@@ -120,10 +120,11 @@ function confinedSitePath(out: string, relative: string): string {
   return target;
 }
 
-/** Every page's permalink stays inside the output folder (checked before Eleventy writes anything). */
+/** Every page's permalink and every download stays inside the output folder (checked before Eleventy writes anything). */
 function refuseEscapingPages(out: string, data: SiteData): void {
   for (const a of data.audits) confinedSitePath(out, `${a.id}/index.html`);
   for (const p of [...(data.versionPages ?? []), ...(data.draftPages ?? [])]) confinedSitePath(out, p.versioning?.path ?? `${p.id}/index.html`);
+  for (const f of data.files ?? []) confinedSitePath(out, f.path);
 }
 
 /** Render pages with Eleventy from prepared models. */
