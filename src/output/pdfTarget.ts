@@ -54,7 +54,8 @@ export async function writeFileReplacing(out: string, bytes: Uint8Array, step: s
   const temporary = path.join(path.dirname(out), `.${path.basename(out)}.${process.pid}.partial`);
   const forget = onInterrupt(() => fs.rmSync(temporary, { force: true }));
   try {
-    fs.writeFileSync(temporary, bytes, { flag: "wx" });
+    fs.rmSync(temporary, { force: true }); // left by a killed process that had this id
+    fs.writeFileSync(temporary, bytes, { flag: "wx" }); // never through a link planted under that name
     await faultPoint(step, temporary);
     fs.renameSync(temporary, out);
   } finally {
