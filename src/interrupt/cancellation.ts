@@ -46,6 +46,8 @@ export function installInterruptHandlers(): void {
     if (stopping) process.exit(SIGNAL_EXIT_STATUS[signal]);
     stopping = true;
     runInterruptCleanups();
+    // A progress bar hides the terminal's cursor while it draws (ANSI DECTCEM); give it back.
+    if (process.stderr.isTTY) process.stderr.write("\x1b[?25h");
     process.stderr.write(`\nstopped by ${signal}; unfinished output removed\n`);
     process.exit(SIGNAL_EXIT_STATUS[signal]);
   };
