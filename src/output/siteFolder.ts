@@ -62,12 +62,33 @@ export function refuseForeignOut(out: string, force: boolean): void {
   const said = `--out ${out}`;
   if (stat.isSymbolicLink()) throw new PathError(`${said}: is a symbolic link (to ${fs.readlinkSync(out)}); build replaces the output folder whole, so name the folder itself`);
   if (!stat.isDirectory()) throw new PathError(`${said}: is a file, not a folder; build writes a folder of pages, so name a new or empty folder`);
-  if (force || fs.existsSync(path.join(out, SITE_STAMP_FILE))) return;
+  if (force || fs.existsSync(path.join(out, SITE_STAMP_FILE)) || isUnstampedSite(out)) return;
   if (fs.readdirSync(out).length === 0) return;
   throw new PathError(
     `${said}: holds files that transport-audit build did not write (no ${SITE_STAMP_FILE} in it), and build replaces the whole folder. ` +
       `Name a new or empty folder, or pass --force to replace this one and everything in it`,
   );
+}
+
+/**
+ * A site written before build stamped its output: its index page names this
+ * tool as its generator (templates/_includes/base.njk), so replacing it loses
+ * nothing the user wrote there that a stamped site would keep.
+ */
+function isUnstampedSite(out: string): boolean {
+  let head: string;
+  try {
+    const fd = fs.openSync(path.join(out, "index.html"), "r");
+    try {
+      const buffer = Buffer.alloc(4096);
+      head = buffer.toString("utf8", 0, fs.readSync(fd, buffer, 0, buffer.length, 0));
+    } finally {
+      fs.closeSync(fd);
+    }
+  } catch {
+    return false;
+  }
+  return head.includes(`<meta name="generator" content="${TOOL.name} `);
 }
 
 /** A fresh staging folder beside `out`, on the same file system, so that the finished site can be renamed into place. */

@@ -108,6 +108,24 @@ describe("build --out a folder build did not write", () => {
   });
 });
 
+describe("build --out a site built before sites were stamped", () => {
+  it("replaces a folder whose index page names transport-audit as its generator, and refuses one whose page does not", async () => {
+    const a = makeTempArchive();
+    const out = path.join(a.root, "site");
+    expect((await cli(["build", "--root", a.root, "--out", out])).code).toBe(0);
+    fs.rmSync(path.join(out, SITE_STAMP_FILE)); // as an earlier version of the tool left it
+    expect((await cli(["build", "--root", a.root, "--out", out])).code).toBe(0);
+    expect(fs.existsSync(path.join(out, SITE_STAMP_FILE))).toBe(true);
+
+    const other = path.join(a.root, "homepage");
+    fs.mkdirSync(other);
+    fs.writeFileSync(path.join(other, "index.html"), '<!doctype html><meta name="generator" content="a hand-written page">\n');
+    const r = await cli(["build", "--root", a.root, "--out", other]);
+    expect(r.code).toBe(2);
+    expect(fs.readdirSync(other)).toEqual(["index.html"]);
+  });
+});
+
 describe("build on a full disk", () => {
   it("keeps the old site whole, removes the staged one and says which file and why in one line (exit 2)", async () => {
     const a = makeTempArchive();
