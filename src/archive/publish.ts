@@ -10,7 +10,7 @@ import { sha256Of } from "./digest.ts";
 import { checkArchive } from "./integrity.ts";
 import { DEFINITION_FILE, LOCK_FILE, MANIFEST_FILE, RESULT_FILE, STAGING_PREFIX, VERSIONS_DIR, versionDir, versionsDir } from "./layout.ts";
 import { acquireLock } from "./lock.ts";
-import { MANIFEST_FORMAT, manifestText, type VersionManifest } from "./manifest.ts";
+import { MANIFEST_FORMAT, manifestText, sealManifest, type VersionManifest } from "./manifest.ts";
 
 /** Points in a publish at which a test can inject a failure. */
 export type PublishStep = "staged-result" | "staged-definition" | "staged-manifest" | "before-rename" | "after-rename";
@@ -105,7 +105,7 @@ export async function publishAudit(auditDir: string, options: PublishOptions = {
       );
     }
     const number = latest ? latest.number + 1 : 1;
-    const manifest: VersionManifest = {
+    const manifest: VersionManifest = sealManifest({
       format: MANIFEST_FORMAT,
       audit: result.audit,
       version: number,
@@ -116,7 +116,7 @@ export async function publishAudit(auditDir: string, options: PublishOptions = {
       inputs: result.datasets.map((d) => ({ id: d.id, file: d.file, sha256: d.sha256, rows: d.rows })),
       files: { "result.json": sha256Of(resultText), "audit.yaml": sha256Of(definitionText) },
       previous: latest ? { version: latest.number, digest: latest.manifestDigest } : null,
-    };
+    });
     staging = fs.mkdtempSync(path.join(versionsDir(auditDir), STAGING_PREFIX));
     fs.chmodSync(staging, 0o755); // mkdtemp makes it private; a published version is for everyone to read
     writeDurable(path.join(staging, RESULT_FILE), resultText);
