@@ -2,6 +2,7 @@ import { z } from "zod";
 import { CHECK_IDS } from "../checks/types.ts";
 import { nearest } from "./nearest.ts";
 import { datasetId, slug, text } from "./common.ts";
+import { doiSchema } from "./identifiers.ts";
 import { samplesDatasetSchema } from "./samplesSchema.ts";
 import { coefficientsDatasetSchema } from "./coefficientsSchema.ts";
 import { cumulantsDatasetSchema } from "./cumulantsSchema.ts";
@@ -51,7 +52,7 @@ export const auditSchema = z
     description: z.string({ invalid_type_error: "must be Markdown text" }).optional(),
     device: text().optional(),
     date: z.string().regex(/^\d{4}-\d{2}-\d{2}$/, "must be a date written YYYY-MM-DD").optional(),
-    doi: z.string().regex(/^10\.\d{4,9}\/\S+$/, "must be a DOI such as 10.5281/zenodo.1234567").optional(),
+    doi: doiSchema.optional(),
     keywords: z.array(text()).optional(),
     settings: settingsSchema,
     datasets: z.array(datasetSchema).min(1, "must list at least one dataset"),
