@@ -3,7 +3,7 @@ import path from "node:path";
 import { z } from "zod";
 import { text } from "./common.ts";
 import { webAddress } from "./identifiers.ts";
-import { parseLocatedYaml } from "./yamlDocument.ts";
+import { checkYamlSize, parseLocatedYaml } from "./yamlDocument.ts";
 import { validateLocated } from "./validate.ts";
 
 /** archive.yaml at the archive root: who publishes the audits and where. */
@@ -30,5 +30,6 @@ export const ARCHIVE_FILE = "archive.yaml";
 export function loadArchiveDefinition(root: string): ArchiveDefinition {
   const file = path.join(root, ARCHIVE_FILE);
   if (!fs.existsSync(file)) return { name: "Transport audits", publisher: "unpublished", license: "CC-BY-4.0" };
+  checkYamlSize(ARCHIVE_FILE, fs.statSync(file).size);
   return validateLocated(archiveSchema, parseLocatedYaml(ARCHIVE_FILE, fs.readFileSync(file, "utf8")));
 }

@@ -43,7 +43,7 @@ describe("DOIs in audit.yaml", () => {
     ["an empty suffix", '"10.1234/"', '"10.1234/"'],
     ["white space in the suffix", '"10.1234/a b"', '"10.1234/a b"'],
     ["a line break in the suffix", '"10.1234/a\\nb"', '"10.1234/a\\nb"'],
-    ["a character that reverses the text after it (U+202E)", '"10.1234/a\\u202Eb"', '"10.1234/a\u202Eb"'],
+    ["a character that reverses the text after it (U+202E), shown escaped", '"10.1234/a\\u202Eb"', '"10.1234/a\\u202eb"'],
     ["a backslash", '"10.1234/a\\\\b"', '"10.1234/a\\\\b"'],
     ["a double quote", "'10.1234/a\"b'", '"10.1234/a\\"b"'],
     ["a prefix other than 10.", "11.1234/x", '"11.1234/x"'],
