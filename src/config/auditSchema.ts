@@ -21,6 +21,8 @@ export const MAX_RESAMPLES = 100_000;
 /** Datasets in one audit: every one is read, and group checks compare them pairwise. */
 export const MAX_DATASETS = 1000;
 
+const SEED_EXPECTED = `must be auto (seeded from the data digest) or a whole number from 0 to ${Number.MAX_SAFE_INTEGER}`;
+
 export const settingsSchema = z
   .object({
     alpha: z.number({ invalid_type_error: "must be a number in (0, 0.5)" }).gt(0, "must be in (0, 0.5)").lt(0.5, "must be in (0, 0.5)").default(0.01),
@@ -28,8 +30,8 @@ export const settingsSchema = z
     confidence: z.number({ invalid_type_error: "must be a number in (0.5, 1)" }).gt(0.5, "must be in (0.5, 1)").lt(1, "must be in (0.5, 1)").default(0.95),
     seed: z
       // Above 2^53 − 1 neighbouring integers share a double, so two seeds would give one stream.
-      .union([z.literal("auto"), z.number().int().nonnegative().max(Number.MAX_SAFE_INTEGER)], {
-        errorMap: () => ({ message: `must be auto (seeded from the data digest) or a whole number from 0 to ${Number.MAX_SAFE_INTEGER}` }),
+      .union([z.literal("auto"), z.number().int(SEED_EXPECTED).nonnegative(SEED_EXPECTED).max(Number.MAX_SAFE_INTEGER, SEED_EXPECTED)], {
+        errorMap: () => ({ message: SEED_EXPECTED }),
       })
       .default("auto"),
     resamples: z

@@ -40,4 +40,5 @@ export function isCalendarDate(text: string): boolean {
 export const calendarDate = z
   .string({ invalid_type_error: "must be a date written YYYY-MM-DD" })
   .regex(/^\d{4}-\d{2}-\d{2}$/, "must be a date written YYYY-MM-DD")
-  .refine(isCalendarDate, "must be a date that exists (YYYY-MM-DD; months have 28 to 31 days)");
+  // Only a date in the right form is looked up, so a malformed one gets one message.
+  .refine((t) => !/^\d{4}-\d{2}-\d{2}$/.test(t) || isCalendarDate(t), "must be a date that exists (YYYY-MM-DD; months have 28 to 31 days)");
