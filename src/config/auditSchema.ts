@@ -4,7 +4,7 @@ import { nearest } from "./nearest.ts";
 import { calendarDate, datasetId, slug, text } from "./common.ts";
 import { doiSchema } from "./identifiers.ts";
 import { samplesDatasetSchema } from "./samplesSchema.ts";
-import { coefficientsDatasetSchema } from "./coefficientsSchema.ts";
+import { coefficientsDatasetSchema, undeclaredUnits } from "./coefficientsSchema.ts";
 import { cumulantsDatasetSchema } from "./cumulantsSchema.ts";
 
 const orcid = z
@@ -81,6 +81,8 @@ export const auditSchema = z
   .superRefine((audit, ctx) => {
     const seen = new Map<string, number>();
     audit.datasets.forEach((d, i) => {
+      const unitsProblem = d.kind === "coefficients" ? undeclaredUnits(d) : null;
+      if (unitsProblem) ctx.addIssue({ code: "custom", path: ["datasets", i, "units"], message: unitsProblem, params: { quoteFound: false } });
       const first = seen.get(d.id);
       if (first !== undefined) {
         ctx.addIssue({ code: "custom", path: ["datasets", i, "id"], message: `duplicates the id of datasets[${first}]` });

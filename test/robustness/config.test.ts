@@ -222,7 +222,7 @@ describe("units", () => {
   it("refuses an unknown unit of a coefficient column, naming the key", async () => {
     const yaml = VALID_YAML.replace(
       / {2}- id: run-1[\s\S]*/,
-      "  - id: sweep\n    kind: coefficients\n    file: data/c.csv\n    form: thermoelectric\n    temperature: { value: 4.2 }\n    units: { G: furlong }\n",
+      "  - id: sweep\n    kind: coefficients\n    file: data/c.csv\n    form: thermoelectric\n    temperature: { value: 4.2 }\n    units: { G: furlong, S: V/K, Pi: V, K: W/K }\n",
     );
     const e = await ingestError(auditWith(yaml, { "data/c.csv": "G,S,Pi,K\n1,2,3,4\n" }));
     expect(e).toBeInstanceOf(UnitError);
