@@ -188,6 +188,34 @@ describe("records of format 1 (tool 0.1.0) are checked by their own rule", () =>
     ]);
   });
 
+  it("a version published on top of a format-1 record links to the digest of its bytes, and the mixed chain verifies", async () => {
+    const a = makeTempArchive();
+    await publishAudit(a.auditDir, { now: fixedClock("2026-11-30T09:00:00Z") });
+    const { digest: _d, ...old } = readRecord(a.auditDir, 1);
+    writeRecord(a.auditDir, 1, { ...old, format: "transport-audit-version/1" });
+    const v1Bytes = fs.readFileSync(recordFile(a.auditDir, 1), "utf8");
+    a.writeData(380, 1, "second batch");
+    const second = await publishAudit(a.auditDir, { now: fixedClock("2026-12-01T09:00:00Z") });
+    expect(second.manifest.previous).toEqual({ version: 1, digest: `sha256:${createHash("sha256").update(v1Bytes).digest("hex")}` });
+    expect(second.manifest.format).toBe("transport-audit-version/2");
+    const r = await cli(["verify", a.auditDir]);
+    expect(r.stdout).toContain("hash chain: versions 1 to 2 intact");
+    expect(r.code).toBe(0);
+  });
+
+  it("a format-1 record claiming a tool version that writes format 2 is refused", async () => {
+    const dir = copyOfArchive();
+    asFormat1(dir);
+    writeRecord(dir, 2, editField(readRecord(dir, 2), "tool.version", "0.2.0"));
+    const r = await cli(["verify", dir]);
+    expect(r.code).toBe(1);
+    expect(chainLines(r.stdout)).toEqual([
+      "hash chain (versions 1 to 2): 2 problem(s)",
+      `  versions/2/version.json: field tool.version: expected ${TOOL.version}, found 0.2.0 (as result.json of this version states)`,
+      "  versions/2/version.json: field format: expected transport-audit-version/2, found transport-audit-version/1 (transport-audit 0.2.0 writes format 2; format 1 ended with 0.1.0)",
+    ]);
+  });
+
   it("a format-2 record rewritten as format 1 to escape its digest is refused", async () => {
     const dir = copyOfArchive();
     const { digest: _d, ...record } = readRecord(dir, 2);
