@@ -62,6 +62,7 @@ function latexDecode(text: string): string {
     .replace(/\\textbar\{\}/g, "|")
     .replace(/\\([$&#%_])/g, "$1")
     .replace(/\{(,|and)\}/gi, "$1")
+    .replace(/([-'`!?])\{\}/g, "$1")
     .replace(/\u0000/g, "\\");
 }
 

@@ -24,7 +24,13 @@ const LATEX_COMMAND: Record<string, string> = {
  * Non-ASCII letters stay as UTF-8 (biber and bibtex with inputenc read them).
  */
 export function bibtexText(text: string): string {
-  return text.replace(/[\\{}$&#%_^~<>|]/g, (c) => LATEX_COMMAND[c] ?? `\\${c}`);
+  return (
+    text
+      .replace(/[\\{}$&#%_^~<>|]/g, (c) => LATEX_COMMAND[c] ?? `\\${c}`)
+      // TeX's font ligatures would print `--` as an en dash (so `--version` could not be copied),
+      // `''` and ``` `` ``` as curly quotes, `!`` and `?`` as inverted marks: an empty group breaks them.
+      .replace(/([-'`])(?=\1)|([!?])(?=`)/g, "$1$2{}")
+  );
 }
 
 /**
