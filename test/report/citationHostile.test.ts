@@ -5,6 +5,7 @@
  * YAML 1.2 and its YAML 1.1 mode, for CFF) and every field compared with the
  * value in the result document.
  */
+import { spawnSync } from "node:child_process";
 import bibtexParse from "bibtex-parse";
 import { describe, expect, it } from "vitest";
 import { parse as parseYaml } from "yaml";
@@ -161,6 +162,17 @@ describe("CITATION.cff with hostile text", () => {
 
   it("parses back the same under YAML 1.1 rules, where a plain yes or on would be a boolean", () => {
     expect(parseYaml(citationCff(subject()), { version: "1.1" })).toEqual(expected);
+  });
+
+  // PyYAML (the YAML 1.1 reader of Python's citation tools), where the machine has it; .ci/run: python3-yaml.
+  const pyyaml = spawnSync("python3", ["-c", "import yaml"]).status === 0;
+  it.skipIf(!pyyaml)("parses back the same with PyYAML, a parser written apart from ours", () => {
+    const r = spawnSync("python3", ["-c", "import sys, json, yaml; print(json.dumps(yaml.safe_load(sys.stdin.read())))"], {
+      input: citationCff(subject()),
+      encoding: "utf8",
+    });
+    expect(r.status, r.stderr).toBe(0);
+    expect(JSON.parse(r.stdout)).toEqual(expected);
   });
 });
 
