@@ -5,6 +5,7 @@ import { datasetId, slug, text } from "./common.ts";
 import { samplesDatasetSchema } from "./samplesSchema.ts";
 import { coefficientsDatasetSchema } from "./coefficientsSchema.ts";
 import { cumulantsDatasetSchema } from "./cumulantsSchema.ts";
+import { displaySchema } from "./displaySchema.ts";
 
 const orcid = z
   .string({ invalid_type_error: "must be text" })
@@ -54,6 +55,7 @@ export const auditSchema = z
     doi: z.string().regex(/^10\.\d{4,9}\/\S+$/, "must be a DOI such as 10.5281/zenodo.1234567").optional(),
     keywords: z.array(text()).optional(),
     settings: settingsSchema,
+    display: displaySchema.optional(),
     datasets: z.array(datasetSchema).min(1, "must list at least one dataset"),
     checks: z.union([z.literal("all"), z.array(checkEntry)], {
       errorMap: () => ({ message: "must be all, or a list of check ids" }),

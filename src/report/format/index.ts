@@ -7,3 +7,5 @@ export * from "./quantities.ts";
 export * from "./writtenUnits.ts";
 export * from "./displayUnit.ts";
 export * from "./formatQuantity.ts";
+export * from "./rewriteNumbers.ts";
+export * from "./notation.ts";
