@@ -54,7 +54,8 @@ export function parseDisplayChoice(quantity: Quantity, text: string): { base: st
     const head = base.prefix === "denominator" ? "1/" : "";
     if (!t.startsWith(head) || !t.endsWith(stem)) continue;
     const p = prefixBySymbol(t.slice(head.length, t.length - stem.length));
-    if (p && p.symbol !== "") return { base: name, exponent: p.exponent };
+    const [lo, hi] = base.range ?? [-24, 24];
+    if (p && p.symbol !== "" && p.exponent >= lo && p.exponent <= hi) return { base: name, exponent: p.exponent };
   }
   return undefined;
 }
