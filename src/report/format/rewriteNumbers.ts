@@ -1,4 +1,4 @@
-import type { DisplayContext } from "./displayUnit.ts";
+import type { DisplayContext, DisplayUnit } from "./displayUnit.ts";
 import { displayUnitFor } from "./displayUnit.ts";
 import { numberText } from "./numberText.ts";
 import { valueWithUncertaintyText } from "./formatQuantity.ts";
@@ -7,8 +7,8 @@ import { parseWrittenUnit } from "./writtenUnits.ts";
 
 /*
  * Numbers inside sentences the checks write ("⟨Σ⟩ = 0.3565 ± 0.0011 k_B",
- * "τ = 1e-6 s", "p = 5e-4"), rewritten for a reader: e-notation as ×10ⁿ, a
- * true minus, and a number followed by a unit we understand converted to the
+ * "τ = 1e-6 s", "p = 5e-4"), read for a reader: e-notation as ×10ⁿ, a true
+ * minus, and a number followed by a unit we understand converted to the
  * display unit of its quantity, keeping the significant digits it was written
  * with. Anything else is left exactly as written. A number glued to a letter
  * (`count-2ns`, `lc60`, `L12`) is part of a name and is never touched.
@@ -17,9 +17,30 @@ const UNIT =
   "1/[yzafpnµumk]?eV|[yzafpnµumk]?eV/s|[yzafpnµumk]?eV|[yzafpnµum]?W Ω K⁻²|[yzafpnµum]?W/K²|[yzafpnµum]?W/K|[pnµum]?V/K|[yzafpnµum]?W|[yzafpnµum]?J|[pnµum]?S|[pnµum]?V|[nµum]?K|[yzafpnµum]?s|[µum]?T|1/s|k_B";
 const NUM = "(?<![\\p{L}\\p{N}_.^/])(?<![\\p{L}\\p{N}][-−])(?<sign>[−+-]?)(?<digits>\\d+(?:\\.\\d+)?)(?:e(?<exp>[+−-]?\\d+))?";
 const UNIT_AFTER = `(?:(?<space> ?)(?<unit>${UNIT})(?![\\p{L}\\p{N}_/²⁻]))?(?![\\p{L}\\p{N}_])`;
-const NUMBER = new RegExp(`${NUM}${UNIT_AFTER}`, "gu");
-/** `a ± b unit`: a value and its uncertainty, rounded together as the GUM recommends. */
-const PAIR = new RegExp(`${NUM} ± ${NUM.replaceAll("<sign>", "<usign>").replaceAll("<digits>", "<udigits>").replaceAll("<exp>", "<uexp>")}${UNIT_AFTER}`, "gu");
+/** `a ± b unit` (a value and its uncertainty, rounded together) or a single number, each with an optional unit. */
+const PATTERN = new RegExp(
+  `(?:${NUM} ± ${NUM.replaceAll("<sign>", "<usign>").replaceAll("<digits>", "<udigits>").replaceAll("<exp>", "<uexp>")}|${NUM.replaceAll("<sign>", "<ssign>").replaceAll("<digits>", "<sdigits>").replaceAll("<exp>", "<sexp>")})${UNIT_AFTER}`,
+  "gu",
+);
+
+/** A number read from a sentence, already in its display unit. */
+export interface NumberToken {
+  kind: "number";
+  /** The value in `unit` (or as written, when there is no unit we understand). */
+  value: number;
+  /** Its uncertainty in the same unit, for `a ± b`. */
+  u?: number;
+  /** Significant digits it was written with. */
+  digits: number;
+  /** Written with an explicit plus sign (`B = +1 T`). */
+  plus: boolean;
+  /** The number as written (digits and any exponent, no sign); "" once converted to a display unit. */
+  written: string;
+  unit?: DisplayUnit;
+  /** A unit written after it that we do not convert (`k_B`), kept as written. */
+  unitText?: string;
+}
+export type SentenceToken = { kind: "text"; text: string } | NumberToken;
 
 /** Significant digits as written: `0.003997` has 4, `1e-6` has 1, `120` is taken as 3. */
 function writtenDigits(digits: string): number {
@@ -27,41 +48,59 @@ function writtenDigits(digits: string): number {
   return Math.max(1, d.length);
 }
 
-function rewriteOne(sign: string, digits: string, exp: string | undefined, unit: string | undefined, ctx: DisplayContext): string {
-  const negative = sign === "-" || sign === MINUS;
-  const plus = sign === "+" ? "+" : "";
-  const value = Number(`${negative ? "-" : ""}${digits}e${(exp ?? "0").replace(MINUS, "-")}`);
-  const written = unit ? parseWrittenUnit(unit) : undefined;
-  if (written && written.quantity !== "entropy" && written.quantity !== "dimensionless" && Number.isFinite(value)) {
-    const display = displayUnitFor(written.quantity, Math.abs(value * written.si), ctx);
-    const shown = numberText(value * written.si * display.perSI, writtenDigits(digits));
-    return `${plus}${shown}${THIN}${display.symbol}`;
-  }
-  const text = exp !== undefined ? numberText(value, writtenDigits(digits)) : `${negative ? MINUS : ""}${groupDigits(digits)}`;
-  return `${plus}${text}${unit ? `${THIN}${unit}` : ""}`;
-}
+const numberOf = (sign: string | undefined, digits: string | undefined, exp: string | undefined) =>
+  Number(`${sign === "-" || sign === MINUS ? "-" : ""}${digits}e${(exp ?? "0").replace(MINUS, "-")}`);
 
-function rewritePair(g: Record<string, string | undefined>, ctx: DisplayContext): string {
-  const num = (sign: string | undefined, digits: string | undefined, exp: string | undefined) =>
-    Number(`${sign === "-" || sign === MINUS ? "-" : ""}${digits}e${(exp ?? "0").replace(MINUS, "-")}`);
-  const v = num(g.sign, g.digits, g.exp);
-  const u = num(g.usign, g.udigits, g.uexp);
+function tokenOf(g: Record<string, string | undefined>, ctx: DisplayContext): NumberToken {
+  const pair = g.digits !== undefined;
+  const sign = pair ? g.sign : g.ssign;
+  const digits = (pair ? g.digits : g.sdigits) ?? "0";
+  const exp = pair ? g.exp : g.sexp;
+  let value = numberOf(sign, digits, exp);
+  let u = pair ? numberOf(g.usign, g.udigits, g.uexp) : undefined;
   const written = g.unit ? parseWrittenUnit(g.unit) : undefined;
-  if (!written) return withUnit(valueWithUncertaintyText(v, u), g.unit);
-  const display = displayUnitFor(written.quantity, Math.abs(v * written.si), ctx);
-  const factor = written.si * display.perSI;
-  return withUnit(valueWithUncertaintyText(v * factor, u * factor), display.symbol);
+  const base = { kind: "number" as const, digits: writtenDigits(digits), plus: sign === "+", written: `${digits}${exp !== undefined ? `e${exp}` : ""}` };
+  if (!written || written.quantity === "entropy" || written.quantity === "dimensionless" || !Number.isFinite(value)) {
+    return { ...base, value, ...(u !== undefined ? { u } : {}), ...(g.unit ? { unitText: g.unit } : {}) };
+  }
+  const unit = displayUnitFor(written.quantity, Math.abs(value * written.si), ctx);
+  const factor = written.si * unit.perSI;
+  value *= factor;
+  if (u !== undefined) u *= factor;
+  return { ...base, written: "", value, ...(u !== undefined ? { u } : {}), unit };
 }
 
-function withUnit(pair: string, unit: string | undefined): string {
-  return unit ? `(${pair})${THIN}${unit}` : pair;
+/** A sentence cut into text and the numbers in it, each number in its display unit. */
+export function sentenceTokens(text: string, ctx: DisplayContext = {}): SentenceToken[] {
+  const out: SentenceToken[] = [];
+  let last = 0;
+  for (const m of text.matchAll(PATTERN)) {
+    const at = m.index ?? 0;
+    if (at > last) out.push({ kind: "text", text: text.slice(last, at) });
+    out.push(tokenOf(m.groups ?? {}, ctx));
+    last = at + m[0].length;
+  }
+  if (last < text.length) out.push({ kind: "text", text: text.slice(last) });
+  return out;
+}
+
+/** A number token as text: converted numbers at the digits they were written with, others as written (minus and digit groups aside). */
+export function numberTokenText(t: NumberToken): string {
+  const plus = t.plus ? "+" : "";
+  if (t.u !== undefined) {
+    const unit = t.unit?.symbol ?? t.unitText;
+    const pair = valueWithUncertaintyText(t.value, t.u);
+    return unit ? `${plus}(${pair})${THIN}${unit}` : `${plus}${pair}`;
+  }
+  const keepAsWritten = t.unit === undefined && !t.written.includes("e");
+  const number = keepAsWritten ? `${t.value < 0 ? MINUS : ""}${groupDigits(t.written)}` : numberText(t.value, t.digits);
+  const unit = t.unit ? (t.unit.symbol === "1" ? "" : t.unit.symbol) : t.unitText;
+  return `${plus}${number}${unit ? `${THIN}${unit}` : ""}`;
 }
 
 /** A sentence with its numbers rewritten for print (see above). */
 export function rewriteNumbers(text: string, ctx: DisplayContext = {}): string {
-  const paired = text.replace(PAIR, (...args) => rewritePair(args[args.length - 1] as Record<string, string | undefined>, ctx));
-  return paired.replace(NUMBER, (...args) => {
-    const g = args[args.length - 1] as Record<string, string | undefined>;
-    return rewriteOne(g.sign ?? "", g.digits ?? "", g.exp, g.unit, ctx);
-  });
+  return sentenceTokens(text, ctx)
+    .map((t) => (t.kind === "text" ? t.text : numberTokenText(t)))
+    .join("");
 }
