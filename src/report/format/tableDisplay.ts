@@ -17,6 +17,8 @@ type Column = TableSpec["columns"][number];
 
 /** What a dimensionless numeric column states as its unit (SI Brochure 9th ed. §2.3.3: the unit one, written out). */
 export const DIMENSIONLESS = "dimensionless";
+/** What a numeric column states when each row names its own unit (a `unit` column). */
+export const PER_ROW = "unit as in each row";
 
 /** The column an uncertainty column belongs to: `u(X)` to the column labelled X, "Standard error" to the one before it. */
 function partnerOf(columns: readonly Column[], i: number): number | undefined {
@@ -63,8 +65,9 @@ export function tableDisplay(t: TableSpec, ctx: DisplayContext): TableDisplay {
   });
   const siOf = (c: Column) => (c.unit ? parseWrittenUnit(c.unit)?.si ?? 1 : 1);
   const headers = cols.map((c, i) => {
-    const unitText = units[i]?.symbol ?? c.unit ?? (numeric[i] && !perRowUnit ? DIMENSIONLESS : "");
-    return { label: labelHtml(c.label), unit: unitText === "1" ? DIMENSIONLESS : unitText ? labelHtml(unitText) : "", numeric: numeric[i] };
+    const unitText = units[i]?.symbol ?? c.unit ?? (numeric[i] ? (perRowUnit ? PER_ROW : DIMENSIONLESS) : "");
+    const unit = unitText === "1" ? DIMENSIONLESS : unitText === PER_ROW ? PER_ROW : unitText ? labelHtml(unitText) : "";
+    return { label: labelHtml(c.label), unit, numeric: numeric[i] };
   });
   const rows = t.rows.map((r) => {
     const rowUnit = perRowUnit && typeof r.unit === "string" ? parseWrittenUnit(r.unit) : undefined;
