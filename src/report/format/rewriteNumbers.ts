@@ -17,9 +17,14 @@ const UNIT =
   "1/[yzafpnµumk]?eV|[yzafpnµumk]?eV/s|[yzafpnµumk]?eV|[yzafpnµum]?W Ω K⁻²|[yzafpnµum]?W/K²|[yzafpnµum]?W/K|[pnµum]?V/K|[yzafpnµum]?W|[yzafpnµum]?J|[pnµum]?S|[pnµum]?V|[nµum]?K|[yzafpnµum]?s|[µum]?T|1/s|k_B";
 const NUM = "(?<![\\p{L}\\p{N}_.^/])(?<![\\p{L}\\p{N}][-−])(?<sign>[−+-]?)(?<digits>\\d+(?:\\.\\d+)?)(?:e(?<exp>[+−-]?\\d+))?";
 const UNIT_AFTER = `(?:(?<space> ?)(?<unit>${UNIT})(?![\\p{L}\\p{N}_/²⁻]))?(?![\\p{L}\\p{N}_])`;
-/** `a ± b unit` (a value and its uncertainty, rounded together) or a single number, each with an optional unit. */
+/**
+ * `= a ± b unit` (a value and its uncertainty, rounded together) or a single
+ * number, each with an optional unit. Only a pair that follows `= ` is read as
+ * value and uncertainty: "within 1 ± 0.05" states a margin, which is not
+ * rounded like an uncertainty.
+ */
 const PATTERN = new RegExp(
-  `(?:${NUM} ± ${NUM.replaceAll("<sign>", "<usign>").replaceAll("<digits>", "<udigits>").replaceAll("<exp>", "<uexp>")}|${NUM.replaceAll("<sign>", "<ssign>").replaceAll("<digits>", "<sdigits>").replaceAll("<exp>", "<sexp>")})${UNIT_AFTER}`,
+  `(?:(?<== )${NUM} ± ${NUM.replaceAll("<sign>", "<usign>").replaceAll("<digits>", "<udigits>").replaceAll("<exp>", "<uexp>")}|${NUM.replaceAll("<sign>", "<ssign>").replaceAll("<digits>", "<sdigits>").replaceAll("<exp>", "<sexp>")})${UNIT_AFTER}`,
   "gu",
 );
 
