@@ -8,6 +8,7 @@ import { doiSchema } from "./identifiers.ts";
 import { samplesDatasetSchema } from "./samplesSchema.ts";
 import { coefficientsDatasetSchema, undeclaredUnits } from "./coefficientsSchema.ts";
 import { cumulantsDatasetSchema } from "./cumulantsSchema.ts";
+import { displaySchema } from "./displaySchema.ts";
 
 const orcid = z
   .string({ invalid_type_error: "must be text" })
@@ -71,6 +72,7 @@ export const auditSchema = z
     doi: doiSchema.optional(),
     keywords: z.array(text()).optional(),
     settings: settingsSchema,
+    display: displaySchema.optional(),
     datasets: z
       .array(datasetSchema)
       .min(1, "must list at least one dataset")

@@ -159,7 +159,8 @@ export function resultDocumentOf(audit: IngestedAudit, checks: CheckResult[]): R
     fingerprint: fingerprintOf(audit),
     stamp: stampOf(checks),
     settings: d.settings,
-    datasets: audit.datasets.map((x) => ({ id: x.id, file: x.file, sha256: x.sha256, rows: x.rows })),
+    ...(d.display !== undefined ? { display: d.display } : {}),
+    datasets: audit.datasets.map((x) => ({ id: x.id, file: x.file, sha256: x.sha256, rows: x.rows, ...("energyUnit" in x ? { energy_unit: x.energyUnit.name } : {}) })),
     checks,
   };
 }

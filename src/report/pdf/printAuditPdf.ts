@@ -10,6 +10,7 @@ import { chromiumPath, launchChromium } from "./launchChromium.ts";
 import { footerTemplate, headerTemplate } from "./printTemplates.ts";
 import { refuseUnsafePdfTarget, writeFileReplacing } from "../../output/pdfTarget.ts";
 import { onInterrupt } from "../../interrupt/cancellation.ts";
+import { compactPageHtml } from "./compactPage.ts";
 
 export interface PdfOptions {
   auditDir: string;
@@ -17,6 +18,8 @@ export interface PdfOptions {
   out?: string;
   /** Chromium executable; default TRANSPORT_AUDIT_CHROMIUM or /usr/bin/chromium. */
   chromium?: string;
+  /** The compact form: one page per dataset with its verdicts, key numbers and two most telling plots. */
+  compact?: boolean;
 }
 
 export interface PdfOutcome {
@@ -55,7 +58,12 @@ export async function printAuditPdf(options: PdfOptions): Promise<PdfOutcome> {
     try {
       const page = await browser.newPage();
       await page.emulateMedia({ media: "print", colorScheme: "light" });
-      await page.goto(pathToFileURL(path.join(tmp, audit.id, "index.html")).href, { waitUntil: "load" });
+      let pageFile = path.join(tmp, audit.id, "index.html");
+      if (options.compact) {
+        pageFile = path.join(tmp, audit.id, "compact.html");
+        fs.writeFileSync(pageFile, compactPageHtml(audit, "../"));
+      }
+      await page.goto(pathToFileURL(pageFile).href, { waitUntil: "load" });
       await page.evaluate("document.fonts.ready.then(() => true)");
       const pdf = await page.pdf({
         format: "A4",
