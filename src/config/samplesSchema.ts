@@ -1,5 +1,6 @@
 import { z } from "zod";
 import { columnRef, dataFileKeys } from "./dataFileSchema.ts";
+import { energyUnitErrorMap } from "./energyUnitMessage.ts";
 import { datasetId, finite, positive, relativeFile, text } from "./common.ts";
 
 export const SAMPLE_ROLES = ["dE_A", "dE_B", "Q", "dN", "W", "count"] as const;
@@ -37,7 +38,7 @@ export const samplesDatasetSchema = z
     ...dataFileKeys,
     description: z.string().optional(),
     columns: roleMap,
-    energy_unit: z.enum(ENERGY_UNITS, { errorMap: () => ({ message: `must be one of ${ENERGY_UNITS.join(", ")}` }) }),
+    energy_unit: z.enum(ENERGY_UNITS, { errorMap: energyUnitErrorMap(ENERGY_UNITS) }),
     reference_temperature: positive("kelvin").optional(),
     reservoirs: z.object({ A: reservoirSchema, B: reservoirSchema }).strict(),
     tau: positive("seconds").optional(),
