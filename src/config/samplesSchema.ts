@@ -1,4 +1,5 @@
 import { z } from "zod";
+import { columnRef, dataFileKeys } from "./dataFileSchema.ts";
 import { datasetId, finite, positive, relativeFile, text } from "./common.ts";
 
 export const SAMPLE_ROLES = ["dE_A", "dE_B", "Q", "dN", "W", "count"] as const;
@@ -19,7 +20,7 @@ const reservoirSchema = z
   });
 
 const roleMap = z
-  .record(z.string(), text("a CSV column name"))
+  .record(z.string(), columnRef)
   .superRefine((m, ctx) => {
     for (const key of Object.keys(m)) {
       if (!(SAMPLE_ROLES as readonly string[]).includes(key)) {
@@ -33,6 +34,7 @@ export const samplesDatasetSchema = z
     id: datasetId,
     kind: z.literal("samples"),
     file: relativeFile,
+    ...dataFileKeys,
     description: z.string().optional(),
     columns: roleMap,
     energy_unit: z.enum(ENERGY_UNITS, { errorMap: () => ({ message: `must be one of ${ENERGY_UNITS.join(", ")}` }) }),

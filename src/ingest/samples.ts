@@ -1,15 +1,14 @@
-import fs from "node:fs";
+import path from "node:path";
 import { ConfigError, DataError, newProblemLog } from "../errors.ts";
 import type { SamplesDatasetConfig } from "../config/types.ts";
 import { joulesPerEnergyUnit, type EnergyUnit } from "../physics/energyUnits.ts";
 import { affinities, reservoirFromBeta, reservoirFromTemperature, type ReservoirState } from "../physics/affinities.ts";
 import { entropyProduction } from "../physics/entropyProduction.ts";
-import type { ColumnRequest } from "./readCsv.ts";
-import { readNumericTable } from "./fast/fastTable.ts";
-import { reduceSamplesFile, REDUCE_ABOVE_BYTES, type ReducedFields, type ReduceInput } from "./reduce/reduceSamples.ts";
-import { isParquetFile, readParquetRaw, reduceSamplesParquet } from "./reduce/samplesParquet.ts";
+import type { ReducedFields, ReduceInput } from "./reduce/reduceSamples.ts";
+import { readSamplesSource, type SamplesReadOptions } from "./reduce/samplesSource.ts";
+import { layoutSettings } from "./sources/layoutSettings.ts";
 import { formatRowProblems } from "./samplesRows.ts";
-import { logSigmaOverflow, SAMPLE_ROLES, sampleRowsOf, type SampleRole, type SampleRoles } from "./samplesRows.ts";
+import { logSigmaOverflow, sampleRowsOf, type SampleRole, type SampleRoles } from "./samplesRows.ts";
 import type { SamplesDataset } from "./types.ts";
 
 function reservoirState(r: SamplesDatasetConfig["reservoirs"]["A"], joules: number): ReservoirState {
@@ -18,24 +17,19 @@ function reservoirState(r: SamplesDatasetConfig["reservoirs"]["A"], joules: numb
   return r.T !== undefined ? reservoirFromTemperature(r.T, mu) : reservoirFromBeta(r.beta! / joules, mu);
 }
 
-/** How a `samples` file is read: whole, or (large files) reduced to cells while streaming. */
-export interface SamplesReadOptions {
-  /** Files larger than this are reduced to cells (reduce/reduceSamples.ts); default REDUCE_ABOVE_BYTES. */
-  reduceAboveBytes?: number;
-  /** Most cells a reduced dataset keeps; default DEFAULT_CELL_CAPACITY. */
-  cellCapacity?: number;
-  /** Use worker threads for large files (default true; false gives the same result in this thread). */
-  threads?: boolean;
-  /** Bytes of the file processed so far, and its size. */
-  onBytes?: (done: number, total: number) => void;
-}
+export type { SamplesReadOptions } from "./reduce/samplesSource.ts";
 
 /**
  * Ingest a `samples` dataset: map roles to columns, convert energies to J,
  * derive W and Q from dE_A, dE_B where given, and compute the entropy
  * production of every realisation.
  */
-export async function loadSamples(config: SamplesDatasetConfig, filePath: string, keyPath: string, options: SamplesReadOptions = {}): Promise<SamplesDataset> {
+export async function loadSamples(
+  config: SamplesDatasetConfig,
+  filePath: string,
+  keyPath: string,
+  options: SamplesReadOptions & { auditDir?: string } = {},
+): Promise<SamplesDataset> {
   const where = `audit.yaml ${keyPath}`;
   const roles = config.columns as SampleRoles & Partial<Record<string, string>>;
   const hasQ = roles.Q !== undefined;
@@ -59,21 +53,11 @@ export async function loadSamples(config: SamplesDatasetConfig, filePath: string
   const base = { config, reservoirs: { A, B }, affinity, energyUnit: { name: config.energy_unit, joules }, hasParticleColumn: roles.dN !== undefined, tau: config.tau ?? null };
 
   // Columns in the order audit.yaml maps them (messages list problems in that order).
-  const requests: ColumnRequest[] = Object.entries(roles).map(([role, column]) => ({ role, column: column! }));
-  const input: ReduceInput = { filePath, label: config.file, requests, roles, joules, affinity, workZero: config.work === "zero" };
-  const large = fileSize(filePath) > (options.reduceAboveBytes ?? REDUCE_ABOVE_BYTES);
-  const head = { kind: "samples" as const, id: config.id, file: config.file, ...base };
-  if (isParquetFile(config.file)) {
-    return { ...head, ...(large ? await reduceSamplesParquet(input, options) : exactFields(input, await readParquetRaw(input), "row")) };
-  }
-  if (large) {
-    const reduced = await reduceSamplesFile(input, options);
-    if (reduced !== null) return { ...head, ...reduced };
-  }
-  const table = await readNumericTable(filePath, config.file, requests, { onBytes: options.onBytes });
-  const raw: Partial<Record<SampleRole, Float64Array>> = {};
-  for (const role of SAMPLE_ROLES) if (roles[role] !== undefined) raw[role] = table.columns.get(roles[role]!);
-  return { ...head, ...exactFields(input, { raw, rows: table.rows, lines: table.lineOfRow, sha256: table.sha256 }, "line") };
+  const columns = Object.entries(config.columns as Record<string, string | number>).map(([role, column]) => ({ role, column }));
+  const request = { filePath, label: config.file, auditDir: options.auditDir ?? path.dirname(filePath), keyPath, columns, settings: layoutSettings(config) };
+  const { read, format, input } = await readSamplesSource(request, { label: config.file, joules, affinity, workZero: config.work === "zero" }, options);
+  const head = { kind: "samples" as const, id: config.id, file: config.file, format, ...base };
+  return { ...head, ...(read.kind === "cells" ? read.fields : exactFields(input, read, read.located)) };
 }
 
 /** Raw columns of a whole file (declared units), with each row's line (CSV) or 1-based row number (Parquet). */
@@ -113,10 +97,3 @@ function exactFields(input: ReduceInput, table: RawSamples, located: "line" | "r
   };
 }
 
-function fileSize(filePath: string): number {
-  try {
-    return fs.statSync(filePath).size;
-  } catch {
-    return 0; // the reader words the problem
-  }
-}

@@ -62,5 +62,5 @@ function layoutFor(names: string[], requests: ColumnRequest[], crlf: boolean): S
     slotOfField[field] = slotNames.length;
     slotNames.push(request.column);
   }
-  return { fieldCount: names.length, slotOfField, slotNames, crlf };
+  return { fieldCount: names.length, slotOfField, slotNames, crlf, delimiter: 44, decimal: 46, countedBy: "header", noun: "CSV" };
 }
