@@ -19,7 +19,7 @@ export interface ColumnSource {
 }
 
 /** One bounded slice of rows, in file order. */
-export interface ColumnBatch {
+export interface RecordBatch {
   rows: number;
   /** 0-based index of the batch's first row. */
   firstRow: number;
@@ -44,7 +44,7 @@ export async function* readRecordColumns(
   label: string,
   describeEnd: (stream: number, wholeRecords: number) => string,
   batchRows?: number,
-): AsyncGenerator<ColumnBatch> {
+): AsyncGenerator<RecordBatch> {
   const recordBytes = streams.reduce((sum, s) => sum + s.recordBytes, 0);
   const perBatch = batchRows ?? Math.max(1, Math.floor(BATCH_BYTES / Math.max(1, recordBytes)));
   const problems = new RowProblems(label);

@@ -2,7 +2,7 @@ import { Dataset, Module, type File as H5File, type Metadata } from "h5wasm/node
 import { DataError } from "../../../errors.ts";
 import type { ByteStream } from "../binary/byteStream.ts";
 import { describeNumericType } from "../binary/numericType.ts";
-import { readRecordColumns, type ColumnBatch, type ColumnSource, type RecordStream } from "../binary/readRecordColumns.ts";
+import { readRecordColumns, type RecordBatch, type ColumnSource, type RecordStream } from "../binary/readRecordColumns.ts";
 import { describeOpenFailure, hdf5Library, hdf5Reason } from "./hdf5Library.ts";
 import { hdf5Element, type Hdf5Element } from "./hdf5Types.ts";
 
@@ -15,9 +15,11 @@ export interface OpenHdf5 {
   description: string;
   /** What the columns could be: members of the table, or the file's datasets. */
   available: string[];
+  /** The requested columns found (absent optional ones left out). */
+  present: string[];
   /** A `units` attribute (text) found on the table or on a column's dataset, by column as requested. */
   units: Map<string, string>;
-  batches(options?: { batchRows?: number }): AsyncGenerator<ColumnBatch>;
+  batches(options?: { batchRows?: number }): AsyncGenerator<RecordBatch>;
   close(): void;
 }
 
@@ -124,7 +126,7 @@ interface Plan {
 }
 
 /** `dataset:` names a compound table (columns by member name) or a 2-D numeric array (columns by position from 1). */
-function planTable(file: H5File, label: string, path: string, refs: Hdf5ColumnRef[]): Plan {
+function planTable(file: H5File, label: string, path: string, refs: readonly Hdf5ColumnRef[], optional: ReadonlySet<string>): Plan {
   const dataset = datasetAt(file, path);
   if (!dataset) throw new DataError(`${label}: holds no dataset "${path}"; its datasets are ${list(datasetsOf(file))}`);
   const metadata = dataset.metadata;
@@ -140,6 +142,7 @@ function planTable(file: H5File, label: string, path: string, refs: Hdf5ColumnRe
     for (const name of wanted) {
       const member = members.find((m) => m.name === name);
       if (!member) {
+        if (optional.has(name)) continue;
         problems.push(`${where}: has no member "${name}"; its members are ${list(members.map((m) => m.name))}`);
         continue;
       }
@@ -169,8 +172,9 @@ function planTable(file: H5File, label: string, path: string, refs: Hdf5ColumnRe
   const columns: ColumnSource[] = [];
   for (const ref of wanted) {
     const p = /^\d+$/.test(ref) ? Number(ref) : Number.NaN;
-    if (!(p >= 1 && p <= width)) problems.push(`${where}: column ${JSON.stringify(ref)} is not a position from 1 to ${width} (a 2-D dataset's columns are numbered from 1)`);
-    else columns.push({ column: ref, stream: 0, offset: (p - 1) * metadata.size, type: element.numeric });
+    if (!(p >= 1 && p <= width)) {
+      if (!optional.has(ref)) problems.push(`${where}: column ${JSON.stringify(ref)} is not a position from 1 to ${width} (a 2-D dataset's columns are numbered from 1)`);
+    } else columns.push({ column: ref, stream: 0, offset: (p - 1) * metadata.size, type: element.numeric });
     if (tableUnits !== null) units.set(ref, tableUnits);
   }
   if (problems.length) throw new DataError(problems.join("\n"));
@@ -185,13 +189,14 @@ function planTable(file: H5File, label: string, path: string, refs: Hdf5ColumnRe
 }
 
 /** Without `dataset:`, each column is a 1-D numeric dataset named by its path; all of one length. */
-function planColumns(file: H5File, label: string, refs: Hdf5ColumnRef[]): Plan {
+function planColumns(file: H5File, label: string, refs: readonly Hdf5ColumnRef[], optional: ReadonlySet<string>): Plan {
   const wanted = [...new Set(refs.map(String))];
   const problems: string[] = [];
   const found: { path: string; metadata: Metadata; element: Hdf5Element; units: string | null }[] = [];
   for (const path of wanted) {
     const dataset = datasetAt(file, path);
     if (!dataset) {
+      if (optional.has(path)) continue;
       problems.push(`${label}: holds no dataset "${path}"; its datasets are ${list(datasetsOf(file))}`);
       continue;
     }
@@ -224,9 +229,16 @@ function planColumns(file: H5File, label: string, refs: Hdf5ColumnRef[]): Plan {
  * Open an HDF5 file (`openPath`: the path h5wasm opens, e.g. /proc/self/fd/N for a file
  * already opened and checked) and lay out the reads of the requested columns. With
  * `dataset`, the columns are members of that compound table (or positions in that 2-D
- * array); without it, each column is a 1-D dataset path. Only numeric types are read.
+ * array); without it, each column is a 1-D dataset path. Only numeric types are read;
+ * columns in `optional` that the file lacks are left out instead of refused.
  */
-export async function openHdf5(openPath: string, label: string, dataset: string | undefined, refs: Hdf5ColumnRef[]): Promise<OpenHdf5> {
+export async function openHdf5(
+  openPath: string,
+  label: string,
+  dataset: string | undefined,
+  refs: readonly Hdf5ColumnRef[],
+  optional: ReadonlySet<string> = new Set(),
+): Promise<OpenHdf5> {
   const h5 = await hdf5Library();
   let file: H5File;
   try {
@@ -235,12 +247,13 @@ export async function openHdf5(openPath: string, label: string, dataset: string 
     throw new DataError(`${label}: not a readable HDF5 file: ${describeOpenFailure(err)}`);
   }
   try {
-    const plan = dataset !== undefined ? planTable(file, label, dataset, refs) : planColumns(file, label, refs);
+    const plan = dataset !== undefined ? planTable(file, label, dataset, refs, optional) : planColumns(file, label, refs, optional);
     const where = dataset !== undefined ? `${label}, dataset ${dataset}` : label;
     return {
       rows: plan.rows,
       description: `HDF5: ${plan.description}`,
       available: plan.available,
+      present: plan.columns.map((c) => c.column),
       units: plan.units,
       async *batches(options = {}) {
         const streams: RecordStream[] = plan.streams.map((s) => ({ stream: new DatasetStream(file, s.path, s.recordBytes, s.width), recordBytes: s.recordBytes }));

@@ -36,8 +36,9 @@ function positionOf(ref: NpyColumnRef): number | null {
  * `shape` rules: a structured array is 1-D with columns by field name; a plain array is
  * 2-D (rows × columns) with columns by position from 1, as in text files without a
  * header; `oneColumn` (a .npz member) wants a plain 1-D array, which is its one column.
+ * Columns in `optional` that the array lacks are left out instead of refused.
  */
-export function planNpyColumns(header: NpyHeader, label: string, columns: readonly NpyColumnRef[], oneColumn = false): NpyPlan {
+export function planNpyColumns(header: NpyHeader, label: string, columns: readonly NpyColumnRef[], oneColumn = false, optional: ReadonlySet<string> = new Set()): NpyPlan {
   const dtype = npyDtype(header.descr);
   if (dtype === null) throw new DataError(`${label}: the .npy header's dtype ${JSON.stringify(header.descr)} is not one NumPy writes; the file is damaged`);
   const shape = header.shape;
@@ -70,6 +71,7 @@ export function planNpyColumns(header: NpyHeader, label: string, columns: readon
     for (const name of wanted) {
       const field = byName.get(name);
       if (!field) {
+        if (optional.has(name)) continue;
         problems.push(`${label}: has no field "${name}"; its fields are ${dtype.fields.map((f) => `"${f.name}"`).join(", ")}`);
         continue;
       }
@@ -97,8 +99,9 @@ export function planNpyColumns(header: NpyHeader, label: string, columns: readon
   const positions: number[] = [];
   for (const ref of wanted) {
     const p = positionOf(ref);
-    if (p === null || p < 1 || p > width) problems.push(`${label}: column ${JSON.stringify(ref)} is not a position from 1 to ${width} (a 2-D array's columns are numbered from 1, as in text files without a header)`);
-    else positions.push(p);
+    if (p === null || p < 1 || p > width) {
+      if (!optional.has(ref)) problems.push(`${label}: column ${JSON.stringify(ref)} is not a position from 1 to ${width} (a 2-D array's columns are numbered from 1, as in text files without a header)`);
+    } else positions.push(p);
   }
   if (problems.length) throw new DataError(problems.join("\n"));
   const order = header.fortranOrder ? "Fortran (column-major)" : "C (row-major)";

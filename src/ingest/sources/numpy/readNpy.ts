@@ -1,10 +1,11 @@
 import fs from "node:fs";
 import { DataError } from "../../../errors.ts";
 import { FileRangeStream } from "../binary/byteStream.ts";
-import { readRecordColumns, type ColumnBatch } from "../binary/readRecordColumns.ts";
+import { readRecordColumns, type RecordBatch } from "../binary/readRecordColumns.ts";
 import { planNpyColumns, whereDataEnd, type NpyColumnRef, type NpyPlan } from "./planNpyColumns.ts";
 import { readNpyHeader } from "./readNpyHeader.ts";
 import type { NpyHeader } from "./npyHeader.ts";
+import { npyDtype } from "./npyDtype.ts";
 
 /** The data section must hold exactly what the header promises: no less (truncated), no more (several arrays saved into one file). */
 export function checkDataLength(header: NpyHeader, plan: NpyPlan, available: number, label: string, columnName?: string): void {
@@ -23,13 +24,21 @@ export function checkDataLength(header: NpyHeader, plan: NpyPlan, available: num
   }
 }
 
+function availableColumns(header: NpyHeader): string[] {
+  const fields = npyDtype(header.descr)?.fields;
+  if (fields) return fields.map((f) => f.name);
+  return header.shape.length === 2 ? Array.from({ length: header.shape[1] }, (_, i) => String(i + 1)) : [];
+}
+
 /** A .npy file whose header was read and checked against the requested columns and the file's length. */
 export interface OpenNpy {
   header: NpyHeader;
   plan: NpyPlan;
   /** What the file is, for the report. */
   description: string;
-  batches(options?: { batchRows?: number }): AsyncGenerator<ColumnBatch>;
+  /** The columns it offers: field names, or positions from 1. */
+  available: string[];
+  batches(options?: { batchRows?: number }): AsyncGenerator<RecordBatch>;
 }
 
 /**
@@ -39,15 +48,16 @@ export interface OpenNpy {
  * Fortran-order array column by column. Values are keyed by the column as requested
  * (field name, or position as a string).
  */
-export async function openNpy(fd: number, size: number, label: string, columns: readonly NpyColumnRef[]): Promise<OpenNpy> {
+export async function openNpy(fd: number, size: number, label: string, columns: readonly NpyColumnRef[], optional: ReadonlySet<string> = new Set()): Promise<OpenNpy> {
   const header = await readNpyHeader(new FileRangeStream(fd, 0, size), label);
-  const plan = planNpyColumns(header, label, columns);
+  const plan = planNpyColumns(header, label, columns, false, optional);
   checkDataLength(header, plan, size - header.dataOffset, label);
   const base = header.dataOffset;
   return {
     header,
     plan,
     description: `NumPy .npy (format ${header.version}): ${plan.description}`,
+    available: availableColumns(header),
     async *batches(options = {}) {
       const streams = plan.streams.map((s) => ({ stream: new FileRangeStream(fd, base + s.start, base + plan.dataBytes), recordBytes: s.recordBytes }));
       // The length was checked at open; a short read now means the file shrank meanwhile.
@@ -58,7 +68,7 @@ export async function openNpy(fd: number, size: number, label: string, columns: 
 }
 
 /** The same from a path (tests, tools): the descriptor is closed when the batches end. */
-export async function* readNpyFile(filePath: string, label: string, columns: readonly NpyColumnRef[], options: { batchRows?: number } = {}): AsyncGenerator<ColumnBatch> {
+export async function* readNpyFile(filePath: string, label: string, columns: readonly NpyColumnRef[], options: { batchRows?: number } = {}): AsyncGenerator<RecordBatch> {
   const fd = fs.openSync(filePath, "r");
   try {
     yield* (await openNpy(fd, fs.fstatSync(fd).size, label, columns)).batches(options);

@@ -1,5 +1,5 @@
 import { DataError } from "../../../errors.ts";
-import { readRecordColumns, type ColumnBatch, type ColumnSource, type RecordStream } from "../binary/readRecordColumns.ts";
+import { readRecordColumns, type RecordBatch, type ColumnSource, type RecordStream } from "../binary/readRecordColumns.ts";
 import { planNpyColumns } from "./planNpyColumns.ts";
 import { checkDataLength } from "./readNpy.ts";
 import { readNpyHeader } from "./readNpyHeader.ts";
@@ -12,8 +12,10 @@ export interface OpenNpz {
   rows: number;
   /** Every array the file holds (member names without ".npy"). */
   available: string[];
+  /** The requested arrays found (absent optional ones left out). */
+  present: string[];
   description: string;
-  batches(options?: { batchRows?: number }): AsyncGenerator<ColumnBatch>;
+  batches(options?: { batchRows?: number }): AsyncGenerator<RecordBatch>;
 }
 
 /** The member holding array `key`: numpy.savez names it `<key>.npy`. */
@@ -46,11 +48,11 @@ function describeDamage(label: string, column: Column, err: DamagedMember, rows:
  * keyword it was saved under. Each member is read front to back as its own stream
  * (inflated as it goes), so memory stays bounded however long the arrays are.
  */
-export async function openNpz(fd: number, size: number, label: string, keys: readonly string[]): Promise<OpenNpz> {
+export async function openNpz(fd: number, size: number, label: string, keys: readonly string[], optional: ReadonlySet<string> = new Set()): Promise<OpenNpz> {
   if (size === 0) throw new DataError(`${label}: the file is empty (0 bytes); expected a NumPy .npz file`);
   const members = zipDirectory(fd, size, label);
   const available = members.map((m) => m.name.replace(/\.npy$/, ""));
-  const wanted = [...new Set(keys)];
+  const wanted = [...new Set(keys)].filter((k) => memberFor(members, k) || !optional.has(k));
   const missing = wanted.filter((k) => !memberFor(members, k));
   if (missing.length) {
     throw new DataError(missing.map((k) => `${label}: holds no array "${k}"; its arrays are ${available.map((a) => `"${a}"`).join(", ")}`).join("\n"));
@@ -83,6 +85,7 @@ export async function openNpz(fd: number, size: number, label: string, keys: rea
   return {
     rows,
     available,
+    present: columns.map((c) => c.key),
     description: `NumPy .npz (${compressed ? "deflated" : "stored"} members): ${rows} rows of arrays ${arrays}, one array per column`,
     async *batches(options = {}) {
       const streams: RecordStream[] = columns.map((c) => ({ stream: c.stream, recordBytes: c.itemBytes }));
