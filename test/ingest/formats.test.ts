@@ -5,6 +5,7 @@ import { afterAll, describe, expect, it } from "vitest";
 import { runAudit } from "../../src/report/runAudit.ts";
 import { readNumericCsv } from "../../src/ingest/readCsv.ts";
 import { writeSamplesParquet } from "../helpers/writeSamplesParquet.ts";
+import { FORMAT_FIXTURES, formatsAudit } from "../helpers/formatsAudit.ts";
 
 /**
  * One small `samples` dataset (240 realisations, test/ingest/fixtures/formats, written by
@@ -18,13 +19,12 @@ import { writeSamplesParquet } from "../helpers/writeSamplesParquet.ts";
  * bootstraps do not draw from the file's digest.
  */
 
-const FIXTURES = path.resolve("test/ingest/fixtures/formats");
 const work = fs.mkdtempSync(path.join(os.tmpdir(), "ta-formats-"));
 afterAll(() => fs.rmSync(work, { recursive: true, force: true }));
 
 interface Shape {
   name: string;
-  /** Fixture file (or folder) copied into the audit's data folder, or a writer of the file. */
+  /** Fixture file (or folder) copied into the audit's data folder, unless `write` writes it. */
   file: string;
   write?: (target: string) => Promise<void> | void;
   /** Lines added to the dataset in audit.yaml (columns included). */
@@ -36,7 +36,7 @@ const BY_POSITION = ["columns: { Q: 2, dN: 3 }"];
 
 /** The comma file's columns, for writers run by the test (Parquet: pyarrow is not packaged for Debian). */
 async function commaColumns(): Promise<Record<string, Float64Array>> {
-  const table = await readNumericCsv(path.join(FIXTURES, "comma.csv"), "comma.csv", [
+  const table = await readNumericCsv(path.join(FORMAT_FIXTURES, "comma.csv"), "comma.csv", [
     { role: "window", column: "window" },
     { role: "Q", column: "Q_meV" },
     { role: "dN", column: "n" },
@@ -58,44 +58,17 @@ const SHAPES: Shape[] = [
   { name: "HDF5 compound table (h5py; big-endian f8, i2 members, chunked and deflated)", file: "compound.h5", keys: ["dataset: /runs/exchange", ...BY_NAME] },
   { name: "HDF5 one 1-D dataset per column (h5py; f4, big-endian i8)", file: "columns.h5", keys: ["columns: { Q: /runs/Q, dN: /runs/n }"] },
   { name: ".npy structured array (numpy.save; f4, i1 fields)", file: "structured.npy", keys: BY_NAME },
+  { name: ".npy format 2.0 (4-byte header length)", file: "structured-v2.npy", keys: BY_NAME },
+  { name: ".npy format 3.0 (UTF-8 header: a field named ΔN)", file: "structured-v3.npy", keys: ["columns: { Q: Q_meV, dN: ΔN }"] },
   { name: ".npy 2-D, Fortran order, big-endian f8", file: "matrix-fortran.npy", keys: BY_POSITION },
   { name: ".npy 2-D, C order, binary16", file: "matrix-half.npy", keys: BY_POSITION },
   { name: ".npz stored members (numpy.savez)", file: "stored.npz", keys: BY_NAME },
   { name: ".npz deflated members (numpy.savez_compressed)", file: "deflated.npz", keys: BY_NAME },
 ];
 
-function auditYaml(shape: Shape): string {
-  return [
-    "id: formats-sample",
-    "title: One dataset in many file shapes",
-    "authors:",
-    '  - { name: "A. N. Example" }',
-    "license: CC-BY-4.0",
-    "settings: { alpha: 0.01, margin: 0.05, seed: 20, resamples: 200 }",
-    "datasets:",
-    "  - id: exchange",
-    "    kind: samples",
-    `    file: data/${shape.file}`,
-    ...shape.keys.map((k) => `    ${k}`),
-    "    energy_unit: meV",
-    "    reservoirs:",
-    "      A: { T: 1.3, mu: 0.0 }",
-    "      B: { T: 1.0, mu: 0.0 }",
-    "    work: zero",
-    "checks: all",
-    "",
-  ].join("\n");
-}
-
 /** The result document as `run --json` prints it, with what names the file replaced by placeholders. */
 async function resultWithoutFileIdentity(shape: Shape): Promise<string> {
-  const dir = fs.mkdtempSync(path.join(work, "audit-"));
-  fs.mkdirSync(path.join(dir, "data"));
-  const target = path.join(dir, "data", shape.file);
-  if (shape.write) await shape.write(target);
-  else fs.cpSync(path.join(FIXTURES, shape.file), target, { recursive: true });
-  fs.writeFileSync(path.join(dir, "audit.yaml"), auditYaml(shape));
-  const { result } = await runAudit(dir);
+  const { result } = await runAudit(await formatsAudit(work, shape.file, shape.keys, shape.write));
   const document = structuredClone(result) as unknown as { fingerprint: string; datasets: Record<string, unknown>[] };
   document.fingerprint = "<fingerprint>";
   for (const d of document.datasets) {
