@@ -264,7 +264,8 @@ export async function readNumericCsv(filePath: string, label: string, requests: 
     skip_empty_lines: true,
     trim: true,
     info: true,
-    relax_column_count: false,
+    // Row lengths are checked below against the header once it is read (csv-parse, reading ahead, could report a row before the header reached this loop).
+    relax_column_count: true,
     bom: true,
     max_record_size: MAX_LINE_CHARS,
   });
@@ -301,6 +302,9 @@ export async function readNumericCsv(filePath: string, label: string, requests: 
         }
         if (missing.length) throw new DataError(missing.join("\n"));
         continue;
+      }
+      if (record.length !== headers.length) {
+        throw new DataError(describeCsvError(label, { code: "CSV_RECORD_INCONSISTENT_FIELDS_LENGTH", lines: info.lines, record }, headers.length));
       }
       rows++;
       lines.push(info.lines);

@@ -326,7 +326,7 @@ export function scanLines(
       if (crlf !== layout.crlf) return crlf ? stop("mixed line ends") : refuse(LF_IN_CRLF);
       const lineEnd = crlf ? p + 2 : p + 1;
       if (field !== fieldCount) {
-        if (runs) return refuse(`this row has ${field} cell(s) but the ${layout.countedBy} has ${fieldCount}; every row needs one cell per column (is a cell empty, or do two columns touch?)`);
+        if (runs) return refuse(`malformed ${layout.noun}: this row has ${field} cell(s) but the ${layout.countedBy} has ${fieldCount}; every row needs one cell per column (is a cell empty, or do two columns touch?)`);
         return stop(`a record with ${field} field(s) where the header has ${fieldCount}`);
       }
       if (!runs && (bytes[lineStart] === SPACE || bytes[lineStart] === TAB)) {

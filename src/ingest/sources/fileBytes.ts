@@ -1,7 +1,7 @@
 import fs from "node:fs";
 import { createHash } from "node:crypto";
 import zlib from "node:zlib";
-import { Decompress } from "fzstd";
+import { CheckedZstd } from "./zstdFrames.ts";
 import { DataError } from "../../errors.ts";
 
 /** How the bytes on disk are compressed; told by their first bytes, not by the name. */
@@ -78,18 +78,19 @@ async function* decompressed(fd: number, size: number, compression: Compression,
     new DataError(`${label}: the ${what} data is damaged (${detail}); the file cannot be decompressed: copy it again from its source`);
   if (compression === "zstd") {
     const out: Uint8Array[] = [];
-    const inflater = new Decompress((data) => {
-      out.push(data);
-    });
-    let offset = 0;
+    const inflater = new CheckedZstd((data) => out.push(data));
     for await (const block of diskBlocks(fd, 0, size, onBytes)) {
-      offset += block.length;
       try {
-        inflater.push(block, offset >= size);
+        inflater.push(block);
       } catch (err) {
-        throw damaged(`${(err as Error).message} in the bytes up to byte ${offset}`);
+        throw damaged((err as Error).message);
       }
       while (out.length) yield out.shift()!;
+    }
+    try {
+      inflater.end();
+    } catch (err) {
+      throw damaged((err as Error).message);
     }
     return;
   }
@@ -105,7 +106,8 @@ async function* decompressed(fd: number, size: number, compression: Compression,
     for await (const piece of inflater as AsyncIterable<Buffer>) yield piece;
   } catch (err) {
     if (err instanceof DataError) throw err;
-    throw damaged((err as Error).message);
+    const code = (err as NodeJS.ErrnoException).code;
+    throw damaged(code === "Z_BUF_ERROR" ? "it ends before the compressed stream does: the file is truncated" : `zlib: ${code ?? (err as Error).message}, a damaged block or a check value that does not match`);
   } finally {
     inflater.destroy();
   }

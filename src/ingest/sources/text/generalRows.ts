@@ -22,7 +22,10 @@ export async function* generalRows(
   lineOffset: number,
   label: string,
   problems: ProblemLog,
+  /** Reading from the start of the text: the header record to pass over (0 or 1), and line ends as the file's first line has them. */
+  fromStart: { skipRecords: number } | null = null,
 ): AsyncGenerator<RowChunk> {
+  let skip = fromStart?.skipRecords ?? 0;
   const parser = parse({
     delimiter: String.fromCharCode(dialect.delimiter),
     comment: "#",
@@ -31,7 +34,7 @@ export async function* generalRows(
     trim: true,
     info: true,
     relax_column_count: true,
-    record_delimiter: layout.crlf ? "\r\n" : "\n",
+    ...(fromStart ? { bom: true } : { record_delimiter: layout.crlf ? "\r\n" : "\n" }),
     max_record_size: MAX_LINE_CHARS,
   });
   const input = Readable.from(text);
@@ -49,6 +52,10 @@ export async function* generalRows(
       const line = info.lines + lineOffset;
       const first = record[0] ?? "";
       if (first.startsWith("%") || first.startsWith("!")) continue; // a comment line of the other kinds
+      if (skip > 0) {
+        skip--;
+        continue; // the header, read when the file was opened
+      }
       if (record.length !== layout.fieldCount) {
         throw new DataError(describeCsvError(label, { code: "CSV_RECORD_INCONSISTENT_FIELDS_LENGTH", lines: line, record }, layout.fieldCount, noun, layout.countedBy));
       }

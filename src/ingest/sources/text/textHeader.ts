@@ -1,3 +1,4 @@
+import { parse as parseSync } from "csv-parse/sync";
 import { ConfigError, DataError } from "../../../errors.ts";
 import { nearest } from "../../../config/nearest.ts";
 import { describeBinaryContent, describeHeaderProblem } from "../../readCsv.ts";
@@ -17,13 +18,15 @@ export interface TextTableStart {
   layout: ScanLayout;
   /** Every column the file has: header names, or positions "1", "2", … without a header. */
   available: string[];
+  /** The byte scanner cannot read the header: the general reader reads the file from `dataStart` (the header included, then passed over). */
+  general: boolean;
 }
 
 const NL = 10;
 const CR = 13;
 const decoder = new TextDecoder("utf-8");
 
-/** Whether a line (its text) is empty or a comment (`#`, `%` or `!` first; after blanks too for whitespace tables). */
+/** Whether a line (its text) is empty or a comment (`#`, `%` or `!` first, after any blanks, as csv-parse's trimming reads it). */
 function isSkippable(text: string, runs: boolean): boolean {
   const t = runs ? text.trimStart() : text;
   return t === "" || t[0] === "#" || t[0] === "%" || t[0] === "!";
@@ -79,7 +82,7 @@ export function findTextTable(
     const format = named ?? detectTextFormat(isSkippable(text, true) ? "," : text);
     const dialect = dialectOf(format, settings, keyPath);
     const runs = dialect.delimiter === WHITESPACE_RUNS;
-    if (isSkippable(text, runs)) {
+    if (isSkippable(text, true)) {
       line++;
       pos = nl + 1;
       continue;
@@ -96,12 +99,61 @@ export function findTextTable(
       if (problem) throw new DataError(problem);
     }
     const layout = layoutFor(cells.length, available, wants, dialect, crlf, noun, label, line + 1, keyPath);
-    return { dialect, detected: named === null, dataStart: start, headerLines, layout, available };
+    return { dialect, detected: named === null, dataStart: start, headerLines, layout, available, general: false };
   }
   if (line === 0 || whole) {
     throw new DataError(dialectHeader(settings) ? `${label}: the file is empty; expected a header row and data rows` : `${label}: the file is empty; expected rows of numbers`);
   }
   return null;
+}
+
+/**
+ * The table's start for the general reader, when the header line is beyond
+ * the byte scanner (quoted names with delimiters inside, a lone CR as line
+ * end): csv-parse reads the first record of the block after the preamble.
+ */
+export function findGeneralTable(
+  head: Uint8Array,
+  named: TextFormat | null,
+  settings: FileLayoutSettings,
+  wants: ColumnWant[],
+  label: string,
+  keyPath: string,
+): TextTableStart {
+  let pos = 0;
+  for (let k = 0; k < (settings.skip_lines ?? 0); k++) pos = head.indexOf(NL, pos) + 1;
+  const text = decoder.decode(head.subarray(pos));
+  const firstLine = text.replace(/^\uFEFF/, "").split(/\r\n|\n|\r/).find((l) => !isSkippable(l, true)) ?? "";
+  const dialect = dialectOf(named ?? detectTextFormat(firstLine), settings, keyPath);
+  let record: string[];
+  let line: number;
+  try {
+    const [first] = parseSync(text, {
+      delimiter: String.fromCharCode(dialect.delimiter),
+      comment: "#",
+      comment_no_infix: true,
+      skip_empty_lines: true,
+      trim: true,
+      bom: true,
+      info: true,
+      relax_column_count: true,
+      to: 1,
+    }) as unknown as { record: string[]; info: { lines: number } }[];
+    if (!first) throw new DataError(`${label}: the file is empty; expected a header row and data rows`);
+    record = first.record;
+    line = first.info.lines + (settings.skip_lines ?? 0);
+  } catch (err) {
+    if (err instanceof DataError) throw err;
+    throw new DataError(`${label}: the first line of the table cannot be read (${(err as Error).message}); give columns plain names on one line`);
+  }
+  const noun = dialect.format === "comma" ? "CSV" : "table";
+  const names = dialect.header ? record.map((h) => h.trim()) : record.map((_, i) => String(i + 1));
+  if (dialect.header) {
+    const problem = describeHeaderProblem(label, line, names);
+    if (problem) throw new DataError(problem);
+  }
+  const layout = layoutFor(record.length, names, wants, dialect, false, noun, label, line, keyPath);
+  return { dialect, detected: named === null, dataStart: pos, headerLines: settings.skip_lines ?? 0, layout, available: names, general: true };
 }
 
 function dialectHeader(settings: FileLayoutSettings): boolean {

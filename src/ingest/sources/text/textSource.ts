@@ -1,5 +1,5 @@
 import fs from "node:fs";
-import { DataError, formatCellProblems, MAX_REPORTED_PROBLEMS, newProblemLog, recordProblem } from "../../../errors.ts";
+import { DataError, formatCellProblems, MAX_REPORTED_PROBLEMS, newProblemLog, recordProblem, type ProblemLog } from "../../../errors.ts";
 import { SNIFF_BYTES } from "../../readCsv.ts";
 import { ChunkBuilder, longLine, newScanState, scanLines, WHITESPACE_RUNS, type RowChunk } from "../../fast/scanLines.ts";
 import { CHUNK_ROWS } from "../../fast/scanRange.ts";
@@ -8,7 +8,7 @@ import { openDataFile } from "../openDataFile.ts";
 import { compressionOf, compressionSuffix, headOf, sha256OfDescriptor, textBlocks, type Compression } from "../fileBytes.ts";
 import type { ColumnBatch, OpenSource, SourceModule, SourceRequest } from "../types.ts";
 import { describeTextFormat, dialectOf, TEXT_FORMATS, type TextFormat } from "./dialect.ts";
-import { findTextTable, type TextTableStart } from "./textHeader.ts";
+import { findGeneralTable, findTextTable, type TextTableStart } from "./textHeader.ts";
 import { generalRows } from "./generalRows.ts";
 
 /** With a delimiter other than the comma, "1,5" may be a decimal comma the dataset has not declared. */
@@ -46,8 +46,9 @@ async function openText(request: SourceRequest, named: TextFormat | null): Promi
       throw new DataError(`${label}: the name ends in .${announced === "gzip" ? "gz" : "zst"} but the file is not ${announced === "gzip" ? "gzip" : "Zstandard"}-compressed (its first bytes say ${compression === "none" ? "uncompressed" : compression}); rename it or compress it`);
     }
     const { head, whole } = await textHead(fd, size, compression, label);
-    const table = findTextTable(head, whole, named, request.settings, request.columns, label, request.keyPath);
-    if (table === null) throw new DataError(`${label}: the header line cannot be read as ${named ?? "delimited"} text (a quote inside a column name, a lone carriage return, or a first line beyond ${SNIFF_BYTES} bytes); give columns plain names on one line`);
+    const table =
+      findTextTable(head, whole, named, request.settings, request.columns, label, request.keyPath) ??
+      findGeneralTable(head, named, request.settings, request.columns, label, request.keyPath);
     return textSourceOver(request, fd, size, compression, table);
   } catch (err) {
     fs.closeSync(fd);
@@ -94,7 +95,7 @@ function textSourceOver(request: SourceRequest, fd: number, size: number, compre
     available: table.available,
     byteSize: size,
     byteRanges:
-      compression === "none" ? { fd, dataStart: table.dataStart, size, headerLines: table.headerLines, layout } : undefined,
+      compression === "none" && !table.general ? { fd, dataStart: table.dataStart, size, headerLines: table.headerLines, layout } : undefined,
     async *batches(onBytes) {
       let done = 0;
       const counted = (n: number) => {
@@ -116,6 +117,7 @@ function textSourceOver(request: SourceRequest, fd: number, size: number, compre
  */
 async function* textRows(fd: number, size: number, compression: Compression, table: TextTableStart, label: string, onBytes: (n: number) => void): AsyncGenerator<RowChunk> {
   const { layout } = table;
+  const finish = (problems: ProblemLog, rows: number) => finishRows(table, label, problems, rows);
   const runs = layout.delimiter === WHITESPACE_RUNS;
   const state = newScanState();
   const slots = layout.slotNames.length;
@@ -131,6 +133,14 @@ async function* textRows(fd: number, size: number, compression: Compression, tab
   let offset = table.dataStart; // text offset of carry's first byte
   let rows = 0;
   let general: number | null = null;
+  if (table.general) {
+    const problems = newProblemLog();
+    for await (const rest of generalRows(textBlocks(fd, size, compression, label, table.dataStart, onBytes), table.dialect, layout, table.headerLines, label, problems, { skipRecords: table.dialect.header ? 1 : 0 })) {
+      rows += rest.rows;
+      if (problems.count === 0) yield rest;
+    }
+    return finish(problems, rows);
+  }
   for await (const block of textBlocks(fd, size, compression, label, table.dataStart, onBytes)) {
     const bytes = carry.length ? concat(carry, block) : block;
     const cut = bytes.lastIndexOf(NL) + 1;
@@ -173,6 +183,11 @@ async function* textRows(fd: number, size: number, compression: Compression, tab
       if (problems.count === 0) yield rest;
     }
   }
+  finish(problems, rows);
+}
+
+/** Throw the gathered cell problems, or the refusal of a table without rows. */
+function finishRows(table: TextTableStart, label: string, problems: ProblemLog, rows: number): void {
   if (problems.count > 0) {
     const located = table.dialect.format === "comma" ? problems.problems : problems.problems.map((p) => ({ ...p, message: p.message.replace(POINT_HINT, DECIMAL_KEY_HINT) }));
     throw new DataError(formatCellProblems(label, located, MAX_REPORTED_PROBLEMS, problems.count));
