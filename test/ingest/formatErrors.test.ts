@@ -49,6 +49,15 @@ describe("bad binary data files are refused with file, row and column named", ()
     }
   });
 
+  // The fixture's third chunk of 64 rows (rows 129–192) has 8 bytes of its deflated data flipped.
+  it("an HDF5 table with a damaged chunk: the chunk's rows named", async () => {
+    const r = await runBad("bad/damaged-chunk.h5", ["dataset: /runs/exchange", "columns: { Q: Q_meV, dN: n }"]);
+    expect(r.code).toBe(2);
+    expect(r.stderr).toBe(
+      'error: data/damaged-chunk.h5, dataset /runs/exchange, rows 129–192, columns "Q_meV", "n": the HDF5 library cannot read these rows (filter returned failure during read); the file is damaged: copy it again from its source\n',
+    );
+  });
+
   it("a .npy array of Python objects", async () => {
     const r = await runBad("bad/object.npy", ["columns: { Q: 2, dN: 3 }"]);
     expect(r.code).toBe(2);

@@ -47,6 +47,7 @@ class DatasetStream implements ByteStream {
     private readonly path: string,
     private readonly recordBytes: number,
     private readonly width: number | null,
+    private readonly chunkRows: number | null,
   ) {}
 
   async read(length: number): Promise<Uint8Array> {
@@ -55,17 +56,41 @@ class DatasetStream implements ByteStream {
     const pointer = Module._malloc(Math.max(1, bytes));
     if (pointer === 0) throw new Hdf5ReadError(this.path, this.row, count, `no memory for ${bytes} bytes`);
     try {
-      const [size, offset, stride] = this.width === null ? [[BigInt(count)], [BigInt(this.row)], [1n]] : [[BigInt(count), BigInt(this.width)], [BigInt(this.row), 0n], [1n, 1n]];
       try {
-        Module.get_dataset_data(this.file.file_id, this.path, size, offset, stride, BigInt(pointer));
+        this.readRows(this.row, count, pointer);
       } catch (err) {
-        throw new Hdf5ReadError(this.path, this.row, count, hdf5Reason(err));
+        throw this.firstFailingChunk(count, pointer) ?? new Hdf5ReadError(this.path, this.row, count, hdf5Reason(err));
       }
       this.row += count;
       return Module.HEAPU8.slice(pointer, pointer + bytes);
     } finally {
       Module._free(pointer);
     }
+  }
+
+  private readRows(first: number, count: number, pointer: number): void {
+    const [size, offset, stride] = this.width === null ? [[BigInt(count)], [BigInt(first)], [1n]] : [[BigInt(count), BigInt(this.width)], [BigInt(first), 0n], [1n, 1n]];
+    Module.get_dataset_data(this.file.file_id, this.path, size, offset, stride, BigInt(pointer));
+  }
+
+  /**
+   * After a failed read of a chunked dataset, the rows of the first chunk that cannot be
+   * read (each chunk read on its own), so that a message can name them; null when every
+   * chunk reads alone or the dataset is not chunked.
+   */
+  private firstFailingChunk(count: number, pointer: number): Hdf5ReadError | null {
+    if (this.chunkRows === null) return null;
+    const end = this.row + count;
+    for (let first = this.row - (this.row % this.chunkRows); first < end; first += this.chunkRows) {
+      const from = Math.max(first, this.row);
+      const rows = Math.min(first + this.chunkRows, end) - from;
+      try {
+        this.readRows(from, rows, pointer);
+      } catch (err) {
+        return new Hdf5ReadError(this.path, from, rows, hdf5Reason(err));
+      }
+    }
+    return null;
   }
 }
 
@@ -118,7 +143,7 @@ function list(names: string[]): string {
 
 interface Plan {
   rows: number;
-  streams: { path: string; recordBytes: number; width: number | null }[];
+  streams: { path: string; recordBytes: number; width: number | null; chunkRows: number | null }[];
   columns: ColumnSource[];
   description: string;
   available: string[];
@@ -157,7 +182,7 @@ function planTable(file: H5File, label: string, path: string, refs: readonly Hdf
     const memberList = members.map((m) => `${m.name} ${describeElement(hdf5Element(m as Metadata, m.littleEndian))}`).join(", ");
     return {
       rows,
-      streams: [{ path, recordBytes: metadata.size, width: null }],
+      streams: [{ path, recordBytes: metadata.size, width: null, chunkRows: metadata.chunks?.[0] ?? null }],
       columns,
       description: `compound dataset ${path} of ${rows} rows (members ${memberList}), columns by member name${tableUnits !== null ? `, units attribute "${tableUnits}"` : ""}`,
       available: members.map((m) => m.name),
@@ -180,7 +205,7 @@ function planTable(file: H5File, label: string, path: string, refs: readonly Hdf
   if (problems.length) throw new DataError(problems.join("\n"));
   return {
     rows,
-    streams: [{ path, recordBytes: width * metadata.size, width }],
+    streams: [{ path, recordBytes: width * metadata.size, width, chunkRows: metadata.chunks?.[0] ?? null }],
     columns,
     description: `2-D dataset ${path} of ${rows} rows × ${width} columns (${describeNumericType(element.numeric)}), columns by position from 1`,
     available: Array.from({ length: width }, (_, i) => String(i + 1)),
@@ -217,7 +242,7 @@ function planColumns(file: H5File, label: string, refs: readonly Hdf5ColumnRef[]
   for (const f of found) if (f.units !== null) units.set(f.path, f.units);
   return {
     rows,
-    streams: found.map((f) => ({ path: f.path, recordBytes: f.metadata.size, width: null })),
+    streams: found.map((f) => ({ path: f.path, recordBytes: f.metadata.size, width: null, chunkRows: f.metadata.chunks?.[0] ?? null })),
     columns: found.map((f, i) => ({ column: f.path, stream: i, offset: 0, type: f.element.numeric! })),
     description: `${rows} rows from the 1-D datasets ${found.map((f) => `${f.path} (${describeNumericType(f.element.numeric!)}${f.units !== null ? `, units "${f.units}"` : ""})`).join(", ")}, one per column`,
     available: datasetsOf(file),
@@ -256,7 +281,7 @@ export async function openHdf5(
       present: plan.columns.map((c) => c.column),
       units: plan.units,
       async *batches(options = {}) {
-        const streams: RecordStream[] = plan.streams.map((s) => ({ stream: new DatasetStream(file, s.path, s.recordBytes, s.width), recordBytes: s.recordBytes }));
+        const streams: RecordStream[] = plan.streams.map((s) => ({ stream: new DatasetStream(file, s.path, s.recordBytes, s.width, s.chunkRows), recordBytes: s.recordBytes }));
         const short = () => `${where}: the dataset became shorter while it was being read`;
         try {
           yield* readRecordColumns(streams, plan.columns, plan.rows, where, short, options.batchRows);
@@ -264,7 +289,7 @@ export async function openHdf5(
           if (!(err instanceof Hdf5ReadError)) throw err;
           const columns = plan.columns.filter((c) => plan.streams[c.stream].path === err.path).map((c) => `"${c.column}"`);
           throw new DataError(
-            `${label}, dataset ${err.path}, rows ${err.first + 1}–${err.first + err.count}, column ${columns.join(", ")}: the HDF5 library cannot read these rows (${err.reason}); the file is damaged: copy it again from its source`,
+            `${label}, dataset ${err.path}, rows ${err.first + 1}–${err.first + err.count}, ${columns.length > 1 ? "columns" : "column"} ${columns.join(", ")}: the HDF5 library cannot read these rows (${err.reason}); the file is damaged: copy it again from its source`,
           );
         }
       },
