@@ -1,3 +1,4 @@
+import fs from "node:fs";
 import path from "node:path";
 import { ConfigError, DataError, newProblemLog } from "../errors.ts";
 import type { SamplesDatasetConfig } from "../config/types.ts";
@@ -5,7 +6,9 @@ import { joulesPerEnergyUnit, type EnergyUnit } from "../physics/energyUnits.ts"
 import { affinities, reservoirFromBeta, reservoirFromTemperature, type ReservoirState } from "../physics/affinities.ts";
 import { entropyProduction } from "../physics/entropyProduction.ts";
 import type { ReducedFields, ReduceInput } from "./reduce/reduceSamples.ts";
-import { readSamplesSource, type SamplesReadOptions } from "./reduce/samplesSource.ts";
+import { readSamplesSource, type SamplesReadOptions, type SamplesRows } from "./reduce/samplesSource.ts";
+import { listParts } from "./sources/parts.ts";
+import { confinePath } from "../config/confinePath.ts";
 import { layoutSettings } from "./sources/layoutSettings.ts";
 import { formatRowProblems } from "./samplesRows.ts";
 import { logSigmaOverflow, sampleRowsOf, type SampleRole, type SampleRoles } from "./samplesRows.ts";
@@ -54,19 +57,21 @@ export async function loadSamples(
 
   // Columns in the order audit.yaml maps them (messages list problems in that order).
   const columns = Object.entries(config.columns as Record<string, string | number>).map(([role, column]) => ({ role, column }));
-  const request = { filePath, label: config.file, auditDir: options.auditDir ?? path.dirname(filePath), keyPath, columns, settings: layoutSettings(config) };
-  const { read, format, input } = await readSamplesSource(request, { label: config.file, joules, affinity, workZero: config.work === "zero" }, options);
-  const head = { kind: "samples" as const, id: config.id, file: config.file, format, ...base };
-  return { ...head, ...(read.kind === "cells" ? read.fields : exactFields(input, read, read.located)) };
+  const auditDir = options.auditDir ?? path.dirname(filePath);
+  const settings = layoutSettings(config);
+  const parts = listParts(auditDir, config.file, keyPath);
+  const request = (file: string, label: string) => ({ filePath: file, label, auditDir, keyPath, columns, settings });
+  const requests = parts ? parts.map((p) => request(confinePath(auditDir, p, `${keyPath}.file`), p)) : [request(filePath, config.file)];
+  const partBytes = parts ? requests.map((r) => fs.statSync(r.filePath).size) : undefined;
+  const input = { label: config.file, joules, affinity, workZero: config.work === "zero" };
+  const exact = (part: ReduceInput, rows: RawSamples) => exactFields(part, rows, rows.located);
+  const { fields, format } = await readSamplesSource(requests, input, exact, { ...options, partBytes });
+  const stated = parts ? `${parts.length} part(s) of ${format}` : format;
+  return { kind: "samples" as const, id: config.id, file: config.file, format: stated, ...base, ...fields };
 }
 
-/** Raw columns of a whole file (declared units), with each row's line (CSV) or 1-based row number (Parquet). */
-interface RawSamples {
-  raw: Partial<Record<SampleRole, Float64Array>>;
-  rows: number;
-  lines: ArrayLike<number>;
-  sha256: string;
-}
+/** Raw columns of a whole file (declared units), with each row's line (text) or 1-based row number (binary). */
+type RawSamples = SamplesRows;
 
 /** Every row kept as read: the dataset's arrays straight from the rows. */
 function exactFields(input: ReduceInput, table: RawSamples, located: "line" | "row"): ReducedFields {

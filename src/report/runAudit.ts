@@ -126,7 +126,7 @@ export function resultDocumentOf(audit: IngestedAudit, checks: CheckResult[]): R
     fingerprint: fingerprintOf(audit),
     stamp: stampOf(checks),
     settings: d.settings,
-    datasets: audit.datasets.map((x) => ({ id: x.id, file: x.file, sha256: x.sha256, rows: x.rows })),
+    datasets: audit.datasets.map((x) => ({ id: x.id, file: x.file, sha256: x.sha256, rows: x.rows, ...(x.format ? { format: x.format } : {}) })),
     checks,
   };
 }

@@ -12,7 +12,7 @@
 import fs from "node:fs";
 import path from "node:path";
 import { describe, expect, it } from "vitest";
-import { DataError, InputError } from "../../src/errors.ts";
+import { ConfigError, DataError, InputError } from "../../src/errors.ts";
 import { describeCellProblem, MAX_LINE_CHARS } from "../../src/ingest/readCsv.ts";
 import { ingestAudit } from "../../src/ingest/loadAudit.ts";
 import type { SamplesDataset } from "../../src/ingest/types.ts";
@@ -45,10 +45,12 @@ describe("files that cannot be read as a table", () => {
     expect(await dataError(null)).toBe("data/run.csv: cannot read the file (does it exist?)");
   });
 
-  it("names a folder where a file belongs", async () => {
+  it("names an empty folder where a file or the parts of a multi-part dataset belong", async () => {
     const dir = auditWithData(null);
     fs.mkdirSync(path.join(dir, "data", "run.csv"));
-    await expect(ingestAudit(dir)).rejects.toThrow(new DataError("data/run.csv: is a folder; expected a data file"));
+    await expect(ingestAudit(dir)).rejects.toThrow(
+      new ConfigError('audit.yaml datasets[0].file: the folder "data/run.csv" holds no files; a multi-part dataset needs at least one part'),
+    );
   });
 
   it("refuses an empty file", async () => {

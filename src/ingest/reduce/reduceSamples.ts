@@ -7,8 +7,8 @@ import type { RowChunk, ScanLayout } from "../fast/scanLines.ts";
 import { scanFileRange } from "../fast/scanRange.ts";
 import { sampleRowsOf, type SampleRole, type SampleRoles } from "../samplesRows.ts";
 import type { SamplesDataset, SamplesReduction } from "../types.ts";
-import { columnLevel, MAX_LEVEL, mergeCellTables } from "./cellTable.ts";
-import { PARTS, reduceInParts, workerBundle } from "./parallelReduce.ts";
+import { columnLevel, MAX_LEVEL, type CellTableData } from "./cellTable.ts";
+import { reduceInParts, workerBundle } from "./parallelReduce.ts";
 import { sigmaOfRows, type KeyColumn, type SampleColumn, type SamplesReductionSpec } from "./samplesSink.ts";
 
 /**
@@ -91,26 +91,28 @@ export type ReducedFields = Pick<
   "sha256" | "rows" | "W" | "W_data" | "Q" | "dN" | "dE_A" | "dE_B" | "weight" | "realisations" | "sigma" | "reduction"
 >;
 
+/** The spec of a summary from the first rows of a plain text file's byte ranges. */
+export function byteRangeSpec(input: ReduceInput, plan: ByteRangePlan, slotOfRole: Partial<Record<SampleRole, number>>, capacity = DEFAULT_CELL_CAPACITY): SamplesReductionSpec {
+  return reductionSpec(input, csvProbe(plan.fd, plan.dataStart, plan.size, plan.layout), slotOfRole, capacity);
+}
+
 /**
  * A large plain text `samples` file summarised into cells (see cellTable.ts)
  * on worker threads, each scanning a byte range of the descriptor the source
- * opened, while this thread computes the digest; the dataset's arrays over
- * cells. Null when a range holds anything the byte scanner leaves to the
+ * opened, while this thread computes the digest: the sorted cell tables of
+ * the ranges. Null when a range holds anything the byte scanner leaves to the
  * general reader, or any problem (the caller then reduces the source's
  * batches, which reads or words it with exact lines).
  */
 export async function reduceByteRanges(
-  input: ReduceInput,
   plan: ByteRangePlan,
-  slotOfRole: Partial<Record<SampleRole, number>>,
+  spec: SamplesReductionSpec,
   digest: () => Promise<string>,
-  options: { cellCapacity?: number; threads?: boolean; onBytes?: (done: number, total: number) => void } = {},
-): Promise<ReducedFields | null> {
+  options: { threads?: boolean; onBytes?: (done: number, total: number) => void } = {},
+): Promise<{ tables: CellTableData[]; rows: number; sha256: string } | null> {
   const { fd, size, layout } = plan;
   // esbuild bundles the worker in its own process while this thread reads the probe.
   if (options.threads !== false) void workerBundle();
-  const probe = csvProbe(fd, plan.dataStart, size, layout);
-  const spec = reductionSpec(input, probe, slotOfRole, options.cellCapacity ?? DEFAULT_CELL_CAPACITY);
   let done = plan.dataStart;
   const { parts, sha256 } = await reduceInParts(fd, plan.dataStart, size, layout, spec, digest, {
     threads: options.threads,
@@ -122,8 +124,7 @@ export async function reduceByteRanges(
   if (parts.some((p) => p.state.structural !== null || p.state.problemCount > 0 || p.rowProblems.count > 0)) return null;
   const rows = parts.reduce((a, p) => a + p.state.rows, 0);
   if (rows === 0) return null;
-  const merged = mergeCellTables(spec.grid, parts.map((p) => p.table));
-  return fieldsFromCells(input, spec, merged, rows, sha256, PARTS);
+  return { tables: parts.map((p) => p.table), rows, sha256 };
 }
 
 /** The first whole rows of a plain text file (up to PROBE_BYTES), as the scanner gives them; null if none. */
@@ -324,7 +325,7 @@ function probeEnd(fd: number, dataStart: number, size: number): number {
 export function fieldsFromCells(
   input: ReduceInput,
   spec: SamplesReductionSpec,
-  cells: ReturnType<typeof mergeCellTables>,
+  cells: CellTableData,
   rows: number,
   sha256: string,
   parts: number,

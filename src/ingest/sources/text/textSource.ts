@@ -2,7 +2,7 @@ import fs from "node:fs";
 import { DataError, formatCellProblems, MAX_REPORTED_PROBLEMS, newProblemLog, recordProblem, type ProblemLog } from "../../../errors.ts";
 import { SNIFF_BYTES } from "../../readCsv.ts";
 import { ChunkBuilder, longLine, newScanState, scanLines, WHITESPACE_RUNS, type RowChunk } from "../../fast/scanLines.ts";
-import { CHUNK_ROWS } from "../../fast/scanRange.ts";
+import { BLOCK_BYTES, CHUNK_ROWS } from "../../fast/scanRange.ts";
 import { MAX_LINE_CHARS } from "../../readCsv.ts";
 import { openDataFile } from "../openDataFile.ts";
 import { compressionOf, compressionSuffix, headOf, sha256OfDescriptor, textBlocks, type Compression } from "../fileBytes.ts";
@@ -125,12 +125,13 @@ async function* textRows(fd: number, size: number, compression: Compression, tab
   const chunk = new ChunkBuilder(slots, CHUNK_ROWS);
   const flush = () => {
     if (chunk.rows > 0) {
-      ready.push({ rows: chunk.rows, values: chunk.values.map((v) => v.slice(0, chunk.rows)), lines: Uint32Array.from(chunk.lines.subarray(0, chunk.rows), (l) => l + table.headerLines) });
+      const lines = chunk.lines.slice(0, chunk.rows);
+      for (let i = 0; i < lines.length; i++) lines[i] += table.headerLines;
+      ready.push({ rows: chunk.rows, values: chunk.values.map((v) => v.slice(0, chunk.rows)), lines });
     }
     chunk.rows = 0;
   };
-  let carry: Uint8Array = new Uint8Array(0);
-  let offset = table.dataStart; // text offset of carry's first byte
+  let offset = table.dataStart; // text offset of the buffer's first byte
   let rows = 0;
   let general: number | null = null;
   if (table.general) {
@@ -141,33 +142,62 @@ async function* textRows(fd: number, size: number, compression: Compression, tab
     }
     return finish(problems, rows);
   }
-  for await (const block of textBlocks(fd, size, compression, label, table.dataStart, onBytes)) {
-    const bytes = carry.length ? concat(carry, block) : block;
-    const cut = bytes.lastIndexOf(NL) + 1;
-    if (cut > 0) scanLines(bytes, 0, cut, layout, state, chunk, flush);
+  // One buffer, reused block after block (fresh memory costs page faults): plain text is read into it
+  // straight from the descriptor, decompressed text is copied in. An incomplete last line is carried over.
+  let buffer = Buffer.allocUnsafe(BLOCK_BYTES + 2);
+  const room = (n: number, carry: number) => {
+    if (carry + n + 2 <= buffer.length) return;
+    const grown = Buffer.allocUnsafe(carry + n + 2);
+    buffer.copy(grown, 0, 0, carry);
+    buffer = grown;
+  };
+  const decompressed = compression === "none" ? null : textBlocks(fd, size, compression, label, table.dataStart, onBytes)[Symbol.asyncIterator]();
+  let position = table.dataStart;
+  let carry = 0;
+  const stopped = () => {
     if (state.refusal) throw refusal(label, table.headerLines, state.refusal);
-    if (state.structural !== null) {
-      if (runs) throw refusal(label, table.headerLines, { line: state.line + 1, message: `malformed table: ${state.structural}` });
-      general = offset + state.stoppedAt;
-      break;
+    if (state.structural === null) return false;
+    if (runs) throw refusal(label, table.headerLines, { line: state.line + 1, message: `malformed table: ${state.structural}` });
+    general = offset + state.stoppedAt;
+    return true;
+  };
+  for (;;) {
+    let got = 0;
+    if (decompressed === null) {
+      room(BLOCK_BYTES, carry);
+      got = position < size ? fs.readSync(fd, buffer, carry, Math.min(BLOCK_BYTES, size - position), position) : 0;
+      position += got;
+      if (got > 0) onBytes(got);
+    } else {
+      const next = await decompressed.next();
+      if (!next.done) {
+        room(next.value.length, carry);
+        buffer.set(next.value, carry);
+        got = next.value.length;
+      }
     }
-    carry = bytes.subarray(cut);
+    if (got === 0) break;
+    const filled = carry + got;
+    const cut = buffer.lastIndexOf(NL, filled - 1) + 1;
+    if (cut > 0) scanLines(buffer, 0, cut, layout, state, chunk, flush);
+    if (stopped()) break;
+    carry = filled - cut;
+    if (carry > MAX_LINE_CHARS) throw refusal(label, table.headerLines, { line: state.line + 1, message: longLine(layout) });
+    if (carry > 0 && cut > 0) buffer.copy(buffer, 0, cut, filled);
     offset += cut;
-    if (carry.length > MAX_LINE_CHARS) throw refusal(label, table.headerLines, { line: state.line + 1, message: longLine(layout) });
     flush();
     // No batch with a bad cell is handed out: once a problem is found the rest is only checked.
     if (state.problemCount > 0) ready.length = 0;
     while (ready.length) yield ready.shift()!;
   }
-  if (general === null && carry.length > 0) {
+  await decompressed?.return?.(undefined);
+  if (general === null && carry > 0) {
     // The last line has no line end: close it as the others end.
-    const closed = concat(carry, layout.crlf ? Uint8Array.of(CR, NL) : Uint8Array.of(NL));
-    scanLines(closed, 0, closed.length, layout, state, chunk, flush);
-    if (state.refusal) throw refusal(label, table.headerLines, state.refusal);
-    if (state.structural !== null) {
-      if (runs) throw refusal(label, table.headerLines, { line: state.line + 1, message: `malformed table: ${state.structural}` });
-      general = offset + state.stoppedAt;
-    }
+    let end = carry;
+    if (layout.crlf && buffer[end - 1] !== CR) buffer[end++] = CR;
+    buffer[end++] = NL;
+    scanLines(buffer, 0, end, layout, state, chunk, flush);
+    stopped();
   }
   flush();
   if (state.problemCount > 0) ready.length = 0;
@@ -199,9 +229,3 @@ function refusal(label: string, headerLines: number, r: { line: number; message:
   return new DataError(`${label}:${r.line + headerLines}: ${r.message}`);
 }
 
-function concat(a: Uint8Array, b: Uint8Array): Uint8Array {
-  const out = new Uint8Array(a.length + b.length);
-  out.set(a, 0);
-  out.set(b, a.length);
-  return out;
-}
