@@ -1,5 +1,7 @@
 import { z } from "zod";
 import { CHECK_IDS } from "../checks/types.ts";
+import { CHECKS } from "../checks/index.ts";
+import { optionSchemasOf } from "../checks/options.ts";
 import { nearest } from "./nearest.ts";
 import { datasetId, slug, text } from "./common.ts";
 import { samplesDatasetSchema } from "./samplesSchema.ts";
@@ -72,14 +74,64 @@ export const auditSchema = z
     if (audit.checks === "all") return;
     audit.checks.forEach((entry, i) => {
       const id = typeof entry === "string" ? entry : Object.keys(entry)[0];
-      if ((CHECK_IDS as readonly string[]).includes(id)) return;
-      const hint = nearest(id, CHECK_IDS) ?? "";
-      const known = `${hint ? ` (did you mean ${hint}?)` : ""}: one of ${CHECK_IDS.join(", ")}`;
-      if (typeof entry === "string") ctx.addIssue({ code: "custom", path: ["checks", i], message: `must be a check id${known}` });
-      // A map's key is the id; its value (the options) is not what is wrong, so it is not quoted.
-      else ctx.addIssue({ code: "custom", path: ["checks", i, id], message: `is not a check id${known}`, params: { quoteFound: false } });
+      if (!(CHECK_IDS as readonly string[]).includes(id)) {
+        const hint = nearest(id, CHECK_IDS) ?? "";
+        const known = `${hint ? ` (did you mean ${hint}?)` : ""}: one of ${CHECK_IDS.join(", ")}`;
+        if (typeof entry === "string") ctx.addIssue({ code: "custom", path: ["checks", i], message: `must be a check id${known}` });
+        // A map's key is the id; its value (the options) is not what is wrong, so it is not quoted.
+        else ctx.addIssue({ code: "custom", path: ["checks", i, id], message: `is not a check id${known}`, params: { quoteFound: false } });
+        return;
+      }
+      if (typeof entry !== "string") checkOptionsIssues(audit, id, entry[id] ?? {}, ["checks", i, id], ctx);
     });
   });
+
+/** Names `datasets:` of a check may use: dataset ids and the sweep and series groups they form. */
+function datasetNames(audit: { datasets: { id: string; sweep?: string; series?: string }[] }): string[] {
+  const names = new Set<string>();
+  for (const d of audit.datasets) {
+    names.add(d.id);
+    if (d.sweep) names.add(d.sweep);
+    if (d.series) names.add(d.series);
+  }
+  return [...names];
+}
+
+/**
+ * A check's options against the schemas its module declares (src/checks/options.ts): unknown keys are
+ * refused with the valid ones, wrong values with what is expected, and `datasets` must name datasets,
+ * sweeps or series of this audit.
+ */
+function checkOptionsIssues(
+  audit: { datasets: { id: string; sweep?: string; series?: string }[] },
+  id: string,
+  options: Record<string, unknown>,
+  path: (string | number)[],
+  ctx: z.RefinementCtx,
+): void {
+  const schemas = optionSchemasOf(CHECKS.find((c) => c.id === id)?.options);
+  const valid = Object.keys(schemas);
+  for (const [key, value] of Object.entries(options)) {
+    const schema = schemas[key];
+    if (!schema) {
+      const hint = nearest(key, valid);
+      ctx.addIssue({ code: "custom", path: [...path, key], message: `is not an option of ${id}${hint ? ` (did you mean ${hint}?)` : ""}; valid keys: ${valid.join(", ")}`, params: { quoteFound: false } });
+      continue;
+    }
+    const parsed = schema.safeParse(value);
+    if (!parsed.success) {
+      for (const issue of parsed.error.issues) ctx.addIssue({ code: "custom", path: [...path, key, ...issue.path], message: issue.message });
+      continue;
+    }
+    if (key !== "datasets") continue;
+    const names = datasetNames(audit);
+    (value as string[]).forEach((name, k) => {
+      if (names.includes(name)) return;
+      const hint = nearest(name, names);
+      ctx.addIssue({ code: "custom", path: [...path, key, k], message: `is not a dataset id, sweep or series of this audit${hint ? ` (did you mean ${hint}?)` : ""}: one of ${names.join(", ")}` });
+    });
+  }
+}
 
 export { datasetId };
 export type AuditDefinitionInput = z.input<typeof auditSchema>;

@@ -210,7 +210,7 @@ describe("a publish that fails half-way", () => {
     expect((await verifyVersion(a.auditDir)).reproduced).toBe(true);
   });
 
-  it("survives SIGKILL before the rename: old state, a stray staging folder that nothing reads, and a stale lock taken over", async () => {
+  it("survives SIGKILL before the rename: old state, a stray staging folder that nothing reads and the next publish removes, and a stale lock taken over", async () => {
     const a = makeTempArchive();
     await publishAudit(a.auditDir, { now: fixedClock("2026-11-30T09:00:00Z") });
     a.writeData(380, 1, "second batch");
@@ -224,6 +224,8 @@ describe("a publish that fails half-way", () => {
     expect(checkArchive(a.auditDir).problems).toEqual([]);
     expect((await publishAudit(a.auditDir)).version).toBe(2);
     expect(listVersionNumbers(a.auditDir)).toEqual([1, 2]);
+    // The killed process's staging folder is gone: the next publish removed it.
+    expect(fs.readdirSync(path.join(a.auditDir, "versions")).filter((e) => e.startsWith(".staging-"))).toEqual([]);
     expect((await verifyVersion(a.auditDir)).reproduced).toBe(true);
   });
 });

@@ -159,7 +159,7 @@ describe("build output", () => {
     const r = cliProcess(["build", "--root", root, "--out", out, "--no-cache"]);
     expect(r.code).toBe(0);
     expect(r.stdout).toBe(`site index: ${out}/index.html\n`);
-    expect(r.stderr).toBe("built 1 audit report(s)\n");
+    expect(r.stderr).toBe("built 1 audit report(s): 0 failed\n");
     fs.rmSync(root, { recursive: true, force: true });
   });
 });

@@ -3,6 +3,7 @@ import { runAudit } from "../../report/runAudit.ts";
 import { summaryTable } from "../summaryTable.ts";
 import { EXIT } from "../exit.ts";
 import { readingProgress } from "../progress.ts";
+import { removeStaleVersionStaging } from "../../archive/layout.ts";
 
 export function registerRun(program: Command, setExit: (code: number) => void): void {
   program
@@ -11,6 +12,7 @@ export function registerRun(program: Command, setExit: (code: number) => void): 
     .argument("<audit-dir>", "folder holding audit.yaml and its data")
     .option("--json", "print the result document as JSON on stdout and nothing else")
     .action(async (dir: string, opts: { json?: boolean }) => {
+      removeStaleVersionStaging(dir); // what a killed publish left behind
       const progress = readingProgress();
       let result;
       try {

@@ -8,6 +8,8 @@ import { runAudit } from "../runAudit.ts";
 import { auditPageModel, type AuditPageModel } from "../viewModel.ts";
 import { chromiumPath, launchChromium } from "./launchChromium.ts";
 import { footerTemplate, headerTemplate } from "./printTemplates.ts";
+import { refuseUnsafePdfTarget, writeFileReplacing } from "../../output/pdfTarget.ts";
+import { onInterrupt } from "../../interrupt/cancellation.ts";
 
 export interface PdfOptions {
   auditDir: string;
@@ -44,7 +46,9 @@ export async function printAuditPdf(options: PdfOptions): Promise<PdfOutcome> {
   const { result } = await runAudit(auditDir);
   const audit = auditPageModel(result);
   const out = path.resolve(options.out ?? `${audit.id}.pdf`);
+  refuseUnsafePdfTarget(out, options.out ?? `${audit.id}.pdf`);
   const tmp = fs.mkdtempSync(path.join(os.tmpdir(), "transport-audit-pdf-"));
+  const forget = onInterrupt(() => fs.rmSync(tmp, { recursive: true, force: true }));
   try {
     await renderSite(tmp, { archive: archiveOf(auditDir), audits: [audit], broken: [] });
     const { browser, close } = await launchChromium(chromium);
@@ -63,13 +67,13 @@ export async function printAuditPdf(options: PdfOptions): Promise<PdfOutcome> {
         tagged: true,
         outline: true,
       });
-      fs.mkdirSync(path.dirname(out), { recursive: true });
-      fs.writeFileSync(out, pdf);
+      await writeFileReplacing(out, pdf, "pdf:printed");
       return { file: out, bytes: pdf.length, audit };
     } finally {
       await close();
     }
   } finally {
     fs.rmSync(tmp, { recursive: true, force: true });
+    forget();
   }
 }
