@@ -44,6 +44,16 @@ async function commaColumns(): Promise<Record<string, Float64Array>> {
   return { window: table.columns.get("window")!, Q_meV: table.columns.get("Q_meV")!, n: table.columns.get("n")! };
 }
 
+/** The comma file's rows as three Parquet parts in a hive-style partition folder, as a distributed engine writes them. */
+async function writeParquetParts(target: string): Promise<void> {
+  const columns = await commaColumns();
+  fs.mkdirSync(path.join(target, "seed=20"), { recursive: true });
+  for (const [i, [start, end]] of [[0, 80], [80, 160], [160, 240]].entries()) {
+    const part = Object.fromEntries(Object.entries(columns).map(([name, values]) => [name, values.slice(start, end)]));
+    writeSamplesParquet(path.join(target, "seed=20", `part-000${i}.parquet`), part);
+  }
+}
+
 const REFERENCE: Shape = { name: "comma-separated text", file: "comma.csv", keys: BY_NAME };
 
 const SHAPES: Shape[] = [
@@ -54,6 +64,8 @@ const SHAPES: Shape[] = [
   { name: "an instrument preamble skipped", file: "preamble.txt", keys: ["skip_lines: 3", ...BY_NAME] },
   { name: "gzip (gzip -n)", file: "comma.csv.gz", keys: BY_NAME },
   { name: "Zstandard (zstd)", file: "comma.csv.zst", keys: BY_NAME },
+  { name: "three CSV parts in a folder", file: "parts", keys: BY_NAME },
+  { name: "three Parquet parts in a hive-style partition folder (hyparquet-writer)", file: "parquet-parts", write: writeParquetParts, keys: BY_NAME },
   { name: "Parquet (hyparquet-writer)", file: "samples.parquet", write: async (target) => writeSamplesParquet(target, await commaColumns()), keys: BY_NAME },
   { name: "HDF5 compound table (h5py; big-endian f8, i2 members, chunked and deflated)", file: "compound.h5", keys: ["dataset: /runs/exchange", ...BY_NAME] },
   { name: "HDF5 one 1-D dataset per column (h5py; f4, big-endian i8)", file: "columns.h5", keys: ["columns: { Q: /runs/Q, dN: /runs/n }"] },
