@@ -13,7 +13,7 @@ import { acquireLock } from "./lock.ts";
 import { makeStagingDir } from "../output/staging.ts";
 import { faultPoint } from "../output/faults.ts";
 import { onInterrupt } from "../interrupt/cancellation.ts";
-import { MANIFEST_FORMAT, manifestText, type VersionManifest } from "./manifest.ts";
+import { MANIFEST_FORMAT, manifestText, sealManifest, type VersionManifest } from "./manifest.ts";
 
 /** Points in a publish at which a test can inject a failure. */
 export type PublishStep = "staged-result" | "staged-definition" | "staged-manifest" | "before-rename" | "after-rename";
@@ -119,7 +119,7 @@ export async function publishAudit(auditDir: string, options: PublishOptions = {
       );
     }
     const number = latest ? latest.number + 1 : 1;
-    const manifest: VersionManifest = {
+    const manifest: VersionManifest = sealManifest({
       format: MANIFEST_FORMAT,
       audit: result.audit,
       version: number,
@@ -130,7 +130,7 @@ export async function publishAudit(auditDir: string, options: PublishOptions = {
       inputs: result.datasets.map((d) => ({ id: d.id, file: d.file, sha256: d.sha256, rows: d.rows })),
       files: { "result.json": sha256Of(resultText), "audit.yaml": sha256Of(definitionText) },
       previous: latest ? { version: latest.number, digest: latest.manifestDigest } : null,
-    };
+    });
     staging = makeStagingDir(versionsDir(auditDir));
     fs.chmodSync(staging, 0o755); // mkdtemp makes it private; a published version is for everyone to read
     writeDurable(path.join(staging, RESULT_FILE), resultText);

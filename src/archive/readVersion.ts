@@ -2,9 +2,8 @@ import fs from "node:fs";
 import path from "node:path";
 import { ArchiveError } from "../errors.ts";
 import type { ResultDocument } from "../report/resultDocument.ts";
-import { sha256Of } from "./digest.ts";
 import { DEFINITION_FILE, MANIFEST_FILE, RESULT_FILE, VERSIONS_DIR, versionDir } from "./layout.ts";
-import { parseManifest, type VersionManifest } from "./manifest.ts";
+import { chainDigestOf, parseManifest, type VersionManifest } from "./manifest.ts";
 import { validateResultDocument } from "./resultSchema.ts";
 
 /** One published version as stored on disk. */
@@ -12,7 +11,7 @@ export interface FrozenVersion {
   number: number;
   dir: string;
   manifest: VersionManifest;
-  /** sha256 of version.json's bytes: what the next version links to. */
+  /** The record's chain digest (manifest.ts chainDigestOf): what the next version links to. */
   manifestDigest: string;
   manifestText: string;
   resultText: string;
@@ -57,5 +56,5 @@ export function readVersion(auditDir: string, n: number): FrozenVersion {
   // Validated before any use: its ids become page paths and its numbers are shown as frozen.
   const result: ResultDocument = validateResultDocument(parsed, versionFileLabel(n, RESULT_FILE));
   const definitionText = readText(auditDir, n, DEFINITION_FILE);
-  return { number: n, dir: versionDir(auditDir, n), manifest, manifestDigest: sha256Of(manifestText), manifestText, resultText, result, definitionText };
+  return { number: n, dir: versionDir(auditDir, n), manifest, manifestDigest: chainDigestOf(manifest, manifestText), manifestText, resultText, result, definitionText };
 }

@@ -3,9 +3,10 @@ import { CHECK_IDS } from "../checks/types.ts";
 import { CHECKS } from "../checks/index.ts";
 import { optionSchemasOf } from "../checks/options.ts";
 import { nearest } from "./nearest.ts";
-import { datasetId, slug, text } from "./common.ts";
+import { calendarDate, datasetId, slug, text } from "./common.ts";
+import { doiSchema } from "./identifiers.ts";
 import { samplesDatasetSchema } from "./samplesSchema.ts";
-import { coefficientsDatasetSchema } from "./coefficientsSchema.ts";
+import { coefficientsDatasetSchema, undeclaredUnits } from "./coefficientsSchema.ts";
 import { cumulantsDatasetSchema } from "./cumulantsSchema.ts";
 
 const orcid = z
@@ -16,17 +17,31 @@ export const authorSchema = z
   .object({ name: text("a person's name"), orcid: orcid.optional(), affiliation: text().optional() })
   .strict();
 
+/** Bootstrap resamples: fewer than 200 leave a 95 % interval's ends to a handful of draws; more than 10^5 add nothing but time. */
+export const MIN_RESAMPLES = 200;
+export const MAX_RESAMPLES = 100_000;
+/** Datasets in one audit: every one is read, and group checks compare them pairwise. */
+export const MAX_DATASETS = 1000;
+
+const SEED_EXPECTED = `must be auto (seeded from the data digest) or a whole number from 0 to ${Number.MAX_SAFE_INTEGER}`;
+
 export const settingsSchema = z
   .object({
     alpha: z.number({ invalid_type_error: "must be a number in (0, 0.5)" }).gt(0, "must be in (0, 0.5)").lt(0.5, "must be in (0, 0.5)").default(0.01),
-    margin: z.number({ invalid_type_error: "must be a positive number" }).positive("must be a positive number").default(0.05),
+    margin: z.number({ invalid_type_error: "must be a number in (0, 1)" }).gt(0, "must be in (0, 1)").lt(1, "must be in (0, 1)").default(0.05),
     confidence: z.number({ invalid_type_error: "must be a number in (0.5, 1)" }).gt(0.5, "must be in (0.5, 1)").lt(1, "must be in (0.5, 1)").default(0.95),
     seed: z
-      .union([z.literal("auto"), z.number().int().nonnegative()], {
-        errorMap: () => ({ message: "must be auto (seeded from the data digest) or a non-negative integer" }),
+      // Above 2^53 − 1 neighbouring integers share a double, so two seeds would give one stream.
+      .union([z.literal("auto"), z.number().int(SEED_EXPECTED).nonnegative(SEED_EXPECTED).max(Number.MAX_SAFE_INTEGER, SEED_EXPECTED)], {
+        errorMap: () => ({ message: SEED_EXPECTED }),
       })
       .default("auto"),
-    resamples: z.number({ invalid_type_error: "must be an integer" }).int("must be an integer").min(200, "must be at least 200").default(2000),
+    resamples: z
+      .number({ invalid_type_error: `must be a whole number from ${MIN_RESAMPLES} to ${MAX_RESAMPLES}` })
+      .int(`must be a whole number from ${MIN_RESAMPLES} to ${MAX_RESAMPLES}`)
+      .min(MIN_RESAMPLES, `must be a whole number from ${MIN_RESAMPLES} to ${MAX_RESAMPLES}`)
+      .max(MAX_RESAMPLES, `must be a whole number from ${MIN_RESAMPLES} to ${MAX_RESAMPLES} (each resample re-weighs every row or cell)`)
+      .default(2000),
   })
   .strict()
   .default({});
@@ -52,11 +67,14 @@ export const auditSchema = z
     license: text("an SPDX licence identifier such as CC-BY-4.0").optional(),
     description: z.string({ invalid_type_error: "must be Markdown text" }).optional(),
     device: text().optional(),
-    date: z.string().regex(/^\d{4}-\d{2}-\d{2}$/, "must be a date written YYYY-MM-DD").optional(),
-    doi: z.string().regex(/^10\.\d{4,9}\/\S+$/, "must be a DOI such as 10.5281/zenodo.1234567").optional(),
+    date: calendarDate.optional(),
+    doi: doiSchema.optional(),
     keywords: z.array(text()).optional(),
     settings: settingsSchema,
-    datasets: z.array(datasetSchema).min(1, "must list at least one dataset"),
+    datasets: z
+      .array(datasetSchema)
+      .min(1, "must list at least one dataset")
+      .max(MAX_DATASETS, `must list at most ${MAX_DATASETS} datasets; split a larger study into several audits`),
     checks: z.union([z.literal("all"), z.array(checkEntry)], {
       errorMap: () => ({ message: "must be all, or a list of check ids" }),
     }).default("all"),
@@ -65,6 +83,8 @@ export const auditSchema = z
   .superRefine((audit, ctx) => {
     const seen = new Map<string, number>();
     audit.datasets.forEach((d, i) => {
+      const unitsProblem = d.kind === "coefficients" ? undeclaredUnits(d) : null;
+      if (unitsProblem) ctx.addIssue({ code: "custom", path: ["datasets", i, "units"], message: unitsProblem, params: { quoteFound: false } });
       const first = seen.get(d.id);
       if (first !== undefined) {
         ctx.addIssue({ code: "custom", path: ["datasets", i, "id"], message: `duplicates the id of datasets[${first}]` });
