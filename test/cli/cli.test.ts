@@ -20,7 +20,7 @@ describe("transport-audit command line (contract: audit-format.md)", () => {
     expect(doc.tool).toEqual({ name: "transport-audit", version: expect.any(String) });
     expect(doc.fingerprint).toMatch(/^sha256:[0-9a-f]{64}$/);
     expect(["pass", "fail", "inconclusive"]).toContain(doc.stamp);
-    expect(doc.datasets[0]).toEqual({ id: "pulse-40ns", file: "data/exchange.csv", sha256: expect.stringMatching(/^[0-9a-f]{64}$/), rows: expect.any(Number) });
+    expect(doc.datasets[0]).toEqual({ id: "pulse-40ns", file: "data/exchange.csv", sha256: expect.stringMatching(/^[0-9a-f]{64}$/), rows: expect.any(Number), format: "comma-separated text (detected)" });
     const secondLaw = doc.checks.find((c: { check: string }) => c.check === "second-law");
     expect(secondLaw).toMatchObject({ dataset: "pulse-40ns", status: expect.any(String), summary: expect.any(String) });
     expect(secondLaw.values.ci).toHaveLength(2);
