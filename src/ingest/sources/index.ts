@@ -1,6 +1,9 @@
 import { ConfigError } from "../../errors.ts";
 import { compressionSuffix } from "./fileBytes.ts";
 import { parquetSource } from "./parquetSource.ts";
+import { hdf5Source } from "./hdf5/hdf5Source.ts";
+import { npySource } from "./numpy/npySource.ts";
+import { npzSource } from "./numpy/npzSource.ts";
 import { textSource } from "./text/textSource.ts";
 import type { OpenSource, SourceModule, SourceRequest } from "./types.ts";
 
@@ -14,6 +17,9 @@ export type * from "./types.ts";
 export const SOURCES: readonly SourceModule[] = [
   textSource, // comma, tab, semicolon, whitespace; plain, .gz, .zst
   parquetSource, // parquet
+  hdf5Source, // hdf5: a compound table or 2-D array (dataset:), or one 1-D dataset per column
+  npySource, // npy: a structured or 2-D array
+  npzSource, // npz: one 1-D array per column
 ];
 
 /** Every `format:` value, for the configuration's message. */
@@ -32,7 +38,7 @@ export function chooseSource(fileName: string, format: string | undefined, keyPa
     if (detected !== null) return { module, format: detected };
   }
   throw new ConfigError(
-    `audit.yaml ${keyPath}.file: ${JSON.stringify(fileName)} has no extension this tool knows (.csv, .tsv, .txt, .dat, .parquet, optionally .gz or .zst); name the layout with format: (${FORMAT_NAMES.join(", ")})`,
+    `audit.yaml ${keyPath}.file: ${JSON.stringify(fileName)} has no extension this tool knows (.csv, .tsv, .txt, .dat, .parquet, optionally .gz or .zst; .h5, .hdf5, .npy, .npz); name the layout with format: (${FORMAT_NAMES.join(", ")})`,
   );
 }
 
