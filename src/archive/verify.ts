@@ -8,7 +8,7 @@ import { canonicalJson } from "../report/canonicalJson.ts";
 import type { ResultDocument } from "../report/resultDocument.ts";
 import { resultDocumentOf, runChecks } from "../report/runAudit.ts";
 import { TOOL } from "../version.ts";
-import { sha256HexOfFile } from "../ingest/fileDigest.ts";
+import { datasetDigest } from "../ingest/fileDigest.ts";
 import { diffValues, formatPath, formatValue, type ValueDifference } from "./diffValues.ts";
 import { checkArchive, type IntegrityProblem } from "./integrity.ts";
 import { DEFINITION_FILE, VERSIONS_DIR, listVersionNumbers } from "./layout.ts";
@@ -126,15 +126,14 @@ function describeResultDifferences(frozen: ResultDocument, diffs: ValueDifferenc
 function checkDataFiles(auditDir: string, v: FrozenVersion): DataFileProblem[] {
   const out: DataFileProblem[] = [];
   for (const input of v.manifest.inputs) {
-    let file: string;
+    // A dataset's file may be a folder or a glob of parts: its digest is then the one over the parts' list.
+    let now: string | null;
     try {
-      file = confinePath(auditDir, input.file, "file");
+      now = datasetDigest(auditDir, input.file, "file");
     } catch (err) {
       if (!(err instanceof InputError)) throw err;
-      out.push({ dataset: input.id, file: input.file, frozen: input.sha256, now: null });
-      continue;
+      now = null; // gone, outside the audit, or no longer readable
     }
-    const now = fs.existsSync(file) ? sha256HexOfFile(file) : null;
     if (now !== input.sha256) out.push({ dataset: input.id, file: input.file, frozen: input.sha256, now });
   }
   return out;
