@@ -21,7 +21,7 @@ export interface LazyCommand {
 /** Every command, in the order the help lists them. A new command is one more line here. */
 export const COMMANDS: readonly LazyCommand[] = [
   { term: "run [options] <audit-dir>", summary: "ingest an audit folder, run every selected check and print a summary (or the result document with --json)", load: async () => (await import("./commands/run.ts")).registerRun },
-  { term: "build [options]", summary: "run every audit under <root>/audits and render the static report site", load: async () => (await import("./commands/build.ts")).registerBuild },
+  { term: "build [options]", summary: "run every audit under <root>/audits and render the static report site; exit status 1 when an audit has a failed check (unless --allow-fail), 2 when one could not be audited or its published versions are damaged", load: async () => (await import("./commands/build.ts")).registerBuild },
   { term: "init <audit-dir>", summary: "scaffold a new audit folder with a commented audit.yaml", load: async () => (await import("./commands/init.ts")).registerInit },
   { term: "publish <audit-dir>", summary: "run the audit and freeze its result as the next immutable version under <audit-dir>/versions/<N>/", load: async () => (await import("./commands/publish.ts")).registerPublish },
   { term: "verify [options] <audit-dir>", summary: "re-run a published version from the data and confirm it is reproduced exactly (hash chain, data digests, every result digit)", load: async () => (await import("./commands/verify.ts")).registerVerify },
