@@ -2,14 +2,15 @@ import os from "node:os";
 import type { Worker } from "node:worker_threads";
 import { InputError } from "../errors.ts";
 import { startTsWorker } from "../threads/tsWorker.ts";
-import { runAuditCached, type CachedRun, type CacheUse } from "./resultCache.ts";
+import { implementationDigest, runAuditCached, type CachedRun, type CacheUse } from "./resultCache.ts";
 
 /** What running one audit folder gave: its result, or the input error that stopped it. */
 export type AuditOutcome = { kind: "run"; run: CachedRun } | { kind: "input-error"; message: string };
 
 /**
- * Archives with fewer audits than this run in this thread: a worker takes about
- * a second to start (tsx compiles the sources), more than a dozen small audits take.
+ * Archives with fewer audits than this run in this thread: from the sources a
+ * worker takes about a second to start (tsx compiles them), more than a dozen
+ * small audits take.
  */
 export const POOL_FROM_AUDITS = 12;
 
@@ -56,12 +57,14 @@ async function runInThisThread(folders: readonly string[], cache: CacheUse, onDo
 }
 
 /**
- * A worker on auditWorker.ts through tsx's loader. Not a bundle: the result
- * cache trusts an entry only if it was written by the same sources, which it
- * digests from its own folder (src/), and a bundle elsewhere has no such folder.
+ * A worker on auditWorker.ts: its compiled module in the installed package,
+ * the sources through tsx's loader otherwise. Not a bundle: the result cache
+ * trusts an entry only if it was written by the same code, which it digests
+ * from its own folder (src/ or dist/), and a bundle elsewhere has no such folder.
+ * The digest is taken here once and handed to every worker.
  */
 function startAuditWorker(cache: CacheUse): Worker {
-  return startTsWorker(new URL("./auditWorker.ts", import.meta.url), { cache });
+  return startTsWorker(new URL("./auditWorker.ts", import.meta.url), { cache: { ...cache, implementation: cache.implementation ?? implementationDigest() } });
 }
 
 function runOnWorkers(folders: readonly string[], cache: CacheUse, threads: number, onDone?: (done: number, total: number, folder: string) => void): Promise<AuditOutcome[]> {

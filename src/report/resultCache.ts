@@ -1,12 +1,14 @@
-import { createHash, randomBytes } from "node:crypto";
+import { randomBytes } from "node:crypto";
 import fs from "node:fs";
 import path from "node:path";
 import { fileURLToPath } from "node:url";
 import { loadAuditDefinition } from "../config/loadAudit.ts";
 import { datasetDigest } from "../ingest/fileDigest.ts";
+import { loadCacheKey, sealOf, userCacheDir, type CacheKey } from "./cacheKey.ts";
 import { canonicalJson } from "./canonicalJson.ts";
 import type { ResultDocument } from "./resultDocument.ts";
 import { fingerprintFromDigests, runAudit, type InputDigest } from "./runAudit.ts";
+import { toolDigest, type ToolLayout } from "./toolDigest.ts";
 
 /**
  * Result cache of site builds. An audit whose definition, data bytes and tool
@@ -24,7 +26,7 @@ import { fingerprintFromDigests, runAudit, type InputDigest } from "./runAudit.t
 export const RESULT_CACHE_FOLDER = path.join(".cache", "transport-audit", "results");
 
 /** Format tag of a cache entry; entries with another tag are ignored. */
-const ENTRY_FORMAT = "transport-audit result cache 1";
+const ENTRY_FORMAT = "transport-audit result cache 2";
 
 export function resultCacheDir(root: string): string {
   return path.join(root, RESULT_CACHE_FOLDER);
@@ -52,85 +54,119 @@ export function folderFingerprint(dir: string): string {
   return fingerprintFromDigests(definition, inputs);
 }
 
-function sourceFiles(dir: string): string[] {
-  return fs
-    .readdirSync(dir, { withFileTypes: true })
-    .flatMap((e) => (e.isDirectory() ? sourceFiles(path.join(dir, e.name)) : e.isFile() ? [path.join(dir, e.name)] : []));
+/** The tool's layout as this module finds it: src/ when run from the sources, dist/ when compiled. */
+function ownLayout(): ToolLayout {
+  const here = fileURLToPath(import.meta.url);
+  const code = path.resolve(path.dirname(here), "..");
+  return { root: path.dirname(code), code, entry: path.join(code, "report", `runAudit${path.extname(here)}`) };
 }
 
-function digestOfSources(): string {
-  const src = path.resolve(path.dirname(fileURLToPath(import.meta.url)), "..");
-  try {
-    const files = [...sourceFiles(src), path.join(src, "..", "package.json")].sort();
-    const hash = createHash("sha256");
-    for (const file of files) {
-      const bytes = fs.readFileSync(file);
-      // Name and length before the bytes, so that no two file sets give the same stream.
-      hash.update(`${path.relative(src, file)}\0${bytes.length}\0`);
-      hash.update(bytes);
-    }
-    return hash.digest("hex");
-  } catch {
-    // Sources that cannot be read cannot vouch for an entry: this process then trusts only its own.
-    return `unread-${randomBytes(16).toString("hex")}`;
-  }
-}
+let implementation: string | null = null;
 
 /**
- * Digest of the tool's own code (every file under src/, whatever its kind,
- * and package.json), taken once when this module loads, right after the code
- * itself was read. The fingerprint names the tool only by its version, which
- * does not move while someone edits a check; an entry written by other code
- * is therefore not trusted even when the fingerprint matches, so that a
- * build never shows results of code that no longer exists.
+ * Digest of the tool's own code (every file of src/, or of dist/ in the
+ * compiled package, and package.json), the lockfile's resolved dependency
+ * versions and integrity hashes, and the installed code of the packages an
+ * audit uses (toolDigest.ts). The fingerprint names the tool only by its
+ * version, which does not move while someone edits a check or a dependency;
+ * an entry written under another digest is therefore not trusted even when
+ * the fingerprint matches, so that a build never shows results of code that
+ * no longer exists. Taken on first use (about 0.1 s of CPU), once a process.
  */
-const IMPLEMENTATION = digestOfSources();
-
 export function implementationDigest(): string {
-  return IMPLEMENTATION;
+  if (implementation === null) {
+    try {
+      implementation = toolDigest(ownLayout());
+    } catch {
+      // Code that cannot be read cannot vouch for an entry: this process then trusts only its own.
+      implementation = `unread-${randomBytes(16).toString("hex")}`;
+    }
+  }
+  return implementation;
+}
+
+const keys = new Map<string, CacheKey | null>();
+
+/** This user's key for sealing entries (cacheKey.ts), read once a process; null when there is no private place for one. */
+function currentKey(): CacheKey | null {
+  const dir = userCacheDir();
+  if (!keys.has(dir)) keys.set(dir, loadCacheKey(dir));
+  return keys.get(dir)!;
 }
 
 interface CacheEntry {
   format: string;
   fingerprint: string;
   implementation: string;
+  /** Id of the key that sealed the entry. */
+  key: string;
+  /** HMAC of the entry's other fields (sealedText), checked on every read. */
+  seal: string;
   result: ResultDocument;
 }
 
+/** The text an entry's seal covers: every field but the seal, as canonical JSON. */
+function sealedText(entry: Omit<CacheEntry, "seal">): string {
+  return canonicalJson({ format: entry.format, fingerprint: entry.fingerprint, implementation: entry.implementation, key: entry.key, result: entry.result });
+}
+
 /**
- * The stored result document for a fingerprint, or null when there is no
- * entry, it does not parse, or it was written for another fingerprint, by
- * other code or in another format. A bad entry is never an error: the caller
- * recomputes and overwrites it.
+ * What reading an entry gave: the result; nothing to use (no entry, or one
+ * written by another tool version, other code or under another user's key,
+ * which is no cause for alarm); or an entry that is there for this very code
+ * and key but does not match its seal or its name (edited, forged or
+ * damaged), which the caller reports.
  */
-export function readCachedResult(cacheDir: string, fingerprint: string): ResultDocument | null {
+export type CacheRead = { kind: "hit"; result: ResultDocument } | { kind: "miss" } | { kind: "untrusted"; reason: string };
+
+export function readCacheEntry(cacheDir: string, fingerprint: string, implementationOf = implementationDigest()): CacheRead {
+  const key = currentKey();
+  if (key === null) return { kind: "miss" };
   let text: string;
   try {
     text = fs.readFileSync(cacheFileOf(cacheDir, fingerprint), "utf8");
   } catch {
-    return null;
+    return { kind: "miss" };
   }
   let entry: Partial<CacheEntry>;
   try {
     entry = JSON.parse(text) as Partial<CacheEntry>;
   } catch {
-    return null;
+    return { kind: "untrusted", reason: "does not parse as JSON" };
   }
-  if (entry === null || typeof entry !== "object") return null;
-  if (entry.format !== ENTRY_FORMAT || entry.fingerprint !== fingerprint || entry.implementation !== implementationDigest()) return null;
+  if (entry === null || typeof entry !== "object") return { kind: "untrusted", reason: "is not a cache entry" };
+  if (entry.format !== ENTRY_FORMAT || entry.implementation !== implementationOf || entry.key !== key.id) return { kind: "miss" };
+  const { seal, ...sealed } = entry as CacheEntry;
+  if (typeof seal !== "string" || seal !== sealOf(key, sealedText(sealed))) return { kind: "untrusted", reason: "does not match its digest (edited or damaged)" };
   const result = entry.result;
-  if (result === null || typeof result !== "object" || result.fingerprint !== fingerprint || !Array.isArray(result.checks)) return null;
-  return result;
+  if (entry.fingerprint !== fingerprint || result === null || typeof result !== "object" || result.fingerprint !== fingerprint || !Array.isArray(result.checks)) {
+    return { kind: "untrusted", reason: "was written for another audit state" };
+  }
+  return { kind: "hit", result };
 }
 
 /**
- * Store a result document under its fingerprint: canonical JSON written to a
- * temporary file in the same folder and renamed over the entry, so a reader
- * sees either the old entry or the whole new one, never a torn file. Returns
- * false when the entry could not be written.
+ * The stored result document for a fingerprint, or null when there is no
+ * usable entry (readCacheEntry). A bad entry is never an error: the caller
+ * recomputes and overwrites it.
  */
-export function writeCachedResult(cacheDir: string, result: ResultDocument): boolean {
-  const entry: CacheEntry = { format: ENTRY_FORMAT, fingerprint: result.fingerprint, implementation: implementationDigest(), result };
+export function readCachedResult(cacheDir: string, fingerprint: string): ResultDocument | null {
+  const read = readCacheEntry(cacheDir, fingerprint);
+  return read.kind === "hit" ? read.result : null;
+}
+
+/**
+ * Store a result document under its fingerprint, sealed with this user's
+ * key: canonical JSON written to a temporary file in the same folder and
+ * renamed over the entry, so a reader sees either the old entry or the whole
+ * new one, never a torn file. Returns false when the entry could not be
+ * written (or there is no key to seal it with).
+ */
+export function writeCachedResult(cacheDir: string, result: ResultDocument, implementationOf = implementationDigest()): boolean {
+  const key = currentKey();
+  if (key === null) return false;
+  const sealed = { format: ENTRY_FORMAT, fingerprint: result.fingerprint, implementation: implementationOf, key: key.id, result };
+  const entry: CacheEntry = { ...sealed, seal: sealOf(key, sealedText(sealed)) };
   const target = cacheFileOf(cacheDir, result.fingerprint);
   const temporary = `${target}.${process.pid}.${randomBytes(6).toString("hex")}.tmp`;
   try {
@@ -197,6 +233,8 @@ export interface CacheUse {
   dir: string;
   /** Take stored results when they match (false: recompute every audit, but still store the results). */
   read: boolean;
+  /** implementationDigest() as the thread that made the pool took it, so that worker threads need not take it again. */
+  implementation?: string;
 }
 
 export interface CachedRun {
@@ -212,6 +250,7 @@ export interface CachedRun {
  * run exactly as without a cache; only successful results are stored.
  */
 export async function runAuditCached(dir: string, cache: CacheUse): Promise<CachedRun> {
+  const implementationOf = cache.implementation ?? implementationDigest();
   if (cache.read) {
     let fingerprint: string | null = null;
     try {
@@ -219,10 +258,15 @@ export async function runAuditCached(dir: string, cache: CacheUse): Promise<Cach
     } catch {
       // An unreadable definition or data file: the full run below reports it with its proper message.
     }
-    const stored = fingerprint === null ? null : readCachedResult(cache.dir, fingerprint);
-    if (stored) return { result: stored, fromCache: true, stored: true };
+    if (fingerprint !== null) {
+      const read = readCacheEntry(cache.dir, fingerprint, implementationOf);
+      if (read.kind === "hit") return { result: read.result, fromCache: true, stored: true };
+      if (read.kind === "untrusted") {
+        process.stderr.write(`warning: the cached result of ${dir} (${cacheFileOf(cache.dir, fingerprint)}) ${read.reason}; running the audit again\n`);
+      }
+    }
   }
   const { result } = await runAudit(dir);
-  const written = writeCachedResult(cache.dir, result);
+  const written = writeCachedResult(cache.dir, result, implementationOf);
   return { result: asStored(result), fromCache: false, stored: written };
 }

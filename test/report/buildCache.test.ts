@@ -260,7 +260,7 @@ describe("damaged or unwritable cache", () => {
       whole.slice(0, Math.floor(whole.length / 2)), // torn write
       "", // empty file
       "null",
-      whole.replace('"transport-audit result cache 1"', '"transport-audit result cache 0"'), // other format
+      whole.replace('"transport-audit result cache 2"', '"transport-audit result cache 1"'), // other format
       whole.replace(/"implementation":"[0-9a-f]+"/, `"implementation":"${"0".repeat(64)}"`), // other code
       whole.replace(/"checks":\[/, '"checks":7,"was":['), // parses, but not a result document
     ];

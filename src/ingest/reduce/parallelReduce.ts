@@ -5,7 +5,7 @@ import { fileURLToPath } from "node:url";
 import { createHash } from "node:crypto";
 import { threadId, Worker } from "node:worker_threads";
 import type { ScanLayout } from "../fast/scanLines.ts";
-import { startTsWorker } from "../../threads/tsWorker.ts";
+import { RUNNING_COMPILED, startTsWorker } from "../../threads/tsWorker.ts";
 import { reduceFileRange, type SamplesPartSummary, type SamplesReductionSpec } from "./samplesSink.ts";
 
 /** One thread's share of a file. */
@@ -123,6 +123,7 @@ export function cachedWorkerBundle(indexFile = bundleIndexFile()): string | null
  * 70–110 ms esbuild takes. Null when bundling is not possible (then tsx is used).
  */
 export function workerBundle(): Promise<string | null> {
+  if (RUNNING_COMPILED) return Promise.resolve(null); // the compiled worker.js starts as fast as a bundle
   const cached = bundled === null ? cachedWorkerBundle() : null;
   if (cached !== null) bundled = Promise.resolve(cached);
   bundled ??= (async () => {
