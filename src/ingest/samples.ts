@@ -146,7 +146,7 @@ function conductorFields(
   Q: Float64Array,
   weight: Float64Array | null,
   problems: ProblemLog,
-): { dN: Float64Array | null; sigma: Float64Array | null; states: ConductorStates | null } {
+): { dN: Float64Array | null; sigma: Float64Array | null; states: ConductorStates | null; leadParticles: { A: Float64Array; B: Float64Array } | null } {
   const n = table.rows;
   let dN: Float64Array | null = null;
   let held: Float64Array | null = null;
@@ -162,13 +162,14 @@ function conductorFields(
     stateLabels(raw.state_start, n, table.lines, c.roles.state_start!, problems);
     stateLabels(raw.state_end, n, table.lines, c.roles.state_end!, problems);
   }
-  if (!held && !raw.state_start) return { dN: null, sigma: null, states: null };
+  const leadParticles = raw.dN_A && raw.dN_B ? { A: Float64Array.from(raw.dN_A.subarray(0, n)), B: Float64Array.from(raw.dN_B.subarray(0, n)) } : null;
+  if (!held && !raw.state_start) return { dN: null, sigma: null, states: null, leadParticles };
   const sigmaRes = entropyProduction(affinity, W, Q, dN ?? Float64Array.from(raw.dN ?? new Float64Array(n)));
   if (held) {
     const meanBetaMu = (c.A.beta * c.A.mu + c.B.beta * c.B.mu) / 2;
     for (let i = 0; i < n; i++) sigmaRes[i] -= meanBetaMu * held[i];
   }
-  if (!raw.state_start || problems.count > 0) return { dN, sigma: sigmaRes, states: null };
+  if (!raw.state_start || problems.count > 0) return { dN, sigma: sigmaRes, states: null, leadParticles };
   const states = conductorStates({
     start: raw.state_start,
     end: raw.state_end!,
@@ -181,11 +182,11 @@ function conductorFields(
   });
   const sigma = new Float64Array(n);
   for (let i = 0; i < n; i++) sigma[i] = sigmaRes[i] + states.boundary[i];
-  return { dN, sigma, states };
+  return { dN, sigma, states, leadParticles };
 }
 
 /** Every row kept as read: the dataset's arrays straight from the rows. */
-function exactFields(input: ReduceInput, table: RawSamples, located: "line" | "row", conductor?: ConductorInput): ReducedFields & { states?: ConductorStates | null } {
+function exactFields(input: ReduceInput, table: RawSamples, located: "line" | "row", conductor?: ConductorInput): ReducedFields & Pick<SamplesDataset, "states" | "leadParticles"> {
   const problems = newProblemLog();
   const rows = sampleRowsOf(table.raw, input.roles, input.joules, table.rows, table.lines, problems);
   if (problems.count > 0) throw new DataError(formatRowProblems(input.label, problems, located));
@@ -193,7 +194,7 @@ function exactFields(input: ReduceInput, table: RawSamples, located: "line" | "r
   const W = input.workZero ? new Float64Array(table.rows) : W_data!;
   const realisations = rows.weight ? rows.weight.reduce((a, c) => a + c, 0) : table.rows;
   if (rows.weight && realisations === 0) throw new DataError(`${input.label}: every count in column "${input.roles.count}" is zero; there are no realisations`);
-  const held = conductor ? conductorFields(conductor, table.raw, table, input.affinity, W, rows.Q, rows.weight, problems) : { dN: null, sigma: null, states: null };
+  const held = conductor ? conductorFields(conductor, table.raw, table, input.affinity, W, rows.Q, rows.weight, problems) : { dN: null, sigma: null, states: null, leadParticles: null };
   if (problems.count > 0) throw new DataError(formatRowProblems(input.label, problems, located));
   const dN = held.dN ?? rows.dN ?? new Float64Array(table.rows);
   const sigma = held.sigma ?? entropyProduction(input.affinity, W, rows.Q, dN);
@@ -213,6 +214,7 @@ function exactFields(input: ReduceInput, table: RawSamples, located: "line" | "r
     sigma,
     reduction: null,
     states: held.states,
+    leadParticles: held.leadParticles,
   };
 }
 

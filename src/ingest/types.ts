@@ -48,6 +48,8 @@ export interface SamplesDataset extends DatasetRecord {
    * `sigma` is the total entropy production Σ_tot = Σ_res + ln p(x₀) − ln p(x_τ) (physics.md §4b).
    */
   states?: ConductorStates | null;
+  /** Particles gained by each lead (roles dN_A, dN_B), when the conductor can hold some; absent or null otherwise. */
+  leadParticles?: { A: Float64Array; B: Float64Array } | null;
   /**
    * Realisations that are consecutive windows cut from one trajectory (a `trace` dataset): intervals
    * resample blocks of windows. Absent or null for independent realisations.
