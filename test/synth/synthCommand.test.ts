@@ -3,13 +3,14 @@ import os from "node:os";
 import path from "node:path";
 import { describe, expect, it } from "vitest";
 import { cli } from "../helpers/cliInProcess.ts";
-import { DOT_PARAMETERS, FERMION_PARAMETERS, TILTED_PARAMETERS } from "../../src/synth/index.ts";
+import { DOT_PARAMETERS, DOUBLE_DOT_PARAMETERS, FERMION_PARAMETERS, TILTED_PARAMETERS } from "../../src/synth/index.ts";
 import { parseParameters } from "../../src/synth/parameters.ts";
 
 describe("transport-audit synth (contract: audit-format.md)", () => {
   for (const [model, table] of [
     ["fermions", FERMION_PARAMETERS],
     ["dot", DOT_PARAMETERS],
+    ["double-dot", DOUBLE_DOT_PARAMETERS],
     ["tilted", TILTED_PARAMETERS],
   ] as const) {
     it(`synth ${model} --help lists every parameter with its unit and default`, async () => {
