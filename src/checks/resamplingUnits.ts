@@ -90,6 +90,7 @@ export function countingAssumptions(d: SamplesDataset, assumptions: string[]): s
   const out = assumptions.filter((a) => !(twoPoint.test(a) && (d.states || /^Realisations/.test(a))));
   if (d.states) out.unshift(...stateAssumptionsOf(d));
   else out.unshift("Counting starts in the conductor's stationary state; without its states at the window ends only the long-time symmetry holds (Lebowitz & Spohn 1999).");
+  if (d.traceNotes) out.push(...d.traceNotes);
   if (d.windows) {
     out.push(
       `Realisations are consecutive windows of one trajectory: intervals resample ${d.windows.blocks} blocks of ${d.windows.blockLength} windows (${d.windows.rule}), never single windows.`,

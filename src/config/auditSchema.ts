@@ -5,6 +5,7 @@ import { datasetId, slug, text } from "./common.ts";
 import { samplesDatasetSchema } from "./samplesSchema.ts";
 import { coefficientsDatasetSchema } from "./coefficientsSchema.ts";
 import { cumulantsDatasetSchema } from "./cumulantsSchema.ts";
+import { traceDatasetSchema } from "./traceSchema.ts";
 
 const orcid = z
   .string({ invalid_type_error: "must be text" })
@@ -29,10 +30,10 @@ export const settingsSchema = z
   .strict()
   .default({});
 
-export const datasetSchema = z.discriminatedUnion("kind", [samplesDatasetSchema, coefficientsDatasetSchema, cumulantsDatasetSchema], {
+export const datasetSchema = z.discriminatedUnion("kind", [samplesDatasetSchema, coefficientsDatasetSchema, cumulantsDatasetSchema, traceDatasetSchema], {
   errorMap: (issue, ctx) =>
     issue.code === "invalid_union_discriminator"
-      ? { message: "kind must be one of samples, coefficients, cumulants" }
+      ? { message: "kind must be one of samples, coefficients, cumulants, trace" }
       : { message: ctx.defaultError },
 });
 

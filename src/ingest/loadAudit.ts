@@ -5,6 +5,7 @@ import type { AuditDefinition } from "../config/types.ts";
 import { loadSamples } from "./samples.ts";
 import { loadCoefficients } from "./coefficients.ts";
 import { loadCumulants } from "./cumulants.ts";
+import { loadTrace } from "./trace/loadTrace.ts";
 import type { Dataset, IngestedAudit } from "./types.ts";
 
 export interface IngestOptions {
@@ -27,6 +28,9 @@ export async function ingestDefinition(dir: string, definition: AuditDefinition,
         break;
       case "cumulants":
         datasets.push(await loadCumulants(config, filePath, keyPath));
+        break;
+      case "trace":
+        datasets.push(...(await loadTrace(config, filePath, keyPath)));
         break;
     }
   }

@@ -37,6 +37,45 @@ export interface SamplesReadOptions {
  * production of every realisation.
  */
 export async function loadSamples(config: SamplesDatasetConfig, filePath: string, keyPath: string, options: SamplesReadOptions = {}): Promise<SamplesDataset> {
+  const { head, input, conductor, roles, where } = prepareSamples(config, filePath, keyPath);
+  const large = fileSize(filePath) > (options.reduceAboveBytes ?? REDUCE_ABOVE_BYTES);
+  if (large && conductorHeld(roles)) {
+    // Summarising into cells would pool realisations with different end states; not supported yet.
+    throw new ConfigError(
+      `${where}.columns: ${config.file} is larger than ${Math.round((options.reduceAboveBytes ?? REDUCE_ABOVE_BYTES) / 2 ** 20)} MB and would be summarised while read, which does not yet keep the conductor's states or per-lead particle counts (state_start, state_end, dN_A, dN_B); give the windows as a histogram with a count column, or cut the file into smaller datasets`,
+    );
+  }
+  if (isParquetFile(config.file)) {
+    return { ...head, ...(large ? await reduceSamplesParquet(input, options) : exactFields(input, await readParquetRaw(input), "row", conductor)) };
+  }
+  if (large) {
+    const reduced = await reduceSamplesFile(input, options);
+    if (reduced !== null) return { ...head, ...reduced };
+  }
+  const table = await readNumericTable(filePath, config.file, input.requests, { onBytes: options.onBytes });
+  const raw: Partial<Record<SampleRole, Float64Array>> = {};
+  for (const role of SAMPLE_ROLES) if (roles[role] !== undefined) raw[role] = table.columns.get(roles[role]!);
+  return { ...head, ...exactFields(input, { raw, rows: table.rows, lines: table.lineOfRow, sha256: table.sha256 }, "line", conductor) };
+}
+
+/**
+ * A samples dataset from columns already in hand (declared units), keyed by role: the per-window samples
+ * a `trace` dataset builds. `lines` locate each row for messages; `sha256` is the source file's digest.
+ */
+export function samplesFromColumns(
+  config: SamplesDatasetConfig,
+  keyPath: string,
+  raw: Partial<Record<SampleRole, Float64Array>>,
+  rows: number,
+  lines: ArrayLike<number>,
+  sha256: string,
+): SamplesDataset {
+  const { head, input, conductor } = prepareSamples(config, config.file, keyPath);
+  return { ...head, ...exactFields(input, { raw, rows, lines, sha256 }, "row", conductor) };
+}
+
+/** Roles checked, units and reservoirs resolved: everything a samples dataset needs before its rows. */
+function prepareSamples(config: SamplesDatasetConfig, filePath: string, keyPath: string) {
   const where = `audit.yaml ${keyPath}`;
   const roles = config.columns as SampleRoles & Partial<Record<string, string>>;
   const hasQ = roles.Q !== undefined;
@@ -54,11 +93,13 @@ export async function loadSamples(config: SamplesDatasetConfig, filePath: string
   }
   checkStateRoles(roles, config, where);
   const joules = joulesPerEnergyUnit(config.energy_unit as EnergyUnit, config.reference_temperature, `${where}.energy_unit`);
-
   const A = reservoirState(config.reservoirs.A, joules);
   const B = reservoirState(config.reservoirs.B, joules);
   const affinity = affinities(A, B);
-  const base = {
+  const head = {
+    kind: "samples" as const,
+    id: config.id,
+    file: config.file,
     config,
     reservoirs: { A, B },
     affinity,
@@ -66,30 +107,11 @@ export async function loadSamples(config: SamplesDatasetConfig, filePath: string
     hasParticleColumn: roles.dN !== undefined || roles.dN_A !== undefined,
     tau: config.tau ?? null,
   };
-
   // Columns in the order audit.yaml maps them (messages list problems in that order).
   const requests: ColumnRequest[] = Object.entries(roles).map(([role, column]) => ({ role, column: column! }));
   const input: ReduceInput = { filePath, label: config.file, requests, roles, joules, affinity, workZero: config.work === "zero" };
-  const large = fileSize(filePath) > (options.reduceAboveBytes ?? REDUCE_ABOVE_BYTES);
   const conductor: ConductorInput = { roles, A, B, declared: config.state_distribution, file: config.file, where };
-  if (large && conductorHeld(roles)) {
-    // Summarising into cells would pool realisations with different end states; not supported yet.
-    throw new ConfigError(
-      `${where}.columns: ${config.file} is larger than ${Math.round((options.reduceAboveBytes ?? REDUCE_ABOVE_BYTES) / 2 ** 20)} MB and would be summarised while read, which does not yet keep the conductor's states or per-lead particle counts (state_start, state_end, dN_A, dN_B); give the windows as a histogram with a count column, or cut the file into smaller datasets`,
-    );
-  }
-  const head = { kind: "samples" as const, id: config.id, file: config.file, ...base };
-  if (isParquetFile(config.file)) {
-    return { ...head, ...(large ? await reduceSamplesParquet(input, options) : exactFields(input, await readParquetRaw(input), "row", conductor)) };
-  }
-  if (large) {
-    const reduced = await reduceSamplesFile(input, options);
-    if (reduced !== null) return { ...head, ...reduced };
-  }
-  const table = await readNumericTable(filePath, config.file, requests, { onBytes: options.onBytes });
-  const raw: Partial<Record<SampleRole, Float64Array>> = {};
-  for (const role of SAMPLE_ROLES) if (roles[role] !== undefined) raw[role] = table.columns.get(roles[role]!);
-  return { ...head, ...exactFields(input, { raw, rows: table.rows, lines: table.lineOfRow, sha256: table.sha256 }, "line", conductor) };
+  return { head, input, conductor, roles, where };
 }
 
 /** Raw columns of a whole file (declared units), with each row's line (CSV) or 1-based row number (Parquet). */

@@ -55,6 +55,8 @@ export interface SamplesDataset extends DatasetRecord {
    * resample blocks of windows. Absent or null for independent realisations.
    */
   windows?: WindowBlocks | null;
+  /** What the trace's detection says about missed events (trace datasets), for the report. */
+  traceNotes?: string[];
 }
 
 /** The conductor's state at the ends of each realisation and its stationary distribution. */
