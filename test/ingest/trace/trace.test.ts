@@ -94,3 +94,60 @@ describe("kind: trace", () => {
     expect(e.message).toBe('data/trace.csv, line 4, column "t": time 0.2 comes before the previous row\'s 0.3; a trace lists its rows in time order');
   });
 });
+
+describe("windows of a trace against the same windows as independent samples", () => {
+  it("give the same verdicts when neighbouring windows are nearly independent (long windows of a fast double dot)", async () => {
+    const { synthDoubleDot } = await import("../../../src/synth/index.ts");
+    const { runAudit } = await import("../../../src/report/runAudit.ts");
+    const sim = synthDoubleDot({ samples: "4000", tau: "10", seed: "trace vs samples" });
+    const header = `id: trace-vs-samples
+title: Trace against samples
+authors: [{ name: "Test Author" }]
+datasets:
+`;
+    const leads = `    energy_unit: meV
+    reservoirs: { A: { T: 1, mu: 0.08 }, B: { T: 1, mu: 0 } }`;
+    const traceDir = tempAudit(
+      `${header}  - id: dd
+    kind: trace
+    file: data/trace.csv
+    signal: transitions
+    columns: { time: time, state: state }
+    time_unit: ns
+    windows: [10]
+${leads}
+    transitions:
+      - { from: 0, to: 1, dN_A: -1, dE_A: -0.1 }
+      - { from: 1, to: 0, dN_A: 1, dE_A: 0.1 }
+      - { from: 1, to: 2 }
+      - { from: 2, to: 1 }
+      - { from: 2, to: 0, dN_B: 1, dE_B: 0.1 }
+      - { from: 0, to: 2, dN_B: -1, dE_B: -0.1 }
+checks: [exchange-fluctuation, integral-fluctuation, second-law, weighted-identity]
+`,
+      { "data/trace.csv": sim.files["data/trace.csv"] },
+    );
+    // The same windows written as rows of a samples file (the trace's own cut, so the numbers are identical).
+    const d = (await ingestAudit(traceDir)).datasets[0] as SamplesDataset;
+    const rows = ["dE_A,dE_B,dN_A,dN_B,x0,x1"];
+    for (let i = 0; i < d.realisations; i++) {
+      rows.push([d.leadParticles!.A[i] * 0.1, d.leadParticles!.B[i] * 0.1, d.leadParticles!.A[i], d.leadParticles!.B[i], d.states!.labels[d.states!.start[i]], d.states!.labels[d.states!.end[i]]].map((x) => Number(x.toPrecision(12))).join(","));
+    }
+    const samplesDir = tempAudit(
+      `${header}  - id: dd
+    kind: samples
+    file: data/windows.csv
+    columns: { dE_A: dE_A, dE_B: dE_B, dN_A: dN_A, dN_B: dN_B, state_start: x0, state_end: x1 }
+${leads}
+    tau: 1e-8
+    work: measured
+checks: [exchange-fluctuation, integral-fluctuation, second-law, weighted-identity]
+`,
+      { "data/windows.csv": `${rows.join("\n")}\n` },
+    );
+    const statuses = async (dir: string) => (await runAudit(dir)).result.checks.map((c) => `${c.check}: ${c.status}`);
+    const fromTrace = await statuses(traceDir);
+    expect(fromTrace).toEqual(await statuses(samplesDir));
+    expect(d.windows!.correlationWindows).toBeLessThan(1.5);
+  }, 120000);
+});
