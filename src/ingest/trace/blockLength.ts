@@ -31,7 +31,15 @@ export function integratedAutocorrelationTime(x: ArrayLike<number>): number {
  * 1217 (1989); the factor 2 is our choice, checked for coverage by
  * bench/traceCoverage.bench.ts).
  */
+/**
+ * Fewest windows per block. Measured with bench/traceCoverage.bench.ts (200 double-dot traces of 1000
+ * windows of 1 ns): at least 2 gave 95 % intervals of ⟨e^−Σ_tot⟩ covering 1 in 95.5 % of traces and of
+ * the mean count in 99 % (adjacent counts are anticorrelated, so the count's interval is conservative);
+ * at least 5 gave 97 % and 98 %.
+ */
+const MIN_BLOCK = 2;
+
 export function blockLengthFor(series: ArrayLike<number>[]): { length: number; correlation: number } {
   const correlation = Math.max(...series.map(integratedAutocorrelationTime));
-  return { length: Math.max(2, Math.ceil(2 * correlation)), correlation };
+  return { length: Math.max(MIN_BLOCK, Math.ceil(2 * correlation)), correlation };
 }
