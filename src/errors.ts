@@ -1,3 +1,5 @@
+import { shortenQuotes } from "./messageText.ts";
+
 /**
  * Error hierarchy. An `InputError` means the user's input cannot be audited
  * (exit status 2, printed without a stack); anything else is our own bug.
@@ -57,7 +59,8 @@ export function formatRowNumberedProblems(file: string, problems: CellProblem[],
 }
 
 function formatProblems(file: string, problems: CellProblem[], cap: number, total: number, where: (p: CellProblem) => string): string {
-  const lines = problems.slice(0, cap).map((p) => `${where(p)}: ${p.message}`);
+  // A quoted cell longer than 80 characters is shown shortened, with its length (messageText.ts).
+  const lines = problems.slice(0, cap).map((p) => `${where(p)}: ${shortenQuotes(p.message)}`);
   if (total > cap) lines.push(`… and ${total - cap} more problem(s) in ${file}`);
   return lines.join("\n");
 }
@@ -74,5 +77,5 @@ export function newProblemLog(): ProblemLog {
 
 export function recordProblem(log: ProblemLog, row: number, column: string, message: string): void {
   log.count++;
-  if (log.problems.length < MAX_REPORTED_PROBLEMS) log.problems.push({ row, column, message });
+  if (log.problems.length < MAX_REPORTED_PROBLEMS) log.problems.push({ row, column, message: shortenQuotes(message) });
 }

@@ -2,6 +2,7 @@ import fs from "node:fs";
 import os from "node:os";
 import path from "node:path";
 import { ArchiveError } from "../errors.ts";
+import { isProcessAlive } from "../output/staging.ts";
 
 interface LockRecord {
   pid: number;
@@ -9,15 +10,6 @@ interface LockRecord {
   since: string;
 }
 
-function isAlive(pid: number): boolean {
-  try {
-    process.kill(pid, 0);
-    return true;
-  } catch (err) {
-    // EPERM: the process exists but belongs to someone else.
-    return (err as NodeJS.ErrnoException).code === "EPERM";
-  }
-}
 
 function readLock(file: string): LockRecord | null {
   try {
@@ -48,7 +40,7 @@ export function acquireLock(file: string, label: string, now: Date): () => void 
     } catch (err) {
       if ((err as NodeJS.ErrnoException).code !== "EEXIST") throw err;
       const holder = readLock(file);
-      if (attempt === 0 && holder && holder.host === os.hostname() && !isAlive(holder.pid)) {
+      if (attempt === 0 && holder && holder.host === os.hostname() && !isProcessAlive(holder.pid)) {
         fs.rmSync(file, { force: true });
         continue;
       }

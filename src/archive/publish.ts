@@ -8,9 +8,12 @@ import type { ResultDocument } from "../report/resultDocument.ts";
 import { resultDocumentOf, runChecks } from "../report/runAudit.ts";
 import { sha256Of } from "./digest.ts";
 import { checkArchive } from "./integrity.ts";
-import { DEFINITION_FILE, LOCK_FILE, MANIFEST_FILE, RESULT_FILE, STAGING_PREFIX, VERSIONS_DIR, versionDir, versionsDir } from "./layout.ts";
+import { DEFINITION_FILE, LOCK_FILE, MANIFEST_FILE, RESULT_FILE, VERSIONS_DIR, refuseLinkedVersions, removeStaleVersionStaging, versionDir, versionsDir } from "./layout.ts";
 import { acquireLock } from "./lock.ts";
-import { MANIFEST_FORMAT, manifestText, type VersionManifest } from "./manifest.ts";
+import { makeStagingDir } from "../output/staging.ts";
+import { faultPoint } from "../output/faults.ts";
+import { onInterrupt } from "../interrupt/cancellation.ts";
+import { MANIFEST_FORMAT, manifestText, sealManifest, type VersionManifest } from "./manifest.ts";
 
 /** Points in a publish at which a test can inject a failure. */
 export type PublishStep = "staged-result" | "staged-definition" | "staged-manifest" | "before-rename" | "after-rename";
@@ -26,7 +29,7 @@ export interface PublishOptions {
   /** The clock; publication time is the only clock reading in the tool. */
   now?: () => Date;
   /** Called at each step; a test throws from it to simulate a failure half-way. */
-  fault?: (step: PublishStep) => void;
+  fault?: (step: PublishStep) => void | Promise<void>;
 }
 
 export interface PublishOutcome {
@@ -66,13 +69,17 @@ function syncDir(dir: string): void {
  * `versions/` (same file system) and renamed into place in one step, so the
  * archive holds either the old versions or the old ones plus the complete new
  * one. An existing version is never rewritten: files are created with O_EXCL,
- * and rename(2) refuses to replace a non-empty folder.
+ * and rename(2) refuses to replace a non-empty folder. Ctrl-C or SIGTERM
+ * before the rename removes the staging folder and releases the lock (see
+ * interrupt/cancellation.ts); staging folders of killed publishes are removed
+ * by the next one. A `versions` folder that is a symbolic link is refused.
  */
 export async function publishAudit(auditDir: string, options: PublishOptions = {}): Promise<PublishOutcome> {
   const now = options.now ?? (() => new Date());
-  const step = (s: PublishStep) => {
+  const step = async (s: PublishStep, file: string) => {
     if (process.env[KILL_AT_ENV] === s) process.kill(process.pid, "SIGKILL");
-    options.fault?.(s);
+    await options.fault?.(s);
+    await faultPoint(`publish:${s}`, file);
   };
   const definitionPath = path.join(auditDir, AUDIT_FILE);
   if (!fs.existsSync(definitionPath)) {
@@ -85,10 +92,17 @@ export async function publishAudit(auditDir: string, options: PublishOptions = {
   const resultText = canonicalJson(result);
 
   const publishedAt = now(); // the one clock reading: the publication date
+  refuseLinkedVersions(auditDir);
   fs.mkdirSync(versionsDir(auditDir), { recursive: true });
   const release = acquireLock(path.join(versionsDir(auditDir), LOCK_FILE), path.join(auditDir, VERSIONS_DIR), publishedAt);
   let staging: string | null = null;
+  const forget = onInterrupt(() => {
+    if (staging) fs.rmSync(staging, { recursive: true, force: true });
+    release();
+    forget();
+  });
   try {
+    removeStaleVersionStaging(auditDir);
     const state = checkArchive(auditDir);
     if (state.problems.length > 0) {
       throw new ArchiveError(
@@ -105,7 +119,7 @@ export async function publishAudit(auditDir: string, options: PublishOptions = {
       );
     }
     const number = latest ? latest.number + 1 : 1;
-    const manifest: VersionManifest = {
+    const manifest: VersionManifest = sealManifest({
       format: MANIFEST_FORMAT,
       audit: result.audit,
       version: number,
@@ -116,18 +130,18 @@ export async function publishAudit(auditDir: string, options: PublishOptions = {
       inputs: result.datasets.map((d) => ({ id: d.id, file: d.file, sha256: d.sha256, rows: d.rows })),
       files: { "result.json": sha256Of(resultText), "audit.yaml": sha256Of(definitionText) },
       previous: latest ? { version: latest.number, digest: latest.manifestDigest } : null,
-    };
-    staging = fs.mkdtempSync(path.join(versionsDir(auditDir), STAGING_PREFIX));
+    });
+    staging = makeStagingDir(versionsDir(auditDir));
     fs.chmodSync(staging, 0o755); // mkdtemp makes it private; a published version is for everyone to read
     writeDurable(path.join(staging, RESULT_FILE), resultText);
-    step("staged-result");
+    await step("staged-result", path.join(staging, RESULT_FILE));
     writeDurable(path.join(staging, DEFINITION_FILE), definitionText);
-    step("staged-definition");
+    await step("staged-definition", path.join(staging, DEFINITION_FILE));
     writeDurable(path.join(staging, MANIFEST_FILE), manifestText(manifest));
-    step("staged-manifest");
+    await step("staged-manifest", path.join(staging, MANIFEST_FILE));
     syncDir(staging);
-    step("before-rename");
     const target = versionDir(auditDir, number);
+    await step("before-rename", target);
     try {
       fs.renameSync(staging, target);
     } catch (err) {
@@ -139,10 +153,11 @@ export async function publishAudit(auditDir: string, options: PublishOptions = {
     }
     staging = null;
     syncDir(versionsDir(auditDir));
-    step("after-rename");
+    await step("after-rename", target);
     return { version: number, dir: target, manifest, result };
   } finally {
     if (staging) fs.rmSync(staging, { recursive: true, force: true });
     release();
+    forget();
   }
 }

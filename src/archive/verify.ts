@@ -36,6 +36,8 @@ export interface ResultProblem {
 export interface VerifyReport {
   audit: string;
   version: number;
+  /** The newest version: the hash chain is checked from version 1 to it, whichever version is verified. */
+  newest: number;
   published: string;
   tool: { frozen: { name: string; version: string }; now: { name: string; version: string } };
   reproduced: boolean;
@@ -139,8 +141,8 @@ function checkDataFiles(auditDir: string, v: FrozenVersion): DataFileProblem[] {
 }
 
 /**
- * Re-run a published version from the data and compare: the hash chain up to
- * the version, every data file's digest, and the result document to the last
+ * Re-run a published version from the data and compare: the whole hash chain
+ * (to the newest version), every data file's digest, and the result document to the last
  * digit (canonical JSON). The frozen audit.yaml of the version is what runs,
  * so later edits to the audit definition do not disturb older versions; the
  * data are read from the audit folder.
@@ -148,11 +150,13 @@ function checkDataFiles(auditDir: string, v: FrozenVersion): DataFileProblem[] {
 export async function verifyVersion(auditDir: string, options: VerifyOptions = {}): Promise<VerifyReport> {
   const number = pickVersion(auditDir, options.version);
   const max = options.maxDifferences ?? 40;
-  const state = checkArchive(auditDir, number);
+  // The whole chain to the newest version: a later version's link is what proves an earlier record unaltered.
+  const state = checkArchive(auditDir);
   const v = state.versions.find((x) => x.number === number);
   const report: VerifyReport = {
     audit: v?.manifest.audit ?? path.basename(path.resolve(auditDir)),
     version: number,
+    newest: state.newest,
     published: v ? publicationDate(v.manifest) : "unknown",
     tool: { frozen: v ? v.manifest.tool : { name: "unknown", version: "unknown" }, now: { name: TOOL.name, version: TOOL.version } },
     reproduced: false,
@@ -204,7 +208,7 @@ export function formatVerifyReport(r: VerifyReport, auditDir: string): string {
   const lines: string[] = [];
   lines.push(`verifying ${r.audit} version ${r.version} (published ${r.published} with ${r.tool.frozen.name} ${r.tool.frozen.version}) in ${auditDir}`);
   for (const n of r.notes) lines.push(`note: ${n}`);
-  lines.push(r.chain.length === 0 ? `hash chain: versions 1 to ${r.version} intact` : `hash chain: ${r.chain.length} problem(s)`);
+  lines.push(r.chain.length === 0 ? `hash chain: versions 1 to ${r.newest} intact` : `hash chain (versions 1 to ${r.newest}): ${r.chain.length} problem(s)`);
   for (const p of r.chain) lines.push(`  ${p.file}: ${p.message}`);
   if (r.data.length === 0) lines.push("data files: every digest matches");
   else {

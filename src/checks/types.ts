@@ -2,6 +2,7 @@ import type { PlotSpec } from "./plotSpec.ts";
 import type { IngestedAudit } from "../ingest/types.ts";
 import type { Settings } from "../config/types.ts";
 import type { Rng } from "../stats/rng.ts";
+import type { OptionSchemas } from "./options.ts";
 
 export const CHECK_IDS = [
   "reciprocity",
@@ -67,6 +68,8 @@ export interface CheckDefinition {
   title: string;
   /** false for checks that only report figures (status info). */
   verdictBearing: boolean;
+  /** The options this check reads under `checks:` (besides `datasets`); omitted: `margin` only. */
+  options?: OptionSchemas;
   /** Pure: ingested data and settings in, results out; [] when nothing in the audit applies. */
   run(audit: IngestedAudit, ctx: CheckContext): CheckResult[];
 }

@@ -1,6 +1,9 @@
 import pc from "picocolors";
 import type { ResultDocument } from "../report/resultDocument.ts";
 import type { Status } from "../checks/types.ts";
+import { displayContextFor } from "../report/format/displayContext.ts";
+import { plainNotation } from "../report/format/notation.ts";
+import { rewriteNumbers } from "../report/format/rewriteNumbers.ts";
 
 const MARK: Record<Status, string> = { pass: "✓ pass", fail: "✗ fail", inconclusive: "? inconclusive", "not-applicable": "– n/a", info: "i info" };
 
@@ -19,7 +22,8 @@ function paint(status: Status | "pass" | "fail" | "inconclusive", text: string, 
 }
 
 function wrap(text: string, width: number): string[] {
-  const words = text.split(/\s+/);
+  // Breaks only at ordinary spaces: the narrow no-break spaces inside numbers and before units hold.
+  const words = text.split(/[ \t\n]+/);
   const lines: string[] = [];
   let line = "";
   for (const w of words) {
@@ -32,9 +36,18 @@ function wrap(text: string, width: number): string[] {
   return lines.length ? lines : [""];
 }
 
+/**
+ * A summary as the terminal shows it: numbers in display units and without
+ * e-notation, notation in its plain form with Unicode sub- and superscripts
+ * where they exist (the report typesets the same text).
+ */
+export function terminalSummary(doc: ResultDocument, summary: string, dataset: string): string {
+  return plainNotation(rewriteNumbers(summary, displayContextFor(doc, dataset)));
+}
+
 /** A plain-text table of every check and its verdict, for the terminal. */
 export function summaryTable(doc: ResultDocument, color: boolean, width = 100): string {
-  const rows = doc.checks.map((c) => [c.check, c.dataset, MARK[c.status], c.summary, c.status] as const);
+  const rows = doc.checks.map((c) => [c.check, c.dataset, MARK[c.status], terminalSummary(doc, c.summary, c.dataset), c.status] as const);
   const w0 = Math.max(5, ...rows.map((r) => r[0].length));
   const w1 = Math.max(7, ...rows.map((r) => r[1].length));
   const w2 = 14;

@@ -2,7 +2,8 @@ import fs from "node:fs";
 import path from "node:path";
 import { z } from "zod";
 import { text } from "./common.ts";
-import { parseLocatedYaml } from "./yamlDocument.ts";
+import { webAddress } from "./identifiers.ts";
+import { checkYamlSize, parseLocatedYaml } from "./yamlDocument.ts";
 import { validateLocated } from "./validate.ts";
 
 /** archive.yaml at the archive root: who publishes the audits and where. */
@@ -11,14 +12,11 @@ export const archiveSchema = z
     name: text(),
     publisher: text("the name of a group or institution"),
     /** Where the rendered site is served; citations give `<base_url><audit-id>/v<N>/`. */
-    base_url: z
-      .string({ invalid_type_error: "must be an absolute URL such as https://example.org/audits/" })
-      .url("must be an absolute URL such as https://example.org/audits/")
-      .refine((u) => /^https?:\/\//.test(u), "must start with https:// or http://")
+    base_url: webAddress("https://example.org/audits/")
       .transform((u) => (u.endsWith("/") ? u : `${u}/`))
       .optional(),
     /** Where the archive's files (audits, data, versions) can be cloned, so that anyone can verify. */
-    repository: z.string({ invalid_type_error: "must be a URL" }).url("must be a URL such as https://example.org/lab/audits.git").optional(),
+    repository: webAddress("https://example.org/lab/audits.git").optional(),
     license: text("an SPDX licence identifier such as CC-BY-4.0").default("CC-BY-4.0"),
     contact: z.string().optional(),
   })
@@ -32,5 +30,6 @@ export const ARCHIVE_FILE = "archive.yaml";
 export function loadArchiveDefinition(root: string): ArchiveDefinition {
   const file = path.join(root, ARCHIVE_FILE);
   if (!fs.existsSync(file)) return { name: "Transport audits", publisher: "unpublished", license: "CC-BY-4.0" };
+  checkYamlSize(ARCHIVE_FILE, fs.statSync(file).size);
   return validateLocated(archiveSchema, parseLocatedYaml(ARCHIVE_FILE, fs.readFileSync(file, "utf8")));
 }

@@ -1,11 +1,15 @@
 import { z } from "zod";
 import { CHECK_IDS } from "../checks/types.ts";
+import { CHECKS } from "../checks/index.ts";
+import { optionSchemasOf } from "../checks/options.ts";
 import { nearest } from "./nearest.ts";
-import { datasetId, slug, text } from "./common.ts";
+import { calendarDate, datasetId, slug, text } from "./common.ts";
+import { doiSchema } from "./identifiers.ts";
 import { samplesDatasetSchema } from "./samplesSchema.ts";
-import { coefficientsDatasetSchema } from "./coefficientsSchema.ts";
+import { coefficientsDatasetSchema, undeclaredUnits } from "./coefficientsSchema.ts";
 import { cumulantsDatasetSchema } from "./cumulantsSchema.ts";
 import { traceDatasetSchema } from "./traceSchema.ts";
+import { displaySchema } from "./displaySchema.ts";
 
 const orcid = z
   .string({ invalid_type_error: "must be text" })
@@ -15,17 +19,31 @@ export const authorSchema = z
   .object({ name: text("a person's name"), orcid: orcid.optional(), affiliation: text().optional() })
   .strict();
 
+/** Bootstrap resamples: fewer than 200 leave a 95 % interval's ends to a handful of draws; more than 10^5 add nothing but time. */
+export const MIN_RESAMPLES = 200;
+export const MAX_RESAMPLES = 100_000;
+/** Datasets in one audit: every one is read, and group checks compare them pairwise. */
+export const MAX_DATASETS = 1000;
+
+const SEED_EXPECTED = `must be auto (seeded from the data digest) or a whole number from 0 to ${Number.MAX_SAFE_INTEGER}`;
+
 export const settingsSchema = z
   .object({
     alpha: z.number({ invalid_type_error: "must be a number in (0, 0.5)" }).gt(0, "must be in (0, 0.5)").lt(0.5, "must be in (0, 0.5)").default(0.01),
-    margin: z.number({ invalid_type_error: "must be a positive number" }).positive("must be a positive number").default(0.05),
+    margin: z.number({ invalid_type_error: "must be a number in (0, 1)" }).gt(0, "must be in (0, 1)").lt(1, "must be in (0, 1)").default(0.05),
     confidence: z.number({ invalid_type_error: "must be a number in (0.5, 1)" }).gt(0.5, "must be in (0.5, 1)").lt(1, "must be in (0.5, 1)").default(0.95),
     seed: z
-      .union([z.literal("auto"), z.number().int().nonnegative()], {
-        errorMap: () => ({ message: "must be auto (seeded from the data digest) or a non-negative integer" }),
+      // Above 2^53 − 1 neighbouring integers share a double, so two seeds would give one stream.
+      .union([z.literal("auto"), z.number().int(SEED_EXPECTED).nonnegative(SEED_EXPECTED).max(Number.MAX_SAFE_INTEGER, SEED_EXPECTED)], {
+        errorMap: () => ({ message: SEED_EXPECTED }),
       })
       .default("auto"),
-    resamples: z.number({ invalid_type_error: "must be an integer" }).int("must be an integer").min(200, "must be at least 200").default(2000),
+    resamples: z
+      .number({ invalid_type_error: `must be a whole number from ${MIN_RESAMPLES} to ${MAX_RESAMPLES}` })
+      .int(`must be a whole number from ${MIN_RESAMPLES} to ${MAX_RESAMPLES}`)
+      .min(MIN_RESAMPLES, `must be a whole number from ${MIN_RESAMPLES} to ${MAX_RESAMPLES}`)
+      .max(MAX_RESAMPLES, `must be a whole number from ${MIN_RESAMPLES} to ${MAX_RESAMPLES} (each resample re-weighs every row or cell)`)
+      .default(2000),
   })
   .strict()
   .default({});
@@ -51,11 +69,15 @@ export const auditSchema = z
     license: text("an SPDX licence identifier such as CC-BY-4.0").optional(),
     description: z.string({ invalid_type_error: "must be Markdown text" }).optional(),
     device: text().optional(),
-    date: z.string().regex(/^\d{4}-\d{2}-\d{2}$/, "must be a date written YYYY-MM-DD").optional(),
-    doi: z.string().regex(/^10\.\d{4,9}\/\S+$/, "must be a DOI such as 10.5281/zenodo.1234567").optional(),
+    date: calendarDate.optional(),
+    doi: doiSchema.optional(),
     keywords: z.array(text()).optional(),
     settings: settingsSchema,
-    datasets: z.array(datasetSchema).min(1, "must list at least one dataset"),
+    display: displaySchema.optional(),
+    datasets: z
+      .array(datasetSchema)
+      .min(1, "must list at least one dataset")
+      .max(MAX_DATASETS, `must list at most ${MAX_DATASETS} datasets; split a larger study into several audits`),
     checks: z.union([z.literal("all"), z.array(checkEntry)], {
       errorMap: () => ({ message: "must be all, or a list of check ids" }),
     }).default("all"),
@@ -64,6 +86,8 @@ export const auditSchema = z
   .superRefine((audit, ctx) => {
     const seen = new Map<string, number>();
     audit.datasets.forEach((d, i) => {
+      const unitsProblem = d.kind === "coefficients" ? undeclaredUnits(d) : null;
+      if (unitsProblem) ctx.addIssue({ code: "custom", path: ["datasets", i, "units"], message: unitsProblem, params: { quoteFound: false } });
       const first = seen.get(d.id);
       if (first !== undefined) {
         ctx.addIssue({ code: "custom", path: ["datasets", i, "id"], message: `duplicates the id of datasets[${first}]` });
@@ -73,14 +97,64 @@ export const auditSchema = z
     if (audit.checks === "all") return;
     audit.checks.forEach((entry, i) => {
       const id = typeof entry === "string" ? entry : Object.keys(entry)[0];
-      if ((CHECK_IDS as readonly string[]).includes(id)) return;
-      const hint = nearest(id, CHECK_IDS) ?? "";
-      const known = `${hint ? ` (did you mean ${hint}?)` : ""}: one of ${CHECK_IDS.join(", ")}`;
-      if (typeof entry === "string") ctx.addIssue({ code: "custom", path: ["checks", i], message: `must be a check id${known}` });
-      // A map's key is the id; its value (the options) is not what is wrong, so it is not quoted.
-      else ctx.addIssue({ code: "custom", path: ["checks", i, id], message: `is not a check id${known}`, params: { quoteFound: false } });
+      if (!(CHECK_IDS as readonly string[]).includes(id)) {
+        const hint = nearest(id, CHECK_IDS) ?? "";
+        const known = `${hint ? ` (did you mean ${hint}?)` : ""}: one of ${CHECK_IDS.join(", ")}`;
+        if (typeof entry === "string") ctx.addIssue({ code: "custom", path: ["checks", i], message: `must be a check id${known}` });
+        // A map's key is the id; its value (the options) is not what is wrong, so it is not quoted.
+        else ctx.addIssue({ code: "custom", path: ["checks", i, id], message: `is not a check id${known}`, params: { quoteFound: false } });
+        return;
+      }
+      if (typeof entry !== "string") checkOptionsIssues(audit, id, entry[id] ?? {}, ["checks", i, id], ctx);
     });
   });
+
+/** Names `datasets:` of a check may use: dataset ids and the sweep and series groups they form. */
+function datasetNames(audit: { datasets: { id: string; sweep?: string; series?: string }[] }): string[] {
+  const names = new Set<string>();
+  for (const d of audit.datasets) {
+    names.add(d.id);
+    if (d.sweep) names.add(d.sweep);
+    if (d.series) names.add(d.series);
+  }
+  return [...names];
+}
+
+/**
+ * A check's options against the schemas its module declares (src/checks/options.ts): unknown keys are
+ * refused with the valid ones, wrong values with what is expected, and `datasets` must name datasets,
+ * sweeps or series of this audit.
+ */
+function checkOptionsIssues(
+  audit: { datasets: { id: string; sweep?: string; series?: string }[] },
+  id: string,
+  options: Record<string, unknown>,
+  path: (string | number)[],
+  ctx: z.RefinementCtx,
+): void {
+  const schemas = optionSchemasOf(CHECKS.find((c) => c.id === id)?.options);
+  const valid = Object.keys(schemas);
+  for (const [key, value] of Object.entries(options)) {
+    const schema = schemas[key];
+    if (!schema) {
+      const hint = nearest(key, valid);
+      ctx.addIssue({ code: "custom", path: [...path, key], message: `is not an option of ${id}${hint ? ` (did you mean ${hint}?)` : ""}; valid keys: ${valid.join(", ")}`, params: { quoteFound: false } });
+      continue;
+    }
+    const parsed = schema.safeParse(value);
+    if (!parsed.success) {
+      for (const issue of parsed.error.issues) ctx.addIssue({ code: "custom", path: [...path, key, ...issue.path], message: issue.message });
+      continue;
+    }
+    if (key !== "datasets") continue;
+    const names = datasetNames(audit);
+    (value as string[]).forEach((name, k) => {
+      if (names.includes(name)) return;
+      const hint = nearest(name, names);
+      ctx.addIssue({ code: "custom", path: [...path, key, k], message: `is not a dataset id, sweep or series of this audit${hint ? ` (did you mean ${hint}?)` : ""}: one of ${names.join(", ")}` });
+    });
+  }
+}
 
 export { datasetId };
 export type AuditDefinitionInput = z.input<typeof auditSchema>;

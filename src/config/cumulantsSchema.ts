@@ -1,4 +1,5 @@
 import { z } from "zod";
+import { energyUnitErrorMap } from "./energyUnitMessage.ts";
 import { datasetId, positive, relativeFile, text } from "./common.ts";
 import { ENERGY_UNITS } from "./samplesSchema.ts";
 
@@ -31,7 +32,7 @@ export const cumulantsDatasetSchema = z
     file: relativeFile,
     description: z.string().optional(),
     columns: roleMap.optional(),
-    energy_unit: z.enum(ENERGY_UNITS, { errorMap: () => ({ message: `must be one of ${ENERGY_UNITS.join(", ")}` }) }).default("J"),
+    energy_unit: z.enum(ENERGY_UNITS, { errorMap: energyUnitErrorMap(ENERGY_UNITS) }).default("J"),
     reference_temperature: positive("kelvin").optional(),
     time_unit: z.enum(TIME_UNITS, { errorMap: () => ({ message: `must be one of ${TIME_UNITS.join(", ")}` }) }).default("s"),
     /** The hopping energy J (in energy_unit) that sets the time unit ħ/J of a lattice simulation. */

@@ -3,7 +3,7 @@ import path from "node:path";
 import { ConfigError } from "../errors.ts";
 import { confinePath } from "./confinePath.ts";
 import { auditSchema } from "./auditSchema.ts";
-import { parseLocatedYaml } from "./yamlDocument.ts";
+import { checkYamlSize, parseLocatedYaml } from "./yamlDocument.ts";
 import { validateLocated } from "./validate.ts";
 import type { AuditDefinition } from "./types.ts";
 
@@ -16,6 +16,7 @@ export function loadAuditDefinition(auditDir: string): AuditDefinition {
     throw new ConfigError(`${file}: not found; an audit folder must contain ${AUDIT_FILE} (create one with: transport-audit init ${auditDir})`);
   }
   if (!fs.statSync(file).isFile()) throw new ConfigError(`${file}: is not a file; ${AUDIT_FILE} must be a text file holding the audit's definition`);
+  checkYamlSize(AUDIT_FILE, fs.statSync(file).size); // before reading: a huge file is refused unread
   const definition = parseAuditDefinition(fs.readFileSync(file, "utf8"), AUDIT_FILE);
   // Every data path is confined before any dataset is read: an audit that names
   // one file outside its folder is refused as a whole, with nothing read.

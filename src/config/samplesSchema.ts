@@ -1,4 +1,5 @@
 import { z } from "zod";
+import { energyUnitErrorMap } from "./energyUnitMessage.ts";
 import { datasetId, finite, positive, relativeFile, text } from "./common.ts";
 
 export const SAMPLE_ROLES = ["dE_A", "dE_B", "Q", "dN", "W", "count", "dN_A", "dN_B", "state_start", "state_end"] as const;
@@ -46,7 +47,7 @@ export const samplesDatasetSchema = z
     file: relativeFile,
     description: z.string().optional(),
     columns: roleMap,
-    energy_unit: z.enum(ENERGY_UNITS, { errorMap: () => ({ message: `must be one of ${ENERGY_UNITS.join(", ")}` }) }),
+    energy_unit: z.enum(ENERGY_UNITS, { errorMap: energyUnitErrorMap(ENERGY_UNITS) }),
     reference_temperature: positive("kelvin").optional(),
     reservoirs: z.object({ A: reservoirSchema, B: reservoirSchema }).strict(),
     tau: positive("seconds").optional(),

@@ -2,10 +2,13 @@ import { z } from "zod";
 import { ConfigError } from "../errors.ts";
 import { formatKeyPath, type LocatedYaml } from "./yamlDocument.ts";
 import { nearest } from "./nearest.ts";
+import { MAX_QUOTED_CHARS, quoteForMessage } from "../messageText.ts";
 
-function describeFound(value: unknown): string {
+/** What was found, as written: numbers in their source text (`9007199254740993`, not the double …992), long text shortened. */
+function describeFound(value: unknown, written: string | undefined): string {
   if (value === undefined) return "nothing";
-  if (typeof value === "string") return JSON.stringify(value);
+  if (typeof value === "string") return quoteForMessage(value);
+  if (typeof value === "number" && written !== undefined && written.length <= MAX_QUOTED_CHARS) return written;
   if (typeof value === "number" || typeof value === "boolean" || value === null) return String(value);
   if (Array.isArray(value)) return "a list";
   return "a map";
@@ -105,7 +108,7 @@ export function validateLocated<S extends z.ZodTypeAny>(schema: S, doc: LocatedY
     const said = plainMessage(issue);
     const message = missing ? `is missing; ${said === "is required" ? "it is required" : said}` : said;
     const quoteFound = !(issue.code === "custom" && issue.params?.quoteFound === false);
-    const foundText = found === undefined || !quoteFound ? "" : `, found ${describeFound(found)}`;
+    const foundText = found === undefined || !quoteFound ? "" : `, found ${describeFound(found, doc.textAt(issue.path))}`;
     lines.push(`${doc.file}:${doc.lineOf(issue.path) ?? "?"} ${formatKeyPath(issue.path)}: ${message}${foundText}`);
   }
   throw new ConfigError(lines.join("\n"));

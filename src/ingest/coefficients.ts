@@ -80,7 +80,7 @@ function valueRoles(config: CoefficientsDatasetConfig, table: NumericTable, col:
 function parseUnits(config: CoefficientsDatasetConfig, n: number, where: string): Map<string, ParsedUnit> {
   const units = new Map<string, ParsedUnit>();
   const allowed = config.form === "thermoelectric" ? [...THERMOELECTRIC] : n === 2 ? ["L11", "L12", "L21", "L22"] : [];
-  for (const [key, text] of Object.entries(config.units ?? {})) {
+  for (const [key, text] of Object.entries(config.units === "SI" ? {} : (config.units ?? {}))) {
     if (!allowed.includes(key)) {
       const why =
         allowed.length === 0

@@ -1,4 +1,6 @@
 import { formatCellProblems, formatRowNumberedProblems, MAX_REPORTED_PROBLEMS, recordProblem, type ProblemLog } from "../errors.ts";
+import { describeStoredNumber } from "../messageText.ts";
+import { logNonWholeParticleNumbers } from "./wholeNumber.ts";
 
 /**
  * Row rules of a `samples` dataset, shared by the whole-table reader and the
@@ -94,6 +96,7 @@ export function sampleRowsOf(
     Q = givenQ ?? derivedQ;
     W = givenW ?? derivedW;
   }
+  if (raw.dN) logNonWholeParticleNumbers(raw.dN, rows, lines, roles.dN!, problems);
   let weight: Float64Array | null = null;
   if (raw.count) {
     weight = Float64Array.from(raw.count.subarray(0, rows));
@@ -101,7 +104,7 @@ export function sampleRowsOf(
       const c = weight[i];
       // Above 2^53 consecutive whole numbers are no longer all representable (IEEE 754 binary64).
       if (c < 0 || !Number.isInteger(c) || c > Number.MAX_SAFE_INTEGER) {
-        recordProblem(problems, lines[i], roles.count!, `expected a count (a whole number from 0 to ${Number.MAX_SAFE_INTEGER}), found ${c}`);
+        recordProblem(problems, lines[i], roles.count!, `expected a count (a whole number from 0 to ${Number.MAX_SAFE_INTEGER}), found ${describeStoredNumber(c)}`);
       }
     }
   }

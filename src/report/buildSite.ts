@@ -14,6 +14,12 @@ import { auditPageModel, type AuditPageModel } from "./viewModel.ts";
 import { checkArchive } from "../archive/integrity.ts";
 import { sha256Of } from "../archive/digest.ts";
 import { planAuditVersions, type SiteFile } from "./versionView.ts";
+import { refuseForeignOut, refuseOutInArchive, stageBeside, stampSite, swapIntoPlace } from "../output/siteFolder.ts";
+import { removeStaleStaging } from "../output/staging.ts";
+import { isWithin } from "../output/paths.ts";
+import { faultPoint } from "../output/faults.ts";
+import { onInterrupt } from "../interrupt/cancellation.ts";
+import { removeStaleVersionStaging } from "../archive/layout.ts";
 
 const PROJECT_ROOT = path.resolve(path.dirname(fileURLToPath(import.meta.url)), "..", "..");
 const TEMPLATES = path.join(PROJECT_ROOT, "templates");
@@ -31,6 +37,8 @@ export interface BuildOptions {
   cache?: "use" | "refresh";
   /** Worker threads that run the audits (default: one a core, at most four; below two, or for small archives, this thread). */
   threads?: number;
+  /** Replace a non-empty output folder that build did not write (see output/siteFolder.ts). */
+  force?: boolean;
 }
 
 /** How many audits took their result from the cache and how many were run. */
@@ -57,7 +65,17 @@ export interface BuildOutcome {
   /** Unpublished changes since the latest version, at `<audit-id>/draft/`. */
   draftPages: AuditPageModel[];
   broken: BrokenAudit[];
+  /** Audits whose published versions are damaged or unreadable (shown on their pages as well). */
+  damaged: DamagedAudit[];
+  /** Ids of the audits whose current state has a failed check. */
+  failed: string[];
   cache: CacheStatistics;
+}
+
+/** An audit whose stored versions failed the integrity checks: each problem as a line naming its file. */
+export interface DamagedAudit {
+  folder: string;
+  problems: string[];
 }
 
 export interface SiteData {
@@ -90,8 +108,28 @@ function copyAssets(out: string): void {
   fs.cpSync(path.join(TEMPLATES, "assets"), path.join(out, "assets"), { recursive: true });
 }
 
+/**
+ * The place of a site file, refused when its path (made from ids in frozen
+ * documents, which are validated when read) would leave the output folder.
+ */
+function confinedSitePath(out: string, relative: string): string {
+  const target = path.resolve(out, ...relative.split("/"));
+  if (relative === "" || path.isAbsolute(relative) || relative.includes("\\") || !isWithin(target, out) || target === path.resolve(out)) {
+    throw new InputError(`site path ${JSON.stringify(relative)} would be written outside the output folder ${out}; refused`);
+  }
+  return target;
+}
+
+/** Every page's permalink and every download stays inside the output folder (checked before Eleventy writes anything). */
+function refuseEscapingPages(out: string, data: SiteData): void {
+  for (const a of data.audits) confinedSitePath(out, `${a.id}/index.html`);
+  for (const p of [...(data.versionPages ?? []), ...(data.draftPages ?? [])]) confinedSitePath(out, p.versioning?.path ?? `${p.id}/index.html`);
+  for (const f of data.files ?? []) confinedSitePath(out, f.path);
+}
+
 /** Render pages with Eleventy from prepared models. */
 export async function renderSite(out: string, data: SiteData): Promise<void> {
+  refuseEscapingPages(out, data);
   const elev = new Eleventy(TEMPLATES, out, {
     configPath: path.join(PROJECT_ROOT, ".eleventy.js"),
     quietMode: true,
@@ -110,7 +148,7 @@ export async function renderSite(out: string, data: SiteData): Promise<void> {
   await elev.write();
   copyAssets(out);
   for (const f of data.files ?? []) {
-    const target = path.join(out, ...f.path.split("/"));
+    const target = confinedSitePath(out, f.path);
     fs.mkdirSync(path.dirname(target), { recursive: true });
     fs.writeFileSync(target, f.content);
   }
@@ -119,16 +157,25 @@ export async function renderSite(out: string, data: SiteData): Promise<void> {
 /**
  * Run every audit of an archive and render the static site. An audit whose
  * fingerprint has a trusted entry in the result cache is not run again (see
- * resultCache.ts); published versions are shown as frozen.
+ * resultCache.ts); published versions are shown as frozen. The site is written
+ * into a staging folder beside the output folder and swapped in only when it
+ * is complete, so a failure (a full disk) or a signal leaves the previous site
+ * as it was; an output folder inside the archive, or one holding files build
+ * did not write, is refused before any work (output/siteFolder.ts).
  */
 export async function buildSite(options: BuildOptions): Promise<BuildOutcome> {
   const archive = loadArchiveDefinition(options.root);
   const folders = findAuditFolders(options.root);
+  refuseOutInArchive(options.out, { root: options.root, auditsDir: path.join(options.root, "audits"), auditFolders: folders });
+  refuseForeignOut(options.out, options.force ?? false);
+  removeStaleStaging(path.dirname(options.out));
   const audits: AuditPageModel[] = [];
   const versionPages: AuditPageModel[] = [];
   const draftPages: AuditPageModel[] = [];
   const files: SiteFile[] = [];
   const broken: BrokenAudit[] = [];
+  const damaged: DamagedAudit[] = [];
+  const failed: string[] = [];
   const cache: CacheStatistics = { reused: 0, recomputed: 0, unstored: 0 };
   const cacheUse = { dir: resultCacheDir(options.root), read: (options.cache ?? "use") === "use" };
   const usedFingerprints = new Set<string>();
@@ -139,7 +186,17 @@ export async function buildSite(options: BuildOptions): Promise<BuildOutcome> {
   });
   for (const [i, folder] of folders.entries()) {
     const folderRel = path.relative(options.root, folder).split(path.sep).join("/");
-    const stored = checkArchive(folder);
+    let stored: ReturnType<typeof checkArchive>;
+    try {
+      stored = checkArchive(folder);
+      removeStaleVersionStaging(folder);
+    } catch (err) {
+      // A versions folder that cannot be trusted at all (a symbolic link elsewhere): the audit is left off the site.
+      if (!(err instanceof InputError)) throw err;
+      broken.push({ folder: folderRel, error: err.message });
+      continue;
+    }
+    if (stored.problems.length > 0) damaged.push({ folder: folderRel, problems: stored.problems.map(problemLine) });
     let current: ResultDocument | null = null;
     const outcome = outcomes[i];
     if (outcome.kind === "run") {
@@ -149,6 +206,7 @@ export async function buildSite(options: BuildOptions): Promise<BuildOutcome> {
       if (run.fromCache) cache.reused++;
       else cache.recomputed++;
       if (!run.stored) cache.unstored++;
+      if (current.stamp === "fail") failed.push(current.audit);
     } else broken.push({ folder: folderRel, error: outcome.message });
     // Published versions stay on the site even when the current state cannot be run.
     if (!current && stored.versions.length === 0) continue;
@@ -172,9 +230,34 @@ export async function buildSite(options: BuildOptions): Promise<BuildOutcome> {
     if (ids.has(a.id)) throw new InputError(`two audits in ${options.root}/audits share the id ${JSON.stringify(a.id)}; ids must be unique in an archive`);
     ids.add(a.id);
   }
-  fs.rmSync(options.out, { recursive: true, force: true });
-  await renderSite(options.out, { archive, audits, versionPages, draftPages, broken, files });
+  await writeSiteInPlace(options.out, { archive, audits, versionPages, draftPages, broken, files }, options.force ?? false);
   // Entries of states the audits no longer have are dropped once the site stands.
   pruneResultCache(cacheUse.dir, usedFingerprints);
-  return { out: options.out, index: path.join(options.out, "index.html"), audits, versionPages, draftPages, broken, cache };
+  return { out: options.out, index: path.join(options.out, "index.html"), audits, versionPages, draftPages, broken, damaged, failed, cache };
+}
+
+/** `versions/2/result.json: altered after publication: …`, without repeating a file the message already starts with. */
+function problemLine(p: { file: string; message: string }): string {
+  return p.message.startsWith(p.file) ? p.message : `${p.file}: ${p.message}`;
+}
+
+/**
+ * Render into a staging folder beside `out`, stamp it, and swap it in. The
+ * staging folder is removed on any failure and on Ctrl-C or SIGTERM. The
+ * output folder is checked again just before the swap: a user may have put
+ * files there while the audits ran.
+ */
+async function writeSiteInPlace(out: string, data: SiteData, force: boolean): Promise<void> {
+  const staging = stageBeside(out);
+  const forget = onInterrupt(() => fs.rmSync(staging, { recursive: true, force: true }));
+  try {
+    await renderSite(staging, data);
+    stampSite(staging);
+    await faultPoint("build:rendered", path.join(staging, "index.html"));
+    refuseForeignOut(out, force);
+    swapIntoPlace(staging, out);
+  } finally {
+    fs.rmSync(staging, { recursive: true, force: true });
+    forget();
+  }
 }

@@ -1,4 +1,5 @@
 import type { Author, Settings } from "../config/types.ts";
+import type { DisplayChoices } from "../config/displaySchema.ts";
 import type { DatasetRecord } from "../ingest/types.ts";
 import type { CheckResult, Status } from "../checks/types.ts";
 
@@ -19,7 +20,10 @@ export interface ResultDocument {
   fingerprint: string;
   stamp: Stamp;
   settings: Settings;
-  datasets: DatasetRecord[];
+  /** audit.yaml's `display:` choices (presentation only; every value here stays in SI). */
+  display?: DisplayChoices;
+  /** Each input file; `energy_unit` is the unit its energies were written in, which the report shows energies in. */
+  datasets: (DatasetRecord & { energy_unit?: string })[];
   checks: CheckResult[];
 }
 

@@ -16,18 +16,20 @@ export interface SelectedCheck {
   definition: CheckDefinition;
   options: CheckOptions;
   explicit: boolean;
+  /** Position in `checks:` (for messages), null with `checks: all`. */
+  index: number | null;
 }
 
 /** Resolve `checks:` (all, or a list with options) to check definitions. */
 export function selectChecks(definition: AuditDefinition, registry: readonly CheckDefinition[] = CHECKS): SelectedCheck[] {
-  if (definition.checks === "all") return registry.map((d) => ({ definition: d, options: {}, explicit: false }));
-  return definition.checks.map((entry) => {
+  if (definition.checks === "all") return registry.map((d) => ({ definition: d, options: {}, explicit: false, index: null }));
+  return definition.checks.map((entry, index) => {
     const [id, options] = typeof entry === "string" ? [entry, {}] : Object.entries(entry)[0];
     const found = registry.find((d) => d.id === id);
     // audit.yaml's check ids were validated when it was read (auditSchema.ts); only a registry given
     // by code can lack one.
     if (!found) throw new Error(`selectChecks: the registry has no check ${JSON.stringify(id)}`);
-    return { definition: found, options: (options ?? {}) as CheckOptions, explicit: true };
+    return { definition: found, options: (options ?? {}) as CheckOptions, explicit: true, index };
   });
 }
 
@@ -79,13 +81,44 @@ export function runChecks(audit: IngestedAudit, registry: readonly CheckDefiniti
   const results: CheckResult[] = [];
   for (const selected of selectChecks(audit.definition, registry)) {
     const ctx = contextFor(audit.definition, selected.options, selected.definition.id);
-    const out = selected.definition.run(audit, ctx);
-    if (out.length === 0 && selected.explicit) {
+    const { included, skipped } = restrictDatasets(audit, selected);
+    const out = selected.definition.run(included, ctx);
+    if (out.length === 0 && selected.explicit && skipped.length === 0) {
       results.push(notApplicableResult({ check: selected.definition.id, dataset: "—", reason: `no dataset in this audit is of a kind that ${selected.definition.id} examines` }));
     }
     results.push(...out.map((r) => withReductionNotes(audit, r)));
+    results.push(...skipped);
   }
   return results;
+}
+
+/**
+ * `datasets:` under a check limits it to the named datasets and the members of the named sweeps and
+ * series; every other dataset gets a not-applicable result that says it was skipped and why, so the
+ * report and the result document show the choice.
+ */
+export function restrictDatasets(audit: IngestedAudit, selected: SelectedCheck): { included: IngestedAudit; skipped: CheckResult[] } {
+  const names = selected.options.datasets;
+  if (!Array.isArray(names)) return { included: audit, skipped: [] };
+  const wanted = new Set(names as string[]);
+  const keep = (d: IngestedAudit["datasets"][number]): boolean => {
+    const groups = d.config as { sweep?: string; series?: string };
+    return wanted.has(d.id) || (groups.sweep !== undefined && wanted.has(groups.sweep)) || (groups.series !== undefined && wanted.has(groups.series));
+  };
+  const id = selected.definition.id;
+  const where = `audit.yaml checks[${selected.index}].${id}.datasets`;
+  const skipped = audit.datasets
+    .filter((d) => !keep(d))
+    .map((d) =>
+      notApplicableResult({
+        check: id,
+        dataset: d.id,
+        reason: `skipped: ${where} limits ${id} to ${(names as string[]).join(", ")}`,
+        summary: `Skipped by choice: ${where} limits ${id} to ${(names as string[]).join(", ")}, which does not include this dataset.`,
+        values: { skipped: true, selected: names },
+      }),
+    );
+  return { included: { ...audit, datasets: audit.datasets.filter(keep) }, skipped };
 }
 
 /** Checks whose failure coarse pooling can fake: they test exact relations through nonlinear averages. */
@@ -126,7 +159,8 @@ export function resultDocumentOf(audit: IngestedAudit, checks: CheckResult[]): R
     fingerprint: fingerprintOf(audit),
     stamp: stampOf(checks),
     settings: d.settings,
-    datasets: audit.datasets.map((x) => ({ id: x.id, file: x.file, sha256: x.sha256, rows: x.rows })),
+    ...(d.display !== undefined ? { display: d.display } : {}),
+    datasets: audit.datasets.map((x) => ({ id: x.id, file: x.file, sha256: x.sha256, rows: x.rows, ...("energyUnit" in x ? { energy_unit: x.energyUnit.name } : {}) })),
     checks,
   };
 }

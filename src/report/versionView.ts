@@ -4,7 +4,7 @@ import { changesBetween, snapshotOf, type VersionChanges, type VersionSnapshot }
 import { publicationDate } from "../archive/manifest.ts";
 import type { FrozenVersion } from "../archive/readVersion.ts";
 import type { IntegrityProblem } from "../archive/integrity.ts";
-import { bibtexEntry, checksTableTex, citationCff, citationSubject, plainCitation, pointsCsv, statusBadgeSvg, type CitationSubject } from "./citation/index.ts";
+import { bibtexEntry, checksMacrosTex, checksTableTex, citationCff, citationSubject, plainCitation, pointsCsv, statusBadgeSvg, type CitationSubject } from "./citation/index.ts";
 import type { ResultDocument, Stamp } from "./resultDocument.ts";
 import { STATUS_LABEL, STATUS_SYMBOL } from "./viewModel.ts";
 
@@ -15,7 +15,8 @@ export const VERSION_DOWNLOADS = [
   { file: "CITATION.cff", label: "Citation File Format 1.2.0" },
   { file: "citation.bib", label: "BibTeX entry" },
   { file: "citation.txt", label: "Plain-text citation" },
-  { file: "checks-table.tex", label: "LaTeX table of the checks and their verdicts (booktabs)" },
+  { file: "checks-table.tex", label: "LaTeX table of the checks and their verdicts (booktabs, siunitx)" },
+  { file: "checks-macros.tex", label: "LaTeX macros: one per headline figure, for quoting the audit in a manuscript (siunitx)" },
   { file: "numbers.csv", label: "Per-point numbers of every check table (CSV, one cell a line)" },
   { file: "badge.svg", label: "Status badge (SVG)" },
 ] as const;
@@ -217,6 +218,7 @@ export function planAuditVersions(input: AuditVersionsInput): AuditVersionsPlan 
       { path: `${dir}citation.bib`, content: bibtexEntry(s) },
       { path: `${dir}citation.txt`, content: plainCitation(s) },
       { path: `${dir}checks-table.tex`, content: checksTableTex(v.result, s) },
+      { path: `${dir}checks-macros.tex`, content: checksMacrosTex(v.result, s) },
       { path: `${dir}numbers.csv`, content: pointsCsv(v.result, s) },
       { path: `${dir}badge.svg`, content: statusBadgeSvg(v.manifest.stamp, v.number, s.doi ? `doi ${s.doi}` : undefined) },
     );

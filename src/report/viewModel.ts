@@ -1,7 +1,11 @@
 import type { CheckResult, Status, TableSpec } from "../checks/types.ts";
 import { CHECKS } from "../checks/index.ts";
-import { fmt } from "../checks/helpers.ts";
 import { renderEquation } from "./equations.ts";
+import { displayContextFor } from "./format/displayContext.ts";
+import type { DisplayContext } from "./format/displayUnit.ts";
+import { labelHtml, notationHtml } from "./format/notationHtml.ts";
+import { tableDisplay } from "./format/tableDisplay.ts";
+import { displayPlotSpec } from "./plots/displayPlot.ts";
 import { renderMarkdown } from "./markdown.ts";
 import { renderPlot } from "./plots/renderPlot.ts";
 import { statusCounts, type ResultDocument } from "./resultDocument.ts";
@@ -21,7 +25,11 @@ export const STATUS_SYMBOL: Record<Status, string> = { pass: "✓", fail: "✗",
 export interface TableView {
   id: string;
   title: string;
-  headers: string[];
+  /** The caption typeset (HTML). */
+  titleHtml: string;
+  /** Header label and unit (HTML), numeric columns marked for right alignment. */
+  headers: { label: string; unit: string; numeric: boolean }[];
+  /** Cells as HTML: numbers in display units, notation typeset. */
   rows: string[][];
 }
 
@@ -34,13 +42,16 @@ export interface CheckView {
   statusLabel: string;
   statusSymbol: string;
   summary: string;
+  /** The summary for the page: numbers in display units, notation typeset (HTML). */
+  summaryHtml: string;
   reason?: string;
+  reasonHtml?: string;
   criteria: string;
   assumptions: string[];
   references: string[];
   equationsHtml: string[];
   tables: TableView[];
-  plots: { id: string; title: string; alt: string; svg: string }[];
+  plots: { id: string; title: string; alt: string; titleHtml: string; altHtml: string; svg: string }[];
 }
 
 export interface AuditPageModel {
@@ -67,20 +78,9 @@ export interface AuditPageModel {
   versioning?: PageVersioning;
 }
 
-function formatCell(v: unknown): string {
-  if (v === null || v === undefined) return "—";
-  if (typeof v === "number") return fmt(v);
-  if (typeof v === "boolean") return v ? "yes" : "no";
-  return String(v);
-}
-
-export function tableView(t: TableSpec): TableView {
-  return {
-    id: t.id,
-    title: t.title,
-    headers: t.columns.map((c) => (c.unit ? `${c.label} (${c.unit})` : c.label)),
-    rows: t.rows.map((r) => t.columns.map((c) => formatCell(r[c.key]))),
-  };
+export function tableView(t: TableSpec, ctx: DisplayContext = {}): TableView {
+  const shown = tableDisplay(t, ctx);
+  return { id: t.id, title: t.title, titleHtml: notationHtml(t.title, ctx), headers: shown.headers, rows: shown.rows };
 }
 
 function criteriaText(c: CheckResult["criteria"]): string {
@@ -103,7 +103,7 @@ function anchorOf(c: CheckResult): string {
  * numbers its plots among the page's (element ids then depend only on the
  * page, so the same result always gives the same bytes).
  */
-export function checkView(c: CheckResult, anchor = anchorOf(c), plotOrdinal?: () => number): CheckView {
+export function checkView(c: CheckResult, anchor = anchorOf(c), plotOrdinal?: () => number, ctx: DisplayContext = {}): CheckView {
   return {
     anchor,
     check: c.check,
@@ -113,14 +113,22 @@ export function checkView(c: CheckResult, anchor = anchorOf(c), plotOrdinal?: ()
     statusLabel: STATUS_LABEL[c.status],
     statusSymbol: STATUS_SYMBOL[c.status],
     summary: c.summary,
-    ...(c.reason ? { reason: c.reason } : {}),
+    summaryHtml: notationHtml(c.summary, ctx),
+    ...(c.reason ? { reason: c.reason, reasonHtml: notationHtml(c.reason, ctx) } : {}),
     criteria: criteriaText(c.criteria ?? {}),
     // Frozen results from older tool versions may lack members added since; show what they have.
     assumptions: c.assumptions ?? [],
     references: c.references ?? [],
     equationsHtml: (c.equations ?? []).map((tex) => renderEquation(tex, true)),
-    tables: (c.tables ?? []).map(tableView),
-    plots: (c.plots ?? []).map((p) => ({ id: `${anchor}-${p.id}`, title: p.title, alt: p.alt, svg: renderPlot(p, `${anchor}-`, plotOrdinal?.()) })),
+    tables: (c.tables ?? []).map((t) => tableView(t, ctx)),
+    plots: (c.plots ?? []).map((p) => ({
+      id: `${anchor}-${p.id}`,
+      title: p.title,
+      alt: p.alt,
+      titleHtml: labelHtml(p.title),
+      altHtml: notationHtml(p.alt, ctx),
+      svg: renderPlot(displayPlotSpec(p, ctx), `${anchor}-`, plotOrdinal?.()),
+    })),
   };
 }
 
@@ -133,7 +141,7 @@ export function auditPageModel(doc: ResultDocument, versioning?: PageVersioning)
     const base = anchorOf(c);
     const n = seen.get(base) ?? 0;
     seen.set(base, n + 1);
-    return checkView(c, n > 0 ? `${base}-${n + 1}` : base, nextPlot);
+    return checkView(c, n > 0 ? `${base}-${n + 1}` : base, nextPlot, displayContextFor(doc, c.dataset));
   });
   return {
     id: doc.audit,

@@ -18,3 +18,4 @@ export * from "./bootstrap.ts";
 export * from "./logisticFit.ts";
 export * from "./tailShape.ts";
 export * from "./sampleSize.ts";
+export * from "./signTest.ts";

@@ -28,7 +28,35 @@ describe("loadArchiveDefinition", () => {
 
   it("refuses a base URL that is not a web address, naming file, line and key", () => {
     expect(() => loadArchiveDefinition(archiveWith("name: A\npublisher: B\nbase_url: ftp://example.org/\n"))).toThrow(
-      'archive.yaml:3 base_url: must start with https:// or http://, found "ftp://example.org/"',
+      'archive.yaml:3 base_url: must start with https:// or http://, such as https://example.org/audits/, found "ftp://example.org/"',
     );
+  });
+
+  it("refuses addresses with white space or control characters, and ones no URL parser reads, naming the character", () => {
+    const message = (yaml: string) => {
+      try {
+        loadArchiveDefinition(archiveWith(`name: A\npublisher: B\n${yaml}`));
+      } catch (err) {
+        return (err as Error).message;
+      }
+      return "accepted";
+    };
+    expect(message('base_url: "https://example.org/a b/"\n')).toBe(
+      'archive.yaml:3 base_url: must be a web address without white space or control characters (U+0020 at character 22), such as https://example.org/audits/, found "https://example.org/a b/"',
+    );
+    expect(message('repository: "https://example.org/x\\u0007.git"\n')).toBe(
+      'archive.yaml:3 repository: must be a web address without white space or control characters (U+0007 at character 22), such as https://example.org/lab/audits.git, found "https://example.org/x\\u0007.git"',
+    );
+    expect(message("repository: https://exa mple\n")).toMatch(/^archive.yaml:3 repository: must be a web address without white space/);
+    expect(message("repository: https://[::1\n")).toBe(
+      'archive.yaml:3 repository: must be an absolute web address (WHATWG URL Standard), such as https://example.org/lab/audits.git, found "https://[::1"',
+    );
+    expect(message("repository: audits.git\n")).toBe(
+      'archive.yaml:3 repository: must be an absolute web address (WHATWG URL Standard), such as https://example.org/lab/audits.git, found "audits.git"',
+    );
+  });
+
+  it("writes addresses in their serialised form, braces and quotes percent-encoded, so exports can copy them", () => {
+    expect(loadArchiveDefinition(archiveWith('name: A\npublisher: B\nbase_url: "https://example.org/{x}\\"y/"\n')).base_url).toBe("https://example.org/%7Bx%7D%22y/");
   });
 });

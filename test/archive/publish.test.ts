@@ -12,6 +12,7 @@ import { verifyVersion } from "../../src/archive/verify.ts";
 import { canonicalJson } from "../../src/report/canonicalJson.ts";
 import { runAudit } from "../../src/report/runAudit.ts";
 import { TOOL } from "../../src/version.ts";
+import { expectedRecordDigest } from "./recordDigest.ts";
 import { fixedClock, makeTempArchive } from "./tempArchive.ts";
 
 const ROOT = path.resolve(path.dirname(fileURLToPath(import.meta.url)), "..", "..");
@@ -62,12 +63,13 @@ describe("publishAudit", () => {
     const m = JSON.parse(fs.readFileSync(path.join(dir, "version.json"), "utf8"));
     expect(m).toEqual({
       audit: "dot-lab-exchange",
+      digest: expectedRecordDigest(m),
       files: {
         "audit.yaml": `sha256:${sha256Hex(fs.readFileSync(path.join(dir, "audit.yaml")))}`,
         "result.json": `sha256:${sha256Hex(fs.readFileSync(path.join(dir, "result.json")))}`,
       },
       fingerprint: result.fingerprint,
-      format: "transport-audit-version/1",
+      format: "transport-audit-version/2",
       inputs: [{ file: "data/exchange.csv", id: "pulse", rows: 400, sha256: sha256Hex(fs.readFileSync(a.dataFile)) }],
       previous: null,
       published: "2026-11-30T09:15:42Z",
@@ -88,15 +90,16 @@ describe("publishAudit", () => {
     expect(fs.existsSync(path.join(a.auditDir, "versions", LOCK_FILE))).toBe(false);
   });
 
-  it("chains version 2 to the digest of version 1's record and never rewrites version 1", async () => {
+  it("chains version 2 to the digest of version 1's record (every field but the digest itself) and never rewrites version 1", async () => {
     const a = makeTempArchive();
     await publishAudit(a.auditDir, { now: fixedClock("2026-11-30T09:00:00Z") });
     const v1 = snapshot(a.auditDir);
     a.writeData(380, 1, "second batch");
     const second = await publishAudit(a.auditDir, { now: fixedClock("2026-12-01T09:00:00Z") });
     expect(second.version).toBe(2);
-    const v1Record = fs.readFileSync(path.join(versionDir(a.auditDir, 1), "version.json"));
-    expect(second.manifest.previous).toEqual({ version: 1, digest: `sha256:${sha256Hex(v1Record)}` });
+    const v1Record = JSON.parse(fs.readFileSync(path.join(versionDir(a.auditDir, 1), "version.json"), "utf8"));
+    expect(v1Record.digest).toBe(expectedRecordDigest(v1Record));
+    expect(second.manifest.previous).toEqual({ version: 1, digest: expectedRecordDigest(v1Record) });
     const after = snapshot(a.auditDir);
     for (const [file, digest] of Object.entries(v1)) expect(after[file]).toBe(digest);
     expect(checkArchive(a.auditDir).problems).toEqual([]);
@@ -210,7 +213,7 @@ describe("a publish that fails half-way", () => {
     expect((await verifyVersion(a.auditDir)).reproduced).toBe(true);
   });
 
-  it("survives SIGKILL before the rename: old state, a stray staging folder that nothing reads, and a stale lock taken over", async () => {
+  it("survives SIGKILL before the rename: old state, a stray staging folder that nothing reads and the next publish removes, and a stale lock taken over", async () => {
     const a = makeTempArchive();
     await publishAudit(a.auditDir, { now: fixedClock("2026-11-30T09:00:00Z") });
     a.writeData(380, 1, "second batch");
@@ -224,6 +227,8 @@ describe("a publish that fails half-way", () => {
     expect(checkArchive(a.auditDir).problems).toEqual([]);
     expect((await publishAudit(a.auditDir)).version).toBe(2);
     expect(listVersionNumbers(a.auditDir)).toEqual([1, 2]);
+    // The killed process's staging folder is gone: the next publish removed it.
+    expect(fs.readdirSync(path.join(a.auditDir, "versions")).filter((e) => e.startsWith(".staging-"))).toEqual([]);
     expect((await verifyVersion(a.auditDir)).reproduced).toBe(true);
   });
 });

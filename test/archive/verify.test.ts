@@ -5,6 +5,7 @@ import { afterEach, describe, expect, it, vi } from "vitest";
 import { publishAudit } from "../../src/archive/publish.ts";
 import { formatVerifyReport, verifyVersion } from "../../src/archive/verify.ts";
 import { cli } from "../helpers/cliInProcess.ts";
+import { expectedRecordDigest } from "./recordDigest.ts";
 import { auditYaml, fixedClock, makeTempArchive } from "./tempArchive.ts";
 
 const sha256Hex = (bytes: Buffer | string) => createHash("sha256").update(bytes).digest("hex");
@@ -86,17 +87,23 @@ describe("verifyVersion", () => {
     a.writeData(380, 1, "second batch");
     await publishAudit(a.auditDir, { now: fixedClock("2026-12-01T09:00:00Z") });
     const record = path.join(a.auditDir, "versions", "1", "version.json");
-    const original = fs.readFileSync(record, "utf8");
-    const backdated = original.replace('"published": "2026-11-30T09:00:00Z"', '"published": "2026-10-01T09:00:00Z"');
-    expect(backdated).not.toBe(original);
-    fs.writeFileSync(record, backdated);
+    const original = JSON.parse(fs.readFileSync(record, "utf8"));
+    const backdated = { ...original, published: "2026-10-01T09:00:00Z" };
+    fs.writeFileSync(record, JSON.stringify(backdated, null, 2));
     const r = await verifyVersion(a.auditDir, { version: 2 });
     expect(r.reproduced).toBe(false);
     expect(r.chain).toEqual([
       {
         version: 1,
         file: "versions/1/version.json",
-        message: `altered after version 2 was published: its digest is sha256:${sha256Hex(backdated)}, version 2 recorded sha256:${sha256Hex(original)} (hash chain broken)`,
+        message:
+          `field digest: expected ${original.digest} (written at publication), found ${expectedRecordDigest(backdated)} for the record's other fields as they now read: ` +
+          "a field was edited after publication; every field that result.json or the previous version can confirm agrees, so the edited one is covered by this digest alone: published (now 2026-10-01T09:00:00Z)",
+      },
+      {
+        version: 1,
+        file: "versions/1/version.json",
+        message: `altered after version 2 was published: its digest is ${expectedRecordDigest(backdated)}, version 2 recorded ${original.digest} (hash chain broken)`,
       },
     ]);
     // Version 2's own data and result are untouched: only the chain is reported.

@@ -6,7 +6,7 @@
 import { afterAll, beforeAll, describe, expect, test } from "vitest";
 import type { PlotSpec } from "../../src/checks/plotSpec.ts";
 import { renderPlot } from "../../src/report/plots/renderPlot.ts";
-import { numberText, tickLabelSvg } from "../../src/report/plots/tickLabel.ts";
+import { linearTickLabels, logTickLabel, numberText } from "../../src/report/plots/tickLabel.ts";
 import { richTextSvg } from "../../src/report/plots/richText.ts";
 import { launchChromium, type LaunchedBrowser } from "../../src/report/pdf/launchChromium.ts";
 
@@ -25,11 +25,17 @@ describe("labels", () => {
   test("numbers read as in print: a minus sign, powers of ten for very small and very large values", () => {
     expect(numberText(0)).toBe("0");
     expect(numberText(-0.5)).toBe("\u22120.5");
-    expect(numberText(12345)).toBe("12345");
-    expect(numberText(1e-7)).toBe("10^\u22127");
-    expect(numberText(2.5e6)).toBe("2.5×10^6");
+    expect(numberText(12345)).toBe("12\u202f345"); // SI Brochure §5.4.4: groups of three, thin space
+    expect(numberText(1e-7)).toBe("10⁻⁷");
+    expect(numberText(2.5e6)).toBe("2.5\u202f×\u202f10⁶");
     expect(numberText(0.1 + 0.2)).toBe("0.3"); // d3 ticks carry binary rounding; six digits drop it
-    expect(tickLabelSvg(1e-5)).toBe('10<tspan dy="-0.5em" font-size="75%">\u22125</tspan>');
+  });
+
+  test("an axis has one tick style: equal decimals on every tick, a shared power of ten, decades alone on log axes", () => {
+    expect(linearTickLabels([0, 0.5, 1, 1.5])).toEqual({ labels: ["0.0", "0.5", "1.0", "1.5"], exponent: 0 });
+    expect(linearTickLabels([0, 2e-5, 4e-5, 6e-5])).toEqual({ labels: ["0", "2", "4", "6"], exponent: -5 });
+    expect(linearTickLabels([-20, -10, 0, 10])).toEqual({ labels: ["\u221220", "\u221210", "0", "10"], exponent: 0 });
+    expect([1e-3, 2e-3, 1e-2, 1, 10].map(logTickLabel)).toEqual(["10⁻³", "", "10⁻²", "10⁰", "10¹"]);
   });
 
   test("k_B and e^{−Σ} become subscripts and superscripts, and markup in a label is escaped", () => {
@@ -37,6 +43,8 @@ describe("labels", () => {
     expect(richTextSvg("e^{−Σ}")).toBe('e<tspan baseline-shift="super" font-size="75%">−Σ</tspan>');
     expect(richTextSvg("a <b> & c")).toBe("a &lt;b&gt; &amp; c");
     expect(richTextSvg("plain_")).toBe("plain_");
+    // A column name is shown as written: Vg_mV is not V with a subscripted g.
+    expect(richTextSvg("Vg_mV")).toBe("Vg_mV");
   });
 });
 

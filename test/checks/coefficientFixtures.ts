@@ -26,7 +26,7 @@ datasets:
     kind: coefficients
     file: data/c.csv
     form: ${t.form}
-${t.dataset}
+${t.dataset}${t.form === "thermoelectric" && !t.dataset.includes("units:") ? "\n    units: SI" : ""}
 `;
   return ingestAudit(tempAudit(yaml, { "data/c.csv": csv }));
 }

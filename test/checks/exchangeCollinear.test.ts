@@ -17,7 +17,7 @@ type Values = {
   identifiable_combinations: Combination[];
   not_identifiable: string[];
   identifiability: string | null;
-  effective_reservoirs: { T_A: number | null; T_B: number | null; T_particles: number | null };
+  explanations: { id: string; identified: boolean }[];
 };
 
 const N = 100_000;
@@ -56,9 +56,9 @@ describe("exchange-fluctuation with Q = εΔN in every realisation (single level
     expect(v.effective_affinity_standard_error).toEqual({ a_Q: null, a_N: null });
     expect(v.not_identifiable).toEqual(["a_Q", "a_N"]);
     expect(v.identifiability).toBe("Q = ε·ΔN with ε = 1.243e-23 J in every realisation, so a_Q and a_N are identifiable only as the combination a_Q·ε + a_N.");
-    // No effective temperature from a combination that mixes both channels.
-    expect(v.effective_reservoirs).toMatchObject({ T_A: null, T_B: null, T_particles: null });
-    expect(r.summary).not.toContain("effective T");
+    // One combination cannot fix both temperatures: the joint state is not identified (single-lead ones are, exactly).
+    expect(v.explanations.find((e) => e.id === "both-temperatures")!.identified).toBe(false);
+    expect(r.summary).not.toContain("The data cannot tell apart");
     expect(r.summary).toContain(" Fitted: a_Q·ε + a_N = ");
   });
 

@@ -4,13 +4,19 @@ import { E0, exactExchangeData, fixtureDataset, testContext, tiltedSkellam } fro
 import { rngFromText } from "../../src/stats/rng.ts";
 import { expectClose } from "../helpers/expectClose.ts";
 
+/** An implied quantity of one explanation (e.g. T_A of "lead-A-temperature"), with its 95 % interval. */
+function implied(v: Values, id: string, name: string): { value: number; lo: number; hi: number } {
+  const q = v.explanations.find((e) => e.id === id)!.quantities.find((x) => x.name === name)!;
+  return { value: q.value as number, lo: q.interval![0] as number, hi: (q.interval![1] ?? Infinity) as number };
+}
+
 type Values = {
   slope: number;
   slope_ci: [number, number];
   slope_standard_error: number;
   effective_affinity: { a_Q: number | null; a_N: number | null; beta_bar?: number };
   effective_affinity_standard_error: Record<string, number | null>;
-  effective_reservoirs: { T_A: number | null; T_B: number | null; T_particles: number | null };
+  explanations: { id: string; consistent: boolean; quantities: { name: string; value: number | null; interval: [number | null, number | null] | null }[] }[];
   bins_used: number;
   binned_chi_square: { exact_values: boolean; p_value: number } | null;
 };
@@ -74,9 +80,9 @@ describe("exchange-fluctuation on laws that obey the detailed relation exactly",
     const v = r.values as Values;
     expect(r.status, r.summary).toBe("pass");
     expect(v.binned_chi_square?.exact_values).toBe(true);
-    // T_particles = (μ_A − μ_B)/(k_B a_N): 4 standard errors of a_N propagated (dT/T = da/a).
+    // One temperature for both leads, T = (μ_A − μ_B)/(k_B a_N): 4 standard errors of a_N propagated (dT/T = da/a).
     const rel = (4 * v.effective_affinity_standard_error.a_N!) / v.effective_affinity.a_N!;
-    expectClose(v.effective_reservoirs.T_particles!, 1, { rtol: rel, source: "declared electron temperature 1 K" });
+    expectClose(implied(v, "common-temperature", "T (both leads)").value, 1, { rtol: rel, source: "declared electron temperature 1 K" });
   });
 });
 
@@ -87,12 +93,13 @@ describe("exchange-fluctuation on data that violate the declared state", () => {
     const r = exchangeFluctuationForDataset(fixtureDataset({ id: "wrong", TA: 1.3, TB: 1, work: "zero", ...g }), testContext());
     const v = r.values as Values;
     expect(r.status).toBe("fail");
-    expect(r.summary).toContain("effective T_A = ");
+    // Both leads offered as alternatives (heat alone cannot say which one is misdeclared).
+    expect(r.summary).toContain("The data cannot tell apart 2 explanations of the departure, each with 95 % intervals: T_A = ");
     // T_A = 1/(β_B − a_Q) in units of E0 (T_B held at its declared 1 K); 4 standard errors of a_Q propagated.
     const aQ = v.effective_affinity.a_Q! * E0;
     const daQ = v.effective_affinity_standard_error.a_Q! * E0;
     const TA = 1 / (1 - aQ);
-    expectClose(v.effective_reservoirs.T_A!, 1.6, { atol: 4 * TA * TA * daQ, source: "temperature the data were drawn at" });
+    expectClose(implied(v, "lead-A-temperature", "T_A").value, 1.6, { atol: 4 * TA * TA * daQ, source: "temperature the data were drawn at" });
     // The slope is the ratio of true to declared a_Q: (1 − 1/1.6)/(1 − 1/1.3) = 1.625 (exact).
     expectClose(v.slope, 1.625, { atol: 5 * v.slope_standard_error + 0.03, source: "ratio of drawn and declared affinities; Σ mixes in the particle channel" });
   });
@@ -110,9 +117,11 @@ describe("exchange-fluctuation on data that violate the declared state", () => {
     const r = exchangeFluctuationForDataset(fixtureDataset({ id: "hot", TA: 1, TB: 1, muA: 0.8, work: "zero", W: null, Q, dN }), testContext());
     const v = r.values as Values;
     expect(r.status).toBe("fail");
-    expect(r.summary).toContain("the particle counting shows an effective temperature of");
+    expect(r.summary).toContain("or T (both leads) = ");
     const rel = (4 * v.effective_affinity_standard_error.a_N!) / v.effective_affinity.a_N!;
-    expectClose(v.effective_reservoirs.T_particles!, 1.5, { rtol: rel, source: "temperature the counts were drawn at" });
+    expectClose(implied(v, "common-temperature", "T (both leads)").value, 1.5, { rtol: rel, source: "temperature the counts were drawn at" });
+    // A single heated lead would change a_Q, which the fit finds at its declared 0: those explanations are excluded.
+    expect(v.explanations.filter((e) => e.id.endsWith("temperature") && e.id.startsWith("lead")).map((e) => e.consistent)).toEqual([false, false]);
   });
 
   it("is not applicable with a magnetic field, naming the reason", () => {

@@ -75,4 +75,34 @@ describe("figures-of-merit", () => {
     expect(r.status).toBe("not-applicable");
     expect(r.summary).toBe("Not applicable: figures of merit are defined for the two-flux charge–heat matrix, and this table has 3 fluxes.");
   });
+
+  it("withholds ZT and the efficiencies at a row where positivity is significantly violated, and says why", async () => {
+    // +B row: L = [[1, 2], [0.4, 1]], symmetric part off-diagonal 1.2 > √(1·1): λ_min = 1 − 1.2 = −0.2, twenty standard
+    // uncertainties below zero at u = 0.01 (Onsager 1931: the symmetric part must be positive semi-definite). There
+    // x = 5, y = 0.8/0.2 = 4 and x(√5 − 1)/(√5 + 1) = 1.91 > 1: an efficiency above Carnot, which the second law forbids
+    // (Benenti, Saito & Casati, PRL 106, 230602 (2011)). The −B partner has the same symmetric part, also forbidden.
+    // Rows at Vg = 1 obey it: L12 = 0.5, L21 = 0.3, λ_min = 0.6.
+    const rows = [
+      [0, 1, 1, 2, 0.4, 1, 0.01, 0.01, 0.01, 0.01],
+      [0, -1, 1, 0.4, 2, 1, 0.01, 0.01, 0.01, 0.01],
+      [1, 1, 1, 0.5, 0.3, 1, 0.01, 0.01, 0.01, 0.01],
+      [1, -1, 1, 0.3, 0.5, 1, 0.01, 0.01, 0.01, 0.01],
+    ];
+    const r = await runCheck(figuresOfMerit, {
+      form: "onsager",
+      header: ["Vg", "B", "L11", "L12", "L21", "L22", "u_L11", "u_L12", "u_L21", "u_L22"],
+      rows,
+      dataset: "    temperature: { value: 1.0 }\n    field: { column: B }\n    point: [Vg]",
+    });
+    const pts = r.values.per_point as (Fig & { second_law: string; note?: string })[];
+    expect(pts.map((p) => p.second_law)).toEqual(["violated", "violated", "ok", "ok"]);
+    for (const p of pts.slice(0, 2)) {
+      expect([p.ZT, p.eta_max_rel, p.eta_max_power_rel, p.y]).toEqual([null, null, null, null]);
+      expect(p.note).toMatch(/^meaningless: positivity is significantly violated here \(λ_min = -0\.2; K below the broken-time-reversal bound \(L12 − L21\)²\/\(4 G T³\)\), so the second law forbids these coefficients$/);
+    }
+    expect(pts[2].ZT).not.toBeNull();
+    expect(r.values.rows_violating_positivity).toEqual([2, 3]);
+    expect(r.summary).toMatch(/At 2 rows \(Vg = 0, B = \+1 T \(row 2\); Vg = 0, B = -1 T \(row 3\)\) positivity is significantly violated, so ZT and the efficiencies there are meaningless \(the second law forbids them\) and are not reported\.$/);
+    expect(r.tables[0].rows[0].second_law).toBe(pts[0].note);
+  });
 });

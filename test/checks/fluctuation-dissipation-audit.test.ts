@@ -74,4 +74,32 @@ checks:
     for (const tex of fd.equations) expect(renderEquation(tex)).toContain("katex");
     expect(JSON.parse(JSON.stringify(result)).checks[0].values.L_response).toEqual(L);
   });
+
+  it("says the sweep is not applicable, and why, when heat and particles are proportional (a single level)", async () => {
+    // Q = ε n exactly in every realisation: the (Q, ΔN) second-moment matrix is l(ε, 1)(ε, 1)ᵀ/τ, of rank one, so no
+    // number of realisations separates the two columns of L (before this was said, the fit failed as "not positive
+    // definite" and asked for more runs).
+    const eps = 0.08; // meV
+    const TB = 0.6;
+    const betaPerMeV = (T: number) => MEV / (K_B * T);
+    const points = [
+      { TA: 0.6, mu: 0 },
+      { TA: 0.62, mu: 0 },
+      { TA: 0.6, mu: 0.002 },
+      { TA: 0.58, mu: -0.002 },
+    ];
+    const files: Record<string, string> = {};
+    const entries = points.map((p, k) => {
+      const b = (betaPerMeV(TB) - betaPerMeV(p.TA)) * eps + betaPerMeV(p.TA) * p.mu;
+      files[`data/p${k}.csv`] = histogramCsv(`test:fd-single-level:${k}`, 2, eps, b, 20000);
+      return `  - { id: p${k}, kind: samples, file: data/p${k}.csv, columns: { Q: q, dN: n, count: count }, energy_unit: meV, reservoirs: { A: { T: ${p.TA}, mu: ${p.mu} }, B: { T: ${TB}, mu: 0 } }, tau: 1.0e-6, work: zero, sweep: level-sweep }`;
+    });
+    const dir = tempAudit(`id: fd-level\ntitle: Single level\nauthors: [{ name: "Test Author" }]\ndatasets:\n${entries.join("\n")}\nchecks:\n  - fluctuation-dissipation\n`, files);
+    const { result } = await runAudit(dir);
+    const fd = result.checks[0];
+    expect(fd.status).toBe("not-applicable");
+    expect(fd.reason).toBe(
+      'sweep "level-sweep": Q = ε·ΔN with ε = 0.08 meV in every realisation (transport through a single level), so the heat and particle channels are one current driven by the combination a_Q·ε + a_N; the 2×2 response and fluctuation matrices are singular whatever the number of realisations, and this check does not fit the single combined channel.',
+    );
+  });
 });

@@ -80,7 +80,11 @@ describe("positivity", () => {
     // r = 0.95 → λ = 0.05; u = 0.05 per entry gives u(λ) ≈ 0.05·√(0.5 + 2·0.95²/4) ≈ 0.048, so λ − 1.645 u < 0.
     const r = await runCheck(positivity, onsager([[0, 1, 0.95, 0.95, 1, 0.05, 0.05, 0.05, 0.05]]));
     expect(r.status).toBe("inconclusive");
-    expect(r.reason).toMatch(/^The 95 % lower bound of the smallest normalised eigenvalue is not above zero at Vg = 0 \(row 2\) \(λ = 0\.05 ± 0\.0\d+; uncertainty \d\.\d+× too large\)\./);
+    expect(r.reason).toMatch(/^The 95 % lower bound of the smallest normalised eigenvalue is not above zero at Vg = 0 \(row 2\) \(λ = 0\.05 ± 0\.0\d+; uncertainty (\d\.\d+)× too large: about (\d\.\d+)× as many repeats averaged\)\./);
+    // The repeats needed are the square of the uncertainty factor (uncertainties fall as 1/√repeats), rounded up.
+    const [, factor, repeats] = /uncertainty (\d\.\d+)× too large: about (\d\.\d+)×/.exec(r.reason!)!;
+    expect(Number(repeats)).toBeGreaterThanOrEqual(Number(factor) ** 2 - 0.1);
+    expect(Number(repeats)).toBeLessThanOrEqual((Number(factor) + 0.05) ** 2 + 0.1);
   });
 
   it("cannot pass without uncertainties", async () => {

@@ -46,13 +46,19 @@ describe("reciprocity", () => {
     expect(r.values.pairs).toBe(4);
     // Π − T S = 0 up to rounding of T·S in the CSV text (exact construction): |z| tiny.
     expect(r.values.max_abs_z as number).toBeLessThan(1e-6);
-    expect(r.summary).toMatch(/^The Kelvin relation Π = T S holds within 5 % of the scale at every one of 4 comparisons/);
+    // Scale √(L22/L11) = √(T K/G) at S Π ≪ K/G: √(4.2 · 12 pW/K / 30 µS) = 1.30 mV (row Vg = 0) down to 1.25 mV (Vg = 3).
+    expect(r.summary).toMatch(/^The Kelvin relation Π = T S holds at every one of 4 comparisons \(two one-sided tests at 95 % confidence\): T S = Π within 5 % of √\(L22\/L11\) = 1\.25–1\.3 mV;/);
+    // No field column: the diagonal is its own partner, said rather than counted as a test.
+    expect(r.summary).toMatch(/The diagonal entries without a field column \(every row at B = 0\) are paired with themselves, so their evenness in B is trivially true and not tested there\.$/);
+    expect(r.values.diagonal_pairs).toBe(0);
   });
 
   it("pairs +B with −B: passes a set whose L12(B) differs from L21(B) but equals L21(−B) (Onsager–Casimir)", async () => {
     const r = await runCheck(reciprocity, casimirSweep(0.002));
     expect(r.status).toBe("pass");
-    expect(r.values.pairs).toBe(12); // 6 field pairs × 2 ordered off-diagonal entries
+    expect(r.values.pairs).toBe(24); // 6 field pairs × (2 ordered off-diagonal entries + 2 diagonal entries)
+    expect(r.values.diagonal_pairs).toBe(12);
+    expect(r.values.tested_relations).toEqual(["L11(B) = L11(−B)", "L12(B) = L21(−B)", "L21(B) = L12(−B)", "L22(B) = L22(−B)"]);
     expectClose(r.values.max_abs_z as number, 0, { atol: 1e-9, source: "exact construction L12(B) = L21(−B)" });
   });
 
@@ -98,24 +104,28 @@ describe("reciprocity", () => {
     expect(r.status).toBe("fail");
     expect(r.values.p_value as number).toBeLessThan(0.01);
     expect(Object.keys(r.values)).toEqual(expect.arrayContaining(["max_abs_z", "p_value", "pairs"]));
-    expect(r.summary).toMatch(/^Onsager–Casimir reciprocity is violated: 1 of 12 comparisons differ significantly after Holm's correction; the strongest at Vg = 3, B = \+1 T \(row 8\): L12\(B\) = L21\(−B\)/);
+    expect(r.summary).toMatch(/^Onsager–Casimir reciprocity is violated: 1 of 24 comparisons differ significantly after Holm's correction \(L12\(B\) = L21\(−B\)\); the strongest at Vg = 3, B = \+1 T \(row 8\): L12\(B\) = L21\(−B\), difference 0\.119 of √\(Ls_11 Ls_22\) = 1\.1 A K/);
+    // Vg = 3: a = 0.45, L12(+B) = 1.2 (a + 0.2) = 0.78 against L21(−B) = 0.65; 0.13/√(1 · 1.2) = 0.1187 (exact construction).
   });
 
   it("is inconclusive, not pass, on an underpowered set that is exactly reciprocal", async () => {
     // u = 0.05 per entry: u(difference) = 0.0707, scale √(1·1.2) = 1.095, margin 0.0548 < 1.645·0.0707: TOST cannot succeed.
+    // Diagonal L11: scale √(1·1) = 1, margin 0.05; 1.645·0.0707/0.05 = 2.33, so 2.33² = 5.4 → 5.5× the repeats (rounded up).
     const r = await runCheck(reciprocity, casimirSweep(0.05));
     expect(r.status).toBe("inconclusive");
-    expect(r.reason).toMatch(/^12 of 12 comparisons cannot exclude an asymmetry of 5 % of the scale: Vg = 0, B = \+1 T \(row 2\): L12\(B\) = L21\(−B\) \(uncertainty 2\.1× too large\)/);
-    expect(r.reason).toMatch(/Smaller uncertainties at these points \(more averaging\) would settle them\.$/);
+    expect(r.reason).toMatch(
+      /^24 of 24 comparisons cannot exclude an asymmetry of 5 % of their scale: Vg = 0, B = \+1 T \(row 2\): L11\(B\) = L11\(−B\) \(uncertainty 2\.3× too large: about 5\.5× as many repeats averaged\); Vg = 0, B = \+1 T \(row 2\): L12\(B\) = L21\(−B\) \(uncertainty 2\.1× too large/,
+    );
+    expect(r.reason).toMatch(/Smaller uncertainties at these points \(more averaging; the uncertainty falls as one over the square root of the number of repeats\) would settle them\.$/);
   });
 
-  it("applies Holm's correction: one z = 2.9 among 12 comparisons is not a significant violation", async () => {
-    // Unadjusted two-sided p(2.9) = 0.0037 < α = 0.01, but Holm multiplies by 12: 0.045 > 0.01.
+  it("applies Holm's correction: one z = 2.9 among 24 comparisons is not a significant violation", async () => {
+    // Unadjusted two-sided p(2.9) = 0.0037 < α = 0.01, but Holm multiplies by 24 (diagonal included): 0.090 > 0.01.
     const u = 0.01;
     const dz = 2.9 * u * Math.SQRT2;
     const r = await runCheck(reciprocity, casimirSweep(u, (row, k, B) => { if (k === 2 && B === 1) row[3] += dz; }));
     expect(r.status).toBe("inconclusive");
-    expectClose(r.values.p_value as number, 12 * 0.003731, { rtol: 2e-3, source: "Holm (1979) with m = 12; 2(1 − Φ(2.9)) = 0.003731 (NIST normal table, 4 digits)" });
+    expectClose(r.values.p_value as number, 24 * 0.003731, { rtol: 2e-3, source: "Holm (1979) with m = 24; 2(1 − Φ(2.9)) = 0.003731 (NIST normal table, 4 digits)" });
   });
 
   it("refers differences to Student's t when the uncertainties carry few degrees of freedom (option dof)", async () => {
@@ -139,7 +149,7 @@ describe("reciprocity", () => {
     expect(r.status).toBe("inconclusive");
     expect(r.values.p_value).toBeNull();
     expect(r.reason).toBe(
-      "Without u_ columns no difference can be called significant, nor small enough to exclude a violation of 5 % of the scale; add a standard uncertainty for every coefficient (u_L11, u_L12, …).",
+      "Without u_ columns no difference can be called significant, nor small enough to exclude a violation of 5 % of its scale (L11(B) = L11(−B) within 5 % of √(L11(B) L11(−B)) = 1 A K/V; L12(B) = L21(−B) and L21(B) = L12(−B) within 5 % of √(Ls_11 Ls_22) = 1.1 A K; L22(B) = L22(−B) within 5 % of √(L22(B) L22(−B)) = 1.2 W K); add a standard uncertainty for every coefficient (u_L11, u_L12, …).",
     );
   });
 
@@ -190,7 +200,7 @@ describe("reciprocity", () => {
     const { result } = await runAudit(dir);
     const rec = result.checks.find((c) => c.check === "reciprocity")!;
     const pos = result.checks.find((c) => c.check === "positivity")!;
-    expect(rec.values).toMatchObject({ pairs: 12, p_value: expect.any(Number), max_abs_z: expect.any(Number) });
+    expect(rec.values).toMatchObject({ pairs: 24, p_value: expect.any(Number), max_abs_z: expect.any(Number) });
     expect(pos.values).toMatchObject({ points: 12, min_eigenvalue: expect.any(Number) });
   });
 
@@ -204,6 +214,6 @@ describe("reciprocity", () => {
     });
     for (const tex of [...a.equations, ...b.equations]) expect(renderEquation(tex)).toContain("katex");
     expect(a.plots.map((p) => p.id)).toEqual(["reciprocity-identity", "reciprocity-asymmetry"]);
-    expect(a.tables[0].rows).toHaveLength(12);
+    expect(a.tables.map((t) => t.rows.length)).toEqual([12, 12]); // off-diagonal pairs, then the diagonal
   });
 });

@@ -20,7 +20,8 @@ describe("transport-audit command line (contract: audit-format.md)", () => {
     expect(doc.tool).toEqual({ name: "transport-audit", version: expect.any(String) });
     expect(doc.fingerprint).toMatch(/^sha256:[0-9a-f]{64}$/);
     expect(["pass", "fail", "inconclusive"]).toContain(doc.stamp);
-    expect(doc.datasets[0]).toEqual({ id: "pulse-40ns", file: "data/exchange.csv", sha256: expect.stringMatching(/^[0-9a-f]{64}$/), rows: expect.any(Number) });
+    // energy_unit: an extension of the contract, the unit the report shows this dataset's energies in.
+    expect(doc.datasets[0]).toEqual({ id: "pulse-40ns", file: "data/exchange.csv", sha256: expect.stringMatching(/^[0-9a-f]{64}$/), rows: expect.any(Number), energy_unit: "meV" });
     const secondLaw = doc.checks.find((c: { check: string }) => c.check === "second-law");
     expect(secondLaw).toMatchObject({ dataset: "pulse-40ns", status: expect.any(String), summary: expect.any(String) });
     expect(secondLaw.values.ci).toHaveLength(2);
@@ -59,7 +60,8 @@ describe("transport-audit command line (contract: audit-format.md)", () => {
     expect(cli(["init", dir]).code).toBe(0);
     const yaml = fs.readFileSync(path.join(dir, "audit.yaml"), "utf8");
     expect(yaml).toContain("id: my-device");
-    // The scaffold names a data file that does not exist yet: validation passes, ingestion names the file.
+    // The scaffold comes with an example data file, so the new audit runs at once (test/cli/initRun.test.ts).
+    fs.rmSync(path.join(dir, "data", "run-1.csv"));
     const r = cli(["run", dir]);
     expect(r.code).toBe(2);
     expect(r.stderr).toContain("data/run-1.csv: cannot read the file (does it exist?)");

@@ -315,8 +315,8 @@ describe("build --no-cache", () => {
       const messages = quiet.mock.calls.map((c) => String(c[0]));
       expect(messages).toEqual(
         expect.arrayContaining([
-          "built 1 audit report(s)\n",
-          "built 1 audit report(s); 1 unchanged audit(s) taken from the result cache\n",
+          "built 1 audit report(s): 0 failed\n",
+          "built 1 audit report(s): 0 failed; 1 unchanged audit(s) taken from the result cache\n",
         ]),
       );
     } finally {

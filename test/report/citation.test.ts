@@ -133,9 +133,9 @@ describe("BibTeX entry", () => {
     expect(e.key).toBe("vq3-heat-exchange-v3");
     expect(e.type).toBe("misc");
     expect(e.AUTHOR).toBe("Varga, Ilse and Beltrão, Ana and van der Berg, Jan");
-    // bibtex-parse strips the protecting braces and undoes some escapes (\% \{ \} \_) but keeps others (\&):
-    // with the remaining backslashes removed, the title reads exactly as written in audit.yaml.
-    expect(String(e.TITLE).replace(/\\/g, "")).toBe('Heat & charge at 100% gate: "VQ-3" {test} with a_b');
+    // bibtex-parse strips the protecting braces and undoes some escapes (\% \_) but keeps others (\&) and the
+    // brace commands' names; every field is decoded and compared in citationHostile.test.ts.
+    expect(String(e.TITLE)).toBe('Heat \\& charge at 100% gate: "VQ-3" \\textbracelefttest\\textbraceright with a_b');
     expect(String(e.YEAR)).toBe("2026");
     expect(e.MONTH).toBe("December");
     expect(e.DOI).toBe(DOI);
@@ -191,9 +191,14 @@ describe("LaTeX table", () => {
     expect(latexText("a & b % c $ d # e _ f { g } h ~ i ^ j \\ k")).toBe(
       "a \\& b \\% c \\$ d \\# e \\_ f \\{ g \\} h \\textasciitilde{} i \\textasciicircum{} j \\textbackslash{} k",
     );
+    // Notation in math mode; a value ± uncertainty pair through siunitx, rounded as in the GUM (JCGM 100:2008 §7.2.6).
+    expect(latexText("⟨Σ⟩ = 0.2 ± 0.1 k_B")).toBe("$\\langle \\Sigma\\rangle$ = (\\num{0.20}~$\\pm$~\\num{0.10})\\,$k_\\mathrm{B}$");
     // Neighbouring symbols share one formula: `$a$$b$` would open display math in TeX.
-    expect(latexText("⟨Σ⟩ = 0.2 ± 0.1 k_B")).toBe("$\\langle \\Sigma \\rangle$ = 0.2 $\\pm$ 0.1 $k_\\mathrm{B}$");
-    expect(latexText("<x xᵀ>₀ < 1")).toBe("\\textless{}x x$^\\mathsf{T}$\\textgreater{}$_0$ \\textless{} 1");
+    expect(latexText("<x xᵀ>₀ < 1")).toBe("\\textless{}x x$^\\mathsf{T}$\\textgreater{}$_0$ \\textless{} \\num{1}");
+    // Numbers in display units through siunitx: 0.12 K is 120 mK; 6.69e-4 as \num{6.69e-4}, which siunitx sets as 6.69 × 10⁻⁴.
+    expect(latexText("T_A = 0.12 K, ZT = 6.69e-4")).toBe("$T_{\\mathrm{A}}$ = \\num{120}\\,\\si{\\milli\\kelvin}, ZT = \\num{6.69e-4}");
+    // The table's old double-superscript: the Lorenz number's unit in siunitx, W Ω K⁻² with its prefix.
+    expect(latexText("L0 = 2.443e-8 W Ω K⁻²")).toBe("L0 = \\num{24.43}\\,\\si{\\nano\\watt\\ohm\\per\\kelvin\\squared}");
   });
 
   it("lists every check with its verdict, with balanced braces, and names the DOI and fingerprint", () => {
@@ -211,7 +216,7 @@ describe("LaTeX table", () => {
     expect(depth).toBe(0);
     expect(body).not.toContain("$$");
     expect(body).toContain("\\texttt{second-law} & pulse\\_40ns & pass & ");
-    expect(body).toContain("\\texttt{work} & pulse\\_40ns & fail & Work 50\\% \\& more: W $\\ge$ 0 fails \\#1 \\{x\\} \\textasciitilde{} \\textasciicircum{} \\\\");
+    expect(body).toContain("\\texttt{work} & pulse\\_40ns & fail & Work \\num{50}\\% \\& more: W $\\ge$ \\num{0} fails \\#\\num{1} \\{x\\} \\textasciitilde{} \\textasciicircum{} \\\\");
     expect(body).toContain("DOI 10.5281/zenodo.1234567.");
     expect(body).toContain("\\label{tab:vq3-heat-exchange-v3}");
     expect(body.replace(/\\allowbreak /g, "")).toContain("\\texttt{sha256:52bdf9e1f426634124f71c7c18cec0e12fcee4f5236377e08fd34d71bf7a1256}");

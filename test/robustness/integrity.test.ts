@@ -23,7 +23,6 @@
  * the command line with the exit status of the contract; a data file replaced
  * by something unreadable is a finding of verify, not a crash.
  */
-import { createHash } from "node:crypto";
 import fs from "node:fs";
 import path from "node:path";
 import { describe, expect, it } from "vitest";
@@ -31,11 +30,9 @@ import { checkArchive } from "../../src/archive/integrity.ts";
 import { listVersionNumbers, LOCK_FILE } from "../../src/archive/layout.ts";
 import { publishAudit } from "../../src/archive/publish.ts";
 import { verifyVersion } from "../../src/archive/verify.ts";
+import { expectedRecordDigest } from "../archive/recordDigest.ts";
 import { fixedClock, makeTempArchive } from "../archive/tempArchive.ts";
 import { cli } from "./harness.ts";
-
-/** SHA-256 computed here with node:crypto (FIPS 180-4), independently of the archive code. */
-const sha256Hex = (text: string) => createHash("sha256").update(text).digest("hex");
 
 /** What the versions folder holds (names only), to see that nothing was left behind. */
 function versionsFolder(auditDir: string): string[] {
@@ -86,9 +83,9 @@ describe("damage is reported with the exit status of the contract", () => {
     a.writeData(380, 1, "second batch");
     await publishAudit(a.auditDir, { now: fixedClock("2026-12-01T09:00:00Z") });
     const record = path.join(a.auditDir, "versions", "1", "version.json");
-    const original = fs.readFileSync(record, "utf8");
-    const edited = original.replace('"stamp": "pass"', '"stamp": "inconclusive"');
-    fs.writeFileSync(record, edited);
+    const original = JSON.parse(fs.readFileSync(record, "utf8"));
+    const edited = { ...original, stamp: "inconclusive" };
+    fs.writeFileSync(record, JSON.stringify(edited, null, 2));
     const r = await cli(["verify", a.auditDir]);
     expect(r.code).toBe(1);
     expect(r.stdout).toContain("(hash chain broken)");
@@ -98,8 +95,9 @@ describe("damage is reported with the exit status of the contract", () => {
     expect(refused.code).toBe(2);
     expect(refused.stderr).toBe(
       `error: ${path.join(a.auditDir, "versions")}: the published versions are damaged, so no version is added on top of them:\n` +
-        "  versions/1/result.json: stamp pass differs from the version record's inconclusive\n" +
-        `  versions/1/version.json: altered after version 2 was published: its digest is sha256:${sha256Hex(edited)}, version 2 recorded sha256:${sha256Hex(original)} (hash chain broken)\n`,
+        "  versions/1/version.json: field stamp: expected pass, found inconclusive (as result.json of this version states)\n" +
+        `  versions/1/version.json: field digest: expected ${original.digest} (written at publication), found ${expectedRecordDigest(edited)} for the record's other fields as they now read: a field was edited after publication\n` +
+        `  versions/1/version.json: altered after version 2 was published: its digest is ${expectedRecordDigest(edited)}, version 2 recorded ${original.digest} (hash chain broken)\n`,
     );
     expect(versionsFolder(a.auditDir)).toEqual(before);
     expect(listVersionNumbers(a.auditDir)).toEqual([1, 2]);

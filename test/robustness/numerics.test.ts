@@ -147,7 +147,8 @@ describe("zero or negative contact time", () => {
       new ConfigError("audit.yaml:14 datasets[0].tau: must be a positive number of seconds, found 0"),
     );
     await expect(ingestAudit(auditWith(VALID_YAML.replace("tau: 2.0e-9", "tau: -2.0e-9")))).rejects.toThrow(
-      new ConfigError("audit.yaml:14 datasets[0].tau: must be a positive number of seconds, found -2e-9"),
+      // Quoted as written in audit.yaml, not as JavaScript prints the number.
+      new ConfigError("audit.yaml:14 datasets[0].tau: must be a positive number of seconds, found -2.0e-9"),
     );
   });
 
@@ -210,7 +211,8 @@ describe("magnitudes at the ends of double precision", () => {
     const yaml = samplesYaml("counts", "data/c.csv", HOT_LEFT).replace("columns: { Q: q, dN: n }", "columns: { Q: q, dN: n, count: c }");
     const csv = `q,n,c\n${Array.from({ length: 40 }, (_, i) => `${i % 2 ? 0.1 : -0.1},${(i % 3) - 1},${i === 0 ? 1e300 : 5}`).join("\n")}\n`;
     await expect(ingestAudit(audit(yaml, { "data/c.csv": csv }))).rejects.toThrow(
-      'data/c.csv:2, column "c": expected a count (a whole number from 0 to 9007199254740991), found 1e+300',
+      // Not the double the cell became: above 2^53 − 1 it is not the number written.
+      'data/c.csv:2, column "c": expected a count (a whole number from 0 to 9007199254740991), found a number beyond ±9007199254740991 (2^53 − 1), where a double cannot hold every whole number',
     );
   });
 });

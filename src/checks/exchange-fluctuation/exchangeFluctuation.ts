@@ -1,5 +1,6 @@
 import type { SamplesDataset } from "../../ingest/types.ts";
-import { effectiveReservoirs, type FittedAffinities } from "../../physics/affinities.ts";
+import type { FittedAffinities } from "../../physics/affinities.ts";
+import { explanationSentence, explanationsOf, quantityText, type Explanation } from "./explanations.ts";
 import { fitExchangeLogistic, logisticScoreTest, type LogisticFit } from "../../stats/logisticFit.ts";
 import { columnDependence, identifiableCombinations } from "../../stats/columnDependence.ts";
 import { normalQuantile, normalTwoSidedP } from "../../stats/normal.ts";
@@ -9,6 +10,8 @@ import { fmt, fmtInterval, notApplicableResult, numberOption, perDataset } from 
 import type { CheckContext, CheckDefinition, CheckResult, Status, TableSpec } from "../types.ts";
 import { binnedLogRatio, type LogRatio } from "./binnedLogRatio.ts";
 import { jointHistogramPlot, logRatioPlot, mirrorHistogramPlot } from "./plots.ts";
+import { mirrorSymmetryResult } from "./mirrorSymmetry.ts";
+import { marginOption, countOption } from "../options.ts";
 import { countingAssumptions, countingOffset, countingSources } from "../resamplingUnits.ts";
 import { withCountingCovariance } from "../countingCovariance.ts";
 
@@ -200,13 +203,14 @@ export function exchangeFluctuationForDataset(d: SamplesDataset, ctx: CheckConte
     if (sigma[i] < 0) negative += w;
     else if (sigma[i] > 0) positive += w;
   }
+  // Σ ≡ 0 (the zero-affinity point of a sweep): the relation is the mirror symmetry P(z) = P(−z), tested as such.
+  if (negative + positive === 0) return mirrorSymmetryResult(d, ctx.settings, margin, assumptionsFor(d));
 
   // (1) Contracted relation: slope c of ln P(Σ)/P(−Σ), fitted without bins.
-  const sigmaVaries = negative + positive > 0;
-  const contracted: LogisticFit | null = sigmaVaries ? withCountingCovariance(d, fitExchangeLogistic([sigma], weight), [sigma], "features") : null;
-  const slopeOk = contracted?.status === "converged";
-  const slope = slopeOk ? contracted!.coefficients[0] : Number.NaN;
-  const slopeSe = slopeOk ? contracted!.standardErrors[0] : Number.NaN;
+  const contracted: LogisticFit = withCountingCovariance(d, fitExchangeLogistic([sigma], weight), [sigma], "features");
+  const slopeOk = contracted.status === "converged";
+  const slope = slopeOk ? contracted.coefficients[0] : Number.NaN;
+  const slopeSe = slopeOk ? contracted.standardErrors[0] : Number.NaN;
   const slopeCi: [number, number] = [slope - z * slopeSe, slope + z * slopeSe];
   const cubic = slopeOk ? logisticScoreTest(contracted!, [sigma], [cubed(sigma)], weight) : null;
   const ratio: LogRatio = binnedLogRatio(sigma, weight, minBinCount, d.reduction?.steps.sigma ?? null);
@@ -259,13 +263,29 @@ export function exchangeFluctuationForDataset(d: SamplesDataset, ctx: CheckConte
     if (row) row.p_holm = family.adjusted[k];
     combinationValues[j].p_holm = family.adjusted[k];
   });
-  const effective = effectiveReservoirs(d.reservoirs.A, d.reservoirs.B, fitted);
+  // Which reservoir states reproduce the fitted coefficients: single-lead alternatives and the joint state.
+  const explanations: Explanation[] = jointOk
+    ? explanationsOf(
+        d,
+        {
+          combinations: ident.combinations.map((m, j) => ({
+            weights: Object.fromEntries([[m.channel.key, 1], ...m.terms.map((t) => [t.channel.key, t.factor])]),
+            estimate: joint!.coefficients[j],
+          })),
+          covariance: joint!.covariance,
+          particles: channels.some((c) => c.key === "a_N"),
+          work: channels.some((c) => c.key === "beta_bar"),
+        },
+        alpha,
+        z,
+      )
+    : [];
 
   const rejected = tests.filter((_, k) => family.rejected[k]);
   let status: Status;
   let summary: string;
   let reason: string | undefined;
-  const effectiveText = describeEffective(d, effective);
+  const effectiveText = explanations.length ? ` ${explanationSentence(d, explanations, confidence, alpha)}` : "";
   const identText = ident.explanation ? ` ${ident.explanation}${describeCombinations(ident.combinations.filter((m) => m.terms.length > 0), combinationValues)}` : "";
   if (n < MIN_REALISATIONS) {
     status = "inconclusive";
@@ -274,23 +294,19 @@ export function exchangeFluctuationForDataset(d: SamplesDataset, ctx: CheckConte
   } else if (rejected.length > 0) {
     status = "fail";
     summary = `The exchange fluctuation relation is violated: ${rejected.map((t) => t.describe).join("; ")} (Holm-adjusted p ≤ ${alpha}).${effectiveText}${identText}`;
-  } else if (!sigmaVaries) {
-    status = "inconclusive";
-    summary = "Σ is zero in every realisation, so the contracted relation P(Σ)/P(−Σ) = e^Σ says nothing.";
-    reason = "The declared affinities make Σ vanish (or no energy or particles were exchanged); the relation is tested by data with non-zero Σ.";
-  } else if (negative >= MIN_NEGATIVE && positive < negative && contracted?.status === "separable") {
+  } else if (negative >= MIN_NEGATIVE && positive < negative && contracted.status === "separable") {
     // The mirror image of the usual shortage: Σ < 0 in (nearly) every realisation, so P(Σ) has no partner P(−Σ).
     status = "inconclusive";
     summary = `${positive === 0 ? "No realisation has" : `Only ${fmt(positive)} of ${n} realisations ${positive === 1 ? "has" : "have"}`} Σ > 0 while ${fmt(negative)} have Σ < 0: without mirrored events the slope of ln P(Σ)/P(−Σ) cannot be estimated.`;
     reason = `The ratio needs realisations of both signs. Σ < 0 in nearly every run contradicts the declared affinities (are reservoirs A and B, or the sign of Q, swapped?); the second-law check judges the mean.`;
-  } else if (negative < MIN_NEGATIVE || contracted?.status === "separable") {
+  } else if (negative < MIN_NEGATIVE || contracted.status === "separable") {
     status = "inconclusive";
     summary = `Only ${fmt(negative)} of ${n} realisations have Σ < 0: too few to estimate the slope of ln P(Σ)/P(−Σ).`;
     reason = `At least ${MIN_NEGATIVE} realisations with negative Σ are needed; a shorter contact time or smaller affinities make them more frequent, or record about ${Math.ceil((MIN_NEGATIVE / Math.max(negative, 0.5)) * n).toLocaleString("en")} runs.`;
   } else if (!slopeOk) {
     status = "inconclusive";
     summary = "The slope of ln P(Σ)/P(−Σ) could not be estimated.";
-    reason = `${contracted?.message ?? "The fit failed"}; please report this dataset if it has many realisations of both signs.`;
+    reason = `${contracted.message ?? "The fit failed"}; please report this dataset if it has many realisations of both signs.`;
   } else if (ident.basis.length > 0 && !jointOk) {
     // The channels left are linearly independent in the data, so this is a fit that more data can rescue.
     status = "inconclusive";
@@ -298,7 +314,7 @@ export function exchangeFluctuationForDataset(d: SamplesDataset, ctx: CheckConte
     reason = `${joint?.message ?? "joint fit failed"}; more realisations with opposite signs in each channel would allow the joint test.`;
   } else if (slopeCi[0] >= 1 - margin && slopeCi[1] <= 1 + margin) {
     status = "pass";
-    summary = `The slope of ln P(Σ)/P(−Σ) is ${fmt(slope)}, ${confidence * 100}% interval ${fmtInterval(slopeCi[0], slopeCi[1])} within 1 ± ${margin}, and no fitted coefficient differs significantly from its declared value.${effectiveText}${identText}`;
+    summary = `The slope of ln P(Σ)/P(−Σ) is ${fmt(slope)}, ${confidence * 100}% interval ${fmtInterval(slopeCi[0], slopeCi[1])} within 1 ± ${margin}, and no fitted coefficient differs significantly from its declared value.${identText}`;
   } else {
     status = "inconclusive";
     const half = (slopeCi[1] - slopeCi[0]) / 2;
@@ -323,8 +339,18 @@ export function exchangeFluctuationForDataset(d: SamplesDataset, ctx: CheckConte
       identifiability: ident.explanation || null,
       exact_relations: ident.relations,
       declared_affinity: { a_Q: d.affinity.a_Q, a_N: d.affinity.a_N, beta_bar: d.affinity.beta_bar },
-      // Temperatures only where a_Q is identified; otherwise effectiveReservoirs merely echoes the declared ones.
-      effective_reservoirs: fitted.a_Q !== null ? effective : { ...effective, T_A: null, T_B: null },
+      explanations: explanations.map((e) => ({
+        id: e.id,
+        kind: e.kind,
+        frees: e.label,
+        identified: e.identified,
+        consistent: e.consistent,
+        chi_square: e.chiSquare,
+        dof: e.dof,
+        p_value: e.p,
+        quantities: e.quantities.map((q) => ({ name: q.name, value: q.value, interval: q.interval, declared: q.declared, unit: q.unit, interval_method: q.method })),
+      })),
+      interval_method: "Wald intervals from the logistic fit's inverse Fisher information (delta method), temperatures mapped from β through T = 1/(k_B β)",
       declared_reservoirs: declaredTemps,
       bins_used: ratio.bins.length,
       binned_chi_square: ratio.dof > 0 ? { statistic: ratio.chiSquare, dof: ratio.dof, p_value: ratio.pValue, exact_values: ratio.discrete } : null,
@@ -351,20 +377,24 @@ export function exchangeFluctuationForDataset(d: SamplesDataset, ctx: CheckConte
         rows: coefficientRows,
       },
       {
-        id: "effective-reservoirs",
-        title: "Reservoir state implied by the fit, next to the declared one",
+        id: "explanations",
+        title: "Reservoir states that reproduce the fitted coefficients (alternatives, not one state)",
         columns: [
-          { key: "quantity", label: "Quantity" },
-          { key: "declared", label: "Declared" },
-          { key: "effective", label: "From the fit" },
-          { key: "unit", label: "Unit" },
+          { key: "explanation", label: "Explanation" },
+          { key: "quantities", label: "Implied values (95 % intervals)" },
+          { key: "chi_square", label: "χ² left unexplained" },
+          { key: "dof", label: "Degrees of freedom" },
+          { key: "p", label: "p" },
+          { key: "verdict", label: "Verdict" },
         ],
-        rows: [
-          { quantity: "T_A", declared: d.reservoirs.A.T, effective: fitted.a_Q !== null ? effective.T_A : null, unit: "K" },
-          { quantity: "T_B", declared: d.reservoirs.B.T, effective: fitted.a_Q !== null ? effective.T_B : null, unit: "K" },
-          { quantity: "μ_A − μ_B", declared: declaredTemps.delta_mu, effective: effective.delta_mu, unit: "J" },
-          ...(effective.T_particles !== null ? [{ quantity: "T from particle counting", declared: d.reservoirs.A.T, effective: effective.T_particles, unit: "K" }] : []),
-        ],
+        rows: explanations.map((e) => ({
+          explanation: e.label,
+          quantities: e.identified ? e.quantities.map((q) => quantityText(d, q)).join("; ") : "not identified by these data",
+          chi_square: e.chiSquare,
+          dof: e.dof,
+          p: e.p,
+          verdict: !e.identified ? "not identified" : e.consistent ? (e.dof === 0 ? "reproduces the fit exactly" : "consistent") : "excluded",
+        })),
       },
     ],
     plots: [
@@ -373,20 +403,6 @@ export function exchangeFluctuationForDataset(d: SamplesDataset, ctx: CheckConte
       ...(d.hasParticleColumn && d.dN.some((v) => v !== 0) ? [jointHistogramPlot(d)] : []),
     ],
   };
-}
-
-function describeEffective(d: SamplesDataset, e: ReturnType<typeof effectiveReservoirs>): string {
-  const parts: string[] = [];
-  if (e.basis === "both-fitted" && e.T_A !== null && e.T_B !== null) {
-    parts.push(`effective temperatures T_A = ${fmt(e.T_A)} K, T_B = ${fmt(e.T_B)} K (declared ${fmt(d.reservoirs.A.T)} K, ${fmt(d.reservoirs.B.T)} K)`);
-  } else if (e.basis === "other-held-at-declared") {
-    if (e.T_A !== null) parts.push(`effective T_A = ${fmt(e.T_A)} K with T_B as declared (declared T_A = ${fmt(d.reservoirs.A.T)} K)`);
-  }
-  if (e.T_particles !== null) parts.push(`the particle counting shows an effective temperature of ${fmt(e.T_particles)} K (declared ${fmt(d.reservoirs.A.T)} K)`);
-  else if (e.delta_mu !== null && d.reservoirs.A.mu !== d.reservoirs.B.mu) {
-    parts.push(`effective μ_A − μ_B = ${fmt(e.delta_mu / (d.energyUnit.joules))} ${d.energyUnit.name} (declared ${fmt((d.reservoirs.A.mu - d.reservoirs.B.mu) / d.energyUnit.joules)} ${d.energyUnit.name})`);
-  }
-  return parts.length ? ` From the fit: ${parts.join("; ")}.` : "";
 }
 
 /** " Fitted: a_Q·ε + a_N = 0.58 ± 0.01 (declared 0.58)." for the combinations that are not single coefficients. */
@@ -404,6 +420,7 @@ export const exchangeFluctuation: CheckDefinition = {
   id: "exchange-fluctuation",
   title: "Detailed exchange fluctuation relation",
   verdictBearing: true,
+  options: { margin: marginOption, min_bin_count: countOption(5) },
   run: perDataset("samples", exchangeFluctuationForDataset),
 };
 

@@ -25,6 +25,7 @@ import { fmt, notApplicableResult, perDataset } from "../helpers.ts";
 import type { CheckContext, CheckDefinition, CheckResult, TableSpec } from "../types.ts";
 import type { PlotSpec, Series } from "../plotSpec.ts";
 import { groupBy, pointLabel, sortedBy, sweepAxisLabel } from "../reciprocity/points.ts";
+import { decidePositivity, evaluatePoints, type PointPositivity } from "../positivity/positivity.ts";
 
 export const FIGURE_NAMES = ["G", "S", "Pi", "K", "power_factor", "ZT", "eta_max_rel", "eta_max_power_rel", "x", "y"] as const;
 export type FigureName = (typeof FIGURE_NAMES)[number];
@@ -56,10 +57,29 @@ interface PointFigures {
   index: number;
   value: Record<FigureName, number>;
   u: Record<FigureName, number> | null;
+  /** The second law at this row: "violated" (significant, Holm), "doubtful" (λ_min < 0, not significant), "ok". */
+  secondLaw: "violated" | "doubtful" | "ok";
+  /** Why the efficiency figures are withheld or doubtful, for a person. */
+  note: string | null;
+}
+
+/** Figures that presume a positive semi-definite symmetric part (an engine obeying the second law). */
+const ENGINE_FIGURES: readonly FigureName[] = ["ZT", "eta_max_rel", "eta_max_power_rel", "y"];
+
+/**
+ * Positivity at each row, by the test of the positivity check (smallest eigenvalue of the normalised
+ * symmetric part, Holm over rows; physics.md §4): where the second law is significantly violated, ZT and
+ * the efficiencies describe no possible device and are withheld.
+ */
+function secondLawAtRows(d: CoefficientsDataset, ctx: CheckContext): PointPositivity[] {
+  const pts = evaluatePoints(d, ctx.rngFor(d.sha256, "positivity"), ctx.settings.resamples, ctx.settings.confidence);
+  decidePositivity(d, pts, ctx.settings.alpha, ctx.settings.confidence);
+  return pts;
 }
 
 function evaluate(d: CoefficientsDataset, ctx: CheckContext): PointFigures[] {
   const rng = ctx.rngFor(d.sha256, "figures-of-merit");
+  const law = secondLawAtRows(d, ctx);
   return d.points.map((p, index) => {
     const field = p.B !== null && p.B !== 0;
     const f = (x: readonly number[]) => figuresFromOnsager(onsagerFromInputs(d.form, x, p.T, d.n), p.T, field);
@@ -70,7 +90,20 @@ function evaluate(d: CoefficientsDataset, ctx: CheckContext): PointFigures[] {
       const mc = propagateUncertainty(f, p.inputs.values, p.inputs.u, rng, ctx.settings.resamples);
       u = Object.fromEntries(FIGURE_NAMES.map((n, k) => [n, mc.outputs[k].sd])) as Record<FigureName, number>;
     }
-    return { index, value, u };
+    const pos = law[index];
+    const flags = pos.flags.length ? `; ${pos.flags.join(", ")}` : "";
+    if (pos.rejected) {
+      // Withheld: a figure of merit of a matrix the second law forbids is not a property of any device.
+      for (const n of ENGINE_FIGURES) {
+        value[n] = Number.NaN;
+        if (u) u[n] = Number.NaN;
+      }
+      return { index, value, u, secondLaw: "violated" as const, note: `meaningless: positivity is significantly violated here (λ_min = ${fmt(pos.lambda, 3)}${flags}), so the second law forbids these coefficients` };
+    }
+    if (Number.isFinite(pos.lambda) && pos.lambda < 0) {
+      return { index, value, u, secondLaw: "doubtful" as const, note: `doubtful: λ_min = ${fmt(pos.lambda, 3)} < 0${flags}, not significantly${d.hasUncertainties ? "" : " (no uncertainties to test it)"}; the second law would forbid these figures if it were` };
+    }
+    return { index, value, u, secondLaw: "ok" as const, note: null };
   });
 }
 
@@ -114,14 +147,16 @@ function table(d: CoefficientsDataset, pts: readonly PointFigures[]): TableSpec 
     { key: "eta_max_power_rel", label: "η(P_max)/η_C" },
   ];
   if (withField) cols.push({ key: "x", label: "x = L12/L21" }, { key: "y", label: "y = L12 L21/det L" });
+  cols.push({ key: "second_law", label: "Second law at this row" });
   return {
     id: "figures",
     title: "Figures of merit at each row",
     columns: cols,
     rows: pts.map((p) => {
       const row: Record<string, number | string | null> = { point: pointLabel(d, d.points[p.index]) };
-      for (const c of cols) if (c.key !== "point" && c.key !== "u_ZT") row[c.key] = finiteOrNull(p.value[c.key as FigureName]);
+      for (const c of cols) if (c.key !== "point" && c.key !== "u_ZT" && c.key !== "second_law") row[c.key] = finiteOrNull(p.value[c.key as FigureName]);
       row.u_ZT = p.u ? finiteOrNull(p.u.ZT) : null;
+      row.second_law = p.note ?? "obeyed";
       return row;
     }),
   };
@@ -155,6 +190,13 @@ export function figuresOfMeritForDataset(d: CoefficientsDataset, ctx: CheckConte
   }
   const pts = evaluate(d, ctx);
   const zts = pts.map((p) => p.value.ZT).filter(Number.isFinite);
+  const violated = pts.filter((p) => p.secondLaw === "violated");
+  const doubtful = pts.filter((p) => p.secondLaw === "doubtful");
+  const lawText =
+    (violated.length
+      ? ` At ${violated.length} row${violated.length === 1 ? "" : "s"} (${violated.slice(0, 4).map((p) => pointLabel(d, d.points[p.index])).join("; ")}${violated.length > 4 ? "; …" : ""}) positivity is significantly violated, so ZT and the efficiencies there are meaningless (the second law forbids them) and are not reported.`
+      : "") +
+    (doubtful.length ? ` At ${doubtful.length} row${doubtful.length === 1 ? "" : "s"} the symmetric part has a negative eigenvalue that is not significant; the figures there are doubtful.` : "");
   const best = pts.reduce((m, p) => (Number.isFinite(p.value.ZT) && (!Number.isFinite(m.value.ZT) || p.value.ZT > m.value.ZT) ? p : m), pts[0]);
   const assumptions = [
     SIGN_CONVENTION,
@@ -163,14 +205,17 @@ export function figuresOfMeritForDataset(d: CoefficientsDataset, ctx: CheckConte
       ? "At B ≠ 0 the efficiencies use the Benenti–Saito–Casati parameters x and y; at B = 0 they use ZT (x = 1 when the Kelvin relation holds)."
       : "No field: the efficiencies use ZT, which presumes the Kelvin relation Π = T S.",
   ];
+  assumptions.push(
+    "Figures of merit presume an engine the second law allows: where positivity (the smallest eigenvalue of the normalised symmetric part, the test of the positivity check, Holm over rows) is significantly violated, ZT, y and the efficiencies are withheld as meaningless.",
+  );
   if (d.hasUncertainties) assumptions.push(`Uncertainties are standard deviations of ${ctx.settings.resamples} Monte Carlo draws of the independent normal inputs, seeded from the data digest.`);
   return {
     check: "figures-of-merit",
     dataset: d.id,
     status: "info",
     summary: zts.length
-      ? `ZT ranges from ${fmt(Math.min(...zts), 3)} to ${fmt(Math.max(...zts), 3)} over ${pts.length} rows; the largest at ${pointLabel(d, d.points[best.index])}, where η_max/η_C = ${fmt(best.value.eta_max_rel, 3)}.`
-      : `ZT is undefined at every row (K = 0 or G = 0).`,
+      ? `ZT ranges from ${fmt(Math.min(...zts), 3)} to ${fmt(Math.max(...zts), 3)} over ${zts.length} of ${pts.length} rows; the largest at ${pointLabel(d, d.points[best.index])}, where η_max/η_C = ${fmt(best.value.eta_max_rel, 3)}.${lawText}`
+      : `ZT is undefined at every row (K = 0 or G = 0, or positivity violated).${lawText}`,
     values: {
       max_ZT: zts.length ? Math.max(...zts) : null,
       points: pts.length,
@@ -181,7 +226,10 @@ export function figuresOfMeritForDataset(d: CoefficientsDataset, ctx: CheckConte
         T: d.points[p.index].T,
         ...Object.fromEntries(FIGURE_NAMES.map((n) => [n, finiteOrNull(p.value[n])])),
         u: p.u ? Object.fromEntries(FIGURE_NAMES.map((n) => [n, finiteOrNull(p.u![n])])) : null,
+        second_law: p.secondLaw,
+        ...(p.note ? { note: p.note } : {}),
       })),
+      rows_violating_positivity: violated.map((p) => d.points[p.index].row),
     },
     criteria: {},
     assumptions,
@@ -196,5 +244,6 @@ export const figuresOfMerit: CheckDefinition = {
   id: "figures-of-merit",
   title: "Figures of merit: ZT, efficiencies and the field asymmetry",
   verdictBearing: false,
+  options: {},
   run: perDataset("coefficients", figuresOfMeritForDataset),
 };

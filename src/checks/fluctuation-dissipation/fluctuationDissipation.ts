@@ -21,6 +21,7 @@ import {
 } from "./responseFit.ts";
 import { judgeComparisons, relationSentence, type Comparison, type RelationId } from "./relations.ts";
 import { entryUnit, fluxUnit, sliceplots, texColumn, texMatrix, texUnits } from "./presentation.ts";
+import { marginOption } from "../options.ts";
 
 const REFERENCES = [
   "D. Andrieux and P. Gaspard, J. Chem. Phys. 121, 6167 (2004)",
@@ -189,16 +190,21 @@ function sweepResult(sweep: Sweep, ctx: CheckContext): CheckResult {
         : r.model === "quadratic"
           ? `the sweep is not in the linear regime (${linearity.note}), so the matrices are the first derivatives at zero affinity of a fit with quadratic terms`
           : `the sweep is not in the linear regime: ${linearity.note}`;
+  const counts = (factor: number): string => {
+    const n = sweep.datasets.map((d) => d.realisations);
+    const text = (k: number) => Math.ceil(factor * k).toLocaleString("en");
+    return n.every((k) => k === n[0]) ? `about ${text(n[0])} in each dataset (now ${n[0].toLocaleString("en")})` : sweep.datasets.map((d) => `${d.id}: ${text(d.realisations)} (now ${d.realisations.toLocaleString("en")})`).join(", ");
+  };
   if (few.length) {
     status = "inconclusive";
-    reason = `${few.join(", ")} ha${few.length === 1 ? "s" : "ve"} fewer than 30 realisations, too few for normal-theory errors on the means; record more runs.`;
+    reason = `${few.join(", ")} ha${few.length === 1 ? "s" : "ve"} fewer than 30 realisations, too few for normal-theory errors on the means; record at least 30 runs in each (${sweep.datasets.filter((d) => d.realisations < 30).map((d) => `${d.id}: ${30 - d.realisations} more`).join(", ")}).`;
   } else if (linearity.linear === false && r.model === "linear") {
     status = "inconclusive";
     reason = `The fluxes are not linear in the affinities (${linearity.note}) and the datasets are too few to fit the curvature, so slopes and intercepts mix in higher orders; repeat the sweep at smaller affinities or add datasets.`;
   } else if (status === "inconclusive") {
     reason =
       decision.moreData !== null && Number.isFinite(decision.moreData)
-        ? `Not every comparison is inside the ${fmt(margin * 100, 3)} % margin yet; about ${fmt(Math.ceil(decision.moreData), 3)} times as many realisations per dataset would resolve it at this spread.`
+        ? `Not every comparison is inside the ${fmt(margin * 100, 3)} % margin yet; about ${fmt(Math.ceil(decision.moreData * 10) / 10, 3)} times as many realisations per dataset would resolve it at this spread (standard errors fall as one over the square root of the count): ${counts(decision.moreData)}.`
         : `Not every comparison is inside the ${fmt(margin * 100, 3)} % margin and an estimate lies at the margin itself; more realisations or more datasets at further affinities are needed.`;
   }
   const workClause = sweep.work
@@ -349,5 +355,6 @@ export const fluctuationDissipation: CheckDefinition = {
   id: "fluctuation-dissipation",
   title: "Fluctuation–dissipation across an affinity sweep: Onsager matrices from means and from fluctuations",
   verdictBearing: true,
+  options: { margin: marginOption },
   run: runFluctuationDissipation,
 };

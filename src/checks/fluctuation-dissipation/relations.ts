@@ -81,18 +81,30 @@ export function judgeComparisons(
   return { status, relations, moreData };
 }
 
+/** The scale each relation's margin is a fraction of, in words (physics §6). */
+const SCALE_WORDS: Record<RelationId, string> = {
+  "fluctuation-response": "√(Lf_ii Lf_jj) of the fluctuation matrix for each entry",
+  reciprocity: "√(Lf_11 Lf_22) of the fluctuation matrix",
+  "no-spontaneous-flux": "√(Lf_ii · aᵀ Lf a), the largest flux the fluctuations allow at the sweep's affinities (Cauchy–Schwarz)",
+};
+
+/** "5 % of √(Lf_11 Lf_22) of the fluctuation matrix": the margin with its scale named (entries mix units, so no single value). */
+function marginWords(r: RelationOutcome, margin: number): string {
+  return `${fmt(margin * 100, 3)} % of ${SCALE_WORDS[r.relation]}`;
+}
+
 /** One clause a referee can quote for a relation. */
 export function relationSentence(r: RelationOutcome, margin: number, confidence: number): string {
   switch (r.verdict) {
     case "holds":
-      return `${r.statement} within ${fmt(margin * 100, 3)} % of its scale at ${fmt(confidence * 100, 3)} % confidence`;
+      return `${r.statement} within ${marginWords(r, margin)} at ${fmt(confidence * 100, 3)} % confidence`;
     case "violated": {
       const worst = r.comparisons.reduce((a, b) => (b.pHolm < a.pHolm ? b : a));
       return `${r.statement} is violated: ${worst.label} = ${fmt(worst.estimate)} ± ${fmt(worst.se, 2)} (Holm-adjusted p = ${fmt(worst.pHolm, 3)})`;
     }
     case "not resolved": {
       const open = r.comparisons.filter((c) => !c.equivalent).map((c) => c.label);
-      return `${r.statement} is neither violated nor resolved to ${fmt(margin * 100, 3)} % (${open.join(", ")} not yet inside the margin)`;
+      return `${r.statement} is neither violated nor resolved to ${marginWords(r, margin)} (${open.join(", ")} not yet inside the margin)`;
     }
   }
 }

@@ -1,4 +1,6 @@
 import type { SamplesDataset } from "../../ingest/types.ts";
+import { columnDependence } from "../../stats/columnDependence.ts";
+import { fmt } from "../helpers.ts";
 
 /** A flux channel and its conjugate affinity (physics: Sigma = beta_bar W + a_Q Q + a_N dN). */
 export type Channel = "Q" | "dN";
@@ -88,6 +90,8 @@ export function prepareSweep(name: string, datasets: SamplesDataset[]): SweepOrP
       datasets: ids,
     };
   }
+  const tied = proportionalChannels(datasets, channels);
+  if (tied) return { problem: `sweep "${name}": ${tied}`, datasets: ids };
   const span = affinitySpan(datasets, channels);
   if (span) return { problem: `sweep "${name}": ${span}`, datasets: ids };
   return { sweep: { name, datasets, tau, channels, work, field: fields[0] } };
@@ -110,4 +114,31 @@ function affinitySpan(datasets: SamplesDataset[], channels: Channel[]): string |
     }
   }
   return null;
+}
+
+/**
+ * null unless heat and particles are proportional in every realisation of the sweep (Q = ε ΔN, transport
+ * through a single level): then every second-moment and response matrix of (Q, ΔN) has rank one, the 2×2
+ * fit is singular whatever the number of realisations, and only the combined affinity a_Q ε + a_N drives
+ * the one independent current. Detected on the pooled data by rank-revealing QR (columnDependence).
+ */
+function proportionalChannels(datasets: SamplesDataset[], channels: Channel[]): string | null {
+  if (channels.length < 2) return null;
+  const total = datasets.reduce((s, d) => s + d.Q.length, 0);
+  const Q = new Float64Array(total);
+  const dN = new Float64Array(total);
+  const w = new Float64Array(total);
+  let k = 0;
+  for (const d of datasets) {
+    Q.set(d.Q, k);
+    dN.set(d.dN, k);
+    if (d.weight) w.set(d.weight, k);
+    else w.fill(1, k, k + d.Q.length);
+    k += d.Q.length;
+  }
+  const dep = columnDependence([dN, Q], w);
+  const tiedQ = dep.dependent.find((c) => c.index === 1);
+  if (!tiedQ || tiedQ.coefficients.length === 0) return null;
+  const joulesPerUnit = datasets[0].energyUnit.joules;
+  return `Q = ε·ΔN with ε = ${fmt(tiedQ.coefficients[0] / joulesPerUnit)} ${datasets[0].energyUnit.name} in every realisation (transport through a single level), so the heat and particle channels are one current driven by the combination a_Q·ε + a_N; the 2×2 response and fluctuation matrices are singular whatever the number of realisations, and this check does not fit the single combined channel`;
 }

@@ -5,6 +5,7 @@ import type { PlotSpec, Series } from "../plotSpec.ts";
 import { texValue } from "../fluctuation-dissipation/presentation.ts";
 import { seriesFromCumulants, seriesFromSamples, type GrowthSeries, type SeriesOrProblem } from "./series.ts";
 import { analyseChannel, type ChannelGrowth, type GrowthOptions } from "./growthWindow.ts";
+import { marginOption, countOption, openUnitOption } from "../options.ts";
 
 const REFERENCES = [
   "D. J. Hudson, J. Am. Stat. Assoc. 61, 1097 (1966)",
@@ -261,5 +262,6 @@ export const linearGrowth: CheckDefinition = {
   id: "linear-growth",
   title: "Linear growth of the mean transfer: the window of a stationary flux",
   verdictBearing: true,
+  options: { margin: marginOption, min_points: countOption(3), relative_tolerance: openUnitOption },
   run: runLinearGrowth,
 };

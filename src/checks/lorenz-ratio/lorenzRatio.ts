@@ -114,5 +114,6 @@ export const lorenzRatio: CheckDefinition = {
   id: "lorenz-ratio",
   title: "Lorenz ratio against the Sommerfeld value",
   verdictBearing: false,
+  options: {},
   run: perDataset("coefficients", lorenzRatioForDataset),
 };

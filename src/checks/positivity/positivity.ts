@@ -119,6 +119,11 @@ export function evaluatePoints(d: CoefficientsDataset, rng: Rng, draws: number, 
   });
 }
 
+/** "… uncertainty 2.1× too large: about 4.5× as many repeats averaged" (uncertainties fall as 1/√repeats). */
+function moreRepeats(where: string, p: PointPositivity, factor: number): string {
+  return `${where} (λ = ${fmt(p.lambda, 3)} ± ${fmt(p.u as number, 2)}; uncertainty ${fmt(factor, 2)}× too large: about ${fmt(Math.ceil(factor * factor * 10) / 10, 2)}× as many repeats averaged)`;
+}
+
 export function decidePositivity(d: CoefficientsDataset, pts: PointPositivity[], alpha: number, confidence: number): { status: Status; summary: string; reason?: string } {
   const finite = pts.filter((p) => Number.isFinite(p.lambda));
   const minLambda = finite.length ? Math.min(...finite.map((p) => p.lambda)) : Number.NaN;
@@ -166,14 +171,14 @@ export function decidePositivity(d: CoefficientsDataset, pts: PointPositivity[],
       ? `${label(p)} (a zero diagonal entry)`
       : p.lambda <= 0
         ? `${label(p)} (λ = ${fmt(p.lambda, 3)} ± ${fmt(p.u as number, 2)}: at or below zero but not significantly)`
-        : `${label(p)} (λ = ${fmt(p.lambda, 3)} ± ${fmt(p.u as number, 2)}; uncertainty ${fmt(((p.u as number) * normalQuantile(confidence)) / p.lambda, 2)}× too large)`;
+        : moreRepeats(label(p), p, ((p.u as number) * normalQuantile(confidence)) / p.lambda);
   return {
     status: "inconclusive",
     summary: `No significant violation of positivity at ${pts.length} points, but ${unsure.length} cannot be shown positive at ${confidence * 100} % confidence.${flagText}`,
     reason: `The ${confidence * 100} % lower bound of the smallest normalised eigenvalue is not above zero at ${unsure
       .slice(0, 6)
       .map(describe)
-      .join("; ")}${unsure.length > 6 ? "; …" : ""}. Smaller uncertainties there (more averaging) would settle it; a point with λ = 0 exactly (a perfectly coupled, reversible device) can never be shown positive.`,
+      .join("; ")}${unsure.length > 6 ? "; …" : ""}. Smaller uncertainties there (more averaging; the uncertainty falls as one over the square root of the number of repeats) would settle it; a point with λ = 0 exactly (a perfectly coupled, reversible device) can never be shown positive.`,
   };
 }
 
@@ -301,5 +306,6 @@ export const positivity: CheckDefinition = {
   id: "positivity",
   title: "Positivity: the symmetric part of the Onsager matrix",
   verdictBearing: true,
+  options: {},
   run: perDataset("coefficients", positivityForDataset),
 };

@@ -19,6 +19,7 @@ import { fmt, numberOption, perDataset } from "../helpers.ts";
 import type { CheckContext, CheckDefinition, CheckResult, Status, TableSpec } from "../types.ts";
 import type { PlotSpec, Series } from "../plotSpec.ts";
 import { engineeringScale, groupBy, pointLabel, sortedBy, sweepAxisLabel } from "./points.ts";
+import { fractionMarginOption, positiveOption } from "../options.ts";
 
 /** One tested relation X = Y at one operating point. */
 export interface Comparison {
@@ -57,7 +58,38 @@ export interface ComparisonResult extends Comparison {
 
 const sub = (i: number, j: number) => `${i + 1}${j + 1}`;
 
-/** The comparisons a dataset supports: off-diagonal entries, each +B row against its −B partner. */
+/**
+ * A diagonal entry at +B against the same entry at −B: L_ii(B) = L_ii(−B), the case i = j of
+ * Onsager–Casimir (ε_i² = 1, so every diagonal entry is even in the field whatever the parities).
+ * In thermoelectric form the diagonal reads G(B) = G(−B) (L11 = G T at one temperature) and
+ * L22(B) = L22(−B). The scale is √(L_ii(B) L_ii(−B)), the geometric mean of the two entries
+ * compared (positive on both sides where positivity holds), so the margin is unit-free like the
+ * off-diagonal one.
+ */
+function diagonalComparison(d: CoefficientsDataset, a: number, b: number, i: number): Comparison {
+  const pa = d.points[a];
+  const pb = d.points[b];
+  const useG = d.form === "thermoelectric" && i === 0;
+  const name = useG ? "G" : `L${sub(i, i)}`;
+  const x = useG ? pa.inputs.values[0] : pa.L[i][i];
+  const y = useG ? pb.inputs.values[0] : pb.L[i][i];
+  const ux = useG ? (pa.inputs.u ? pa.inputs.u[0] : null) : pa.uL ? pa.uL[i][i] : null;
+  const uy = useG ? (pb.inputs.u ? pb.inputs.u[0] : null) : pb.uL ? pb.uL[i][i] : null;
+  const family = `${name}(B) = ${name}(−B)`;
+  return {
+    a, b, i, j: i, relation: family, family, x, y, ux, uy,
+    difference: x - y,
+    u: ux !== null && uy !== null ? Math.hypot(ux, uy) : null,
+    scale: x > 0 && y > 0 ? Math.sqrt(x * y) : Number.NaN,
+    sweep: pa.sweep,
+  };
+}
+
+/**
+ * The comparisons a dataset supports: every entry, each +B row against its −B partner (the
+ * diagonal included, L_ii even in B); at B = 0 a row is its own partner, where only the
+ * off-diagonal entries say anything (the diagonal would be compared with itself).
+ */
 export function comparisonsOf(d: CoefficientsDataset): Comparison[] {
   const out: Comparison[] = [];
   for (const [a, b] of d.pairs) {
@@ -67,6 +99,7 @@ export function comparisonsOf(d: CoefficientsDataset): Comparison[] {
     const T = (pa.T + pb.T) / 2;
     for (let i = 0; i < d.n; i++) {
       for (let j = 0; j < d.n; j++) {
+        if (i === j && !same && !d.kelvinAssumed) out.push(diagonalComparison(d, a, b, i));
         if (i === j || (same && j < i)) continue;
         const eps = d.parity[i] * d.parity[j];
         const epsText = eps < 0 ? "−" : "";
@@ -162,6 +195,78 @@ export interface ReciprocityDecision {
   reason?: string;
 }
 
+/** Unit of an entry of Callen's charge–heat matrix (2×2) in SI; n > 2 mixes units, so "SI". */
+function entryUnit(d: CoefficientsDataset, i: number, j: number): string {
+  if (d.n !== 2) return "SI units";
+  if (i === 0 && j === 0) return "A K/V";
+  if (i === 1 && j === 1) return "W K";
+  return "A K";
+}
+
+/** "0.28 mV" or "0.21–0.35 mV": the range of a scale over the compared points, with a readable prefix. */
+function valueRange(values: readonly number[], unit: string): string {
+  const finite = values.filter(Number.isFinite);
+  if (finite.length === 0) return "undefined (a diagonal entry is not positive)";
+  const lo = Math.min(...finite);
+  const hi = Math.max(...finite);
+  const { factor, prefix } = unit === "SI units" ? { factor: 1, prefix: "" } : engineeringScale([lo, hi]);
+  const u = unit === "SI units" ? " (SI units)" : ` ${prefix}${unit}`;
+  return hi - lo <= 0.005 * Math.abs(hi) ? `${fmt(hi * factor, 3)}${u}` : `${fmt(lo * factor, 3)}–${fmt(hi * factor, 3)}${u}`;
+}
+
+/** A family of relations that shares one scale rule: the Kelvin pair, an off-diagonal pair {i, j}, or a diagonal entry. */
+interface ScaleGroup {
+  relations: string[];
+  /** "√(L22/L11)", "√(Ls_11 Ls_22)", "√(G(B) G(−B))". */
+  scaleName: string;
+  unit: string;
+  results: ComparisonResult[];
+}
+
+function scaleGroups(d: CoefficientsDataset, results: readonly ComparisonResult[]): ScaleGroup[] {
+  const groups = new Map<string, ScaleGroup>();
+  for (const r of results) {
+    const diagonal = r.i === r.j;
+    const kelvin = d.form === "thermoelectric" && !diagonal;
+    const key = diagonal ? `d${r.i}` : kelvin ? "kelvin" : `o${Math.min(r.i, r.j)}${Math.max(r.i, r.j)}`;
+    let g = groups.get(key);
+    if (!g) {
+      const name = diagonal ? (d.form === "thermoelectric" && r.i === 0 ? "G" : `L${sub(r.i, r.i)}`) : "";
+      g = {
+        relations: [],
+        scaleName: diagonal ? `√(${name}(B) ${name}(−B))` : kelvin ? "√(L22/L11)" : `√(Ls_${sub(r.i, r.i)} Ls_${sub(r.j, r.j)})`,
+        unit: diagonal ? (name === "G" ? "S" : entryUnit(d, r.i, r.i)) : kelvin ? "V" : entryUnit(d, r.i, r.j),
+        results: [],
+      };
+      groups.set(key, g);
+    }
+    if (!g.relations.includes(r.family)) g.relations.push(r.family);
+    g.results.push(r);
+  }
+  return [...groups.values()];
+}
+
+/** "Π = T S within 5 % of √(L22/L11) = 0.28 mV": each tested relation with its margin in words and numbers. */
+export function marginPhrases(d: CoefficientsDataset, results: readonly ComparisonResult[], margin: number): string[] {
+  return scaleGroups(d, results).map(
+    (g) => `${g.relations.join(" and ")} within ${fmt(margin * 100)} % of ${g.scaleName} = ${valueRange(g.results.map((r) => r.scale), g.unit)}`,
+  );
+}
+
+/** The scale of one comparison in words: "√(L22/L11) = 0.28 mV". */
+function scaleOf(d: CoefficientsDataset, r: ComparisonResult): string {
+  const g = scaleGroups(d, [r])[0];
+  return `${g.scaleName} = ${valueRange([r.scale], g.unit)}`;
+}
+
+/** Rows compared with themselves (B = 0, or no field column): the diagonal is not tested there, and why. */
+function selfPairedNote(d: CoefficientsDataset): string {
+  const self = d.pairs.filter(([a, b]) => a === b).length;
+  if (self === 0) return "";
+  const where = d.hasField ? `at the ${self} row${self === 1 ? "" : "s"} with B = 0` : "without a field column (every row at B = 0)";
+  return ` The diagonal entries ${where} are paired with themselves, so their evenness in B is trivially true and not tested there.`;
+}
+
 /** The verdict from the tested comparisons and the pairing findings (physics §6). */
 export function decideReciprocity(
   d: CoefficientsDataset,
@@ -172,28 +277,33 @@ export function decideReciprocity(
 ): ReciprocityDecision {
   const where = (r: ComparisonResult) => `${pointLabel(d, d.points[r.a])}: ${r.relation}`;
   const blocking = d.findings.filter((f) => f.kind !== "temperature-mismatch" && !(f.kind === "duplicate" && (f.B === null || f.B === 0)));
-  const law = d.form === "thermoelectric" ? (d.hasField ? "the Kelvin relation Π(B) = T S(−B)" : "the Kelvin relation Π = T S") : d.hasField ? "Onsager–Casimir reciprocity" : "Onsager reciprocity";
+  const law = d.form === "thermoelectric" ? (d.hasField ? "Onsager–Casimir reciprocity in Kelvin form" : "the Kelvin relation Π = T S") : d.hasField ? "Onsager–Casimir reciprocity" : "Onsager reciprocity";
+  const Law = `${law[0].toUpperCase()}${law.slice(1)}`;
+  const pct = `${fmt(margin * 100)} %`;
+  const selfNote = selfPairedNote(d);
   if (results.length === 0) {
     return {
       status: "inconclusive",
-      summary: `No pair of rows could be compared, so ${law} is untested.`,
+      summary: `No pair of rows could be compared, so ${law} is untested.${selfNote}`,
       reason: `Every row lacks a partner at the reversed field (${blocking.length} pairing finding(s)); measure each operating point at both +B and −B.`,
     };
   }
+  const phrases = marginPhrases(d, results, margin);
   if (!d.hasUncertainties) {
     const worst = results.reduce((m, r) => (Math.abs(r.normalised) > Math.abs(m.normalised) ? r : m), results[0]);
     return {
       status: "inconclusive",
-      summary: `${results.length} comparisons of ${law}; the largest normalised asymmetry is ${fmt(worst.normalised, 3)} at ${where(worst)}, but the table gives no standard uncertainties.`,
-      reason: `Without u_ columns no difference can be called significant, nor small enough to exclude a violation of ${margin * 100} % of the scale; add a standard uncertainty for every coefficient (u_${d.form === "thermoelectric" ? "G, u_S, u_Pi, u_K" : "L11, u_L12, …"}).`,
+      summary: `${results.length} comparisons of ${law}; the largest normalised asymmetry is ${fmt(worst.normalised, 3)} of ${scaleOf(d, worst)} at ${where(worst)}, but the table gives no standard uncertainties.${selfNote}`,
+      reason: `Without u_ columns no difference can be called significant, nor small enough to exclude a violation of ${pct} of its scale (${phrases.join("; ")}); add a standard uncertainty for every coefficient (u_${d.form === "thermoelectric" ? "G, u_S, u_Pi, u_K" : "L11, u_L12, …"}).`,
     };
   }
   const rejected = results.filter((r) => r.rejected);
   if (rejected.length > 0) {
     const worst = rejected.reduce((m, r) => ((r.pHolm as number) < (m.pHolm as number) ? r : m), rejected[0]);
+    const families = [...new Set(rejected.map((r) => r.family))];
     return {
       status: "fail",
-      summary: `${law[0].toUpperCase()}${law.slice(1)} is violated: ${rejected.length} of ${results.length} comparisons differ significantly after Holm's correction; the strongest at ${where(worst)}, difference ${fmt(worst.normalised, 3)} of the scale, z = ${fmt(worst.z as number, 3)}, Holm-adjusted p = ${fmt(worst.pHolm as number, 3)} < α = ${alpha}.`,
+      summary: `${Law} is violated: ${rejected.length} of ${results.length} comparisons differ significantly after Holm's correction (${families.join(", ")}); the strongest at ${where(worst)}, difference ${fmt(worst.normalised, 3)} of ${scaleOf(d, worst)}, z = ${fmt(worst.z as number, 3)}, Holm-adjusted p = ${fmt(worst.pHolm as number, 3)} < α = ${alpha}.${selfNote}`,
     };
   }
   const lacking = results.filter((r) => !r.equivalent);
@@ -201,7 +311,7 @@ export function decideReciprocity(
     const maxNorm = Math.max(...results.map((r) => Math.abs(r.normalised)));
     return {
       status: "pass",
-      summary: `${law[0].toUpperCase()}${law.slice(1)} holds within ${margin * 100} % of the scale at every one of ${results.length} comparisons (two one-sided tests at ${confidence * 100} % confidence); the largest normalised asymmetry is ${fmt(maxNorm, 3)}.`,
+      summary: `${Law} holds at every one of ${results.length} comparisons (two one-sided tests at ${confidence * 100} % confidence): ${phrases.join("; ")}; the largest normalised asymmetry is ${fmt(maxNorm, 3)}.${selfNote}`,
     };
   }
   const zq = normalQuantile(confidence);
@@ -210,19 +320,19 @@ export function decideReciprocity(
     const room = r.marginAbs - Math.abs(r.difference);
     if (room <= 0) return `${where(r)} (asymmetry ${fmt(r.normalised, 3)} exceeds the margin ±${margin})`;
     const factor = ((r.u as number) * zq) / room;
-    return `${where(r)} (uncertainty ${fmt(factor, 2)}× too large)`;
+    return `${where(r)} (uncertainty ${fmt(factor, 2)}× too large: about ${fmt(Math.ceil(factor * factor * 10) / 10, 2)}× as many repeats averaged)`;
   };
   const parts: string[] = [];
   if (lacking.length > 0) {
     const shown = lacking.slice(0, 6).map(describe).join("; ");
-    parts.push(`${lacking.length} of ${results.length} comparisons cannot exclude an asymmetry of ${margin * 100} % of the scale: ${shown}${lacking.length > 6 ? "; …" : ""}. Smaller uncertainties at these points (more averaging) would settle them.`);
+    parts.push(`${lacking.length} of ${results.length} comparisons cannot exclude an asymmetry of ${pct} of their scale: ${shown}${lacking.length > 6 ? "; …" : ""}. Smaller uncertainties at these points (more averaging; the uncertainty falls as one over the square root of the number of repeats) would settle them.`);
   }
   if (blocking.length > 0) {
     parts.push(`Reciprocity is untested where rows are unpaired or duplicated: ${blocking.map((f) => `row${f.rows.length > 1 ? "s" : ""} ${f.rows.join(", ")}`).join("; ")}.`);
   }
   return {
     status: "inconclusive",
-    summary: `No significant violation of ${law} among ${results.length} comparisons (smallest Holm-adjusted p = ${fmt(Math.min(...results.map((r) => r.pHolm ?? 1)), 3)}), but equivalence within ${margin * 100} % is not established everywhere.`,
+    summary: `No significant violation of ${law} among ${results.length} comparisons (smallest Holm-adjusted p = ${fmt(Math.min(...results.map((r) => r.pHolm ?? 1)), 3)}), but equivalence is not established everywhere (margins: ${phrases.join("; ")}).${selfNote}`,
     reason: parts.join(" "),
   };
 }
@@ -334,6 +444,39 @@ function comparisonTable(d: CoefficientsDataset, results: readonly ComparisonRes
   };
 }
 
+function diagonalTable(d: CoefficientsDataset, results: readonly ComparisonResult[]): TableSpec {
+  return {
+    id: "diagonal",
+    title: "Diagonal entries at +B and −B (even in the field)",
+    columns: [
+      { key: "point", label: "Operating point" },
+      { key: "relation", label: "Relation" },
+      { key: "x", label: "At +B", unit: "SI" },
+      { key: "y", label: "At −B", unit: "SI" },
+      { key: "unit", label: "Unit" },
+      { key: "u", label: "u(difference)", unit: "SI" },
+      { key: "normalised", label: "Asymmetry / scale", unit: "1" },
+      { key: "z", label: "z" },
+      { key: "p_holm", label: "Holm p" },
+      { key: "tost_p", label: "TOST p" },
+      { key: "equivalent", label: "Within margin" },
+    ],
+    rows: results.map((r) => ({
+      point: pointLabel(d, d.points[r.a]),
+      relation: r.relation,
+      x: r.x,
+      y: r.y,
+      unit: d.form === "thermoelectric" && r.i === 0 ? "S" : entryUnit(d, r.i, r.i),
+      u: r.u,
+      normalised: r.normalised,
+      z: r.z,
+      p_holm: r.pHolm,
+      tost_p: r.tostP,
+      equivalent: r.equivalent,
+    })),
+  };
+}
+
 const REFERENCES = [
   "L. Onsager, Phys. Rev. 37, 405 (1931)",
   "H. B. G. Casimir, Rev. Mod. Phys. 17, 343 (1945)",
@@ -356,10 +499,14 @@ export function reciprocityForDataset(d: CoefficientsDataset, ctx: CheckContext)
   };
   const equations =
     d.form === "thermoelectric"
-      ? [String.raw`\Pi(B) = T\,S(-B) \qquad \Longleftrightarrow \qquad L_{21}(B) = L_{12}(-B)`, String.raw`L_{12} = G S T^2, \qquad L_{21} = G \Pi T`]
-      : [String.raw`L_{ij}(B) = \varepsilon_i \varepsilon_j\, L_{ji}(-B)`];
+      ? [
+          String.raw`\Pi(B) = T\,S(-B) \qquad \Longleftrightarrow \qquad L_{21}(B) = L_{12}(-B)`,
+          String.raw`G(B) = G(-B), \qquad L_{22}(B) = L_{22}(-B)`,
+          String.raw`L_{12} = G S T^2, \qquad L_{21} = G \Pi T, \qquad L_{22} = T^2 (K + G S \Pi)`,
+        ]
+      : [String.raw`L_{ij}(B) = \varepsilon_i \varepsilon_j\, L_{ji}(-B) \quad \text{for all } i, j \text{ (the diagonal: } L_{ii}(B) = L_{ii}(-B))`];
   equations.push(
-    String.raw`z = \frac{X - Y}{\sqrt{u_X^2 + u_Y^2}}, \qquad \text{margin: } |X - Y| < m \sqrt{L^{s}_{ii} L^{s}_{jj}}`,
+    String.raw`z = \frac{X - Y}{\sqrt{u_X^2 + u_Y^2}}, \qquad \text{margin: } |X - Y| < m \sqrt{L^{s}_{ii} L^{s}_{jj}} \;(i \ne j), \qquad |X - Y| < m \sqrt{L_{ii}(B)\, L_{ii}(-B)}`,
   );
   if (d.kelvinAssumed) {
     return {
@@ -376,6 +523,8 @@ export function reciprocityForDataset(d: CoefficientsDataset, ctx: CheckContext)
   }
   const results = testComparisons(comparisonsOf(d), alpha, confidence, margin, dof);
   const decision = decideReciprocity(d, results, alpha, confidence, margin);
+  const diagonal = results.filter((r) => r.i === r.j);
+  const offDiagonal = results.filter((r) => r.i !== r.j);
   const zs = results.map((r) => r.z).filter((z): z is number => z !== null);
   const ps = results.map((r) => r.pHolm).filter((p): p is number => p !== null);
   const parityText = d.parity.every((e) => e === 1) ? "every flux even under time reversal (ε = +1: charge and heat)" : `time-reversal parities ε = (${d.parity.join(", ")}) as declared`;
@@ -388,11 +537,16 @@ export function reciprocityForDataset(d: CoefficientsDataset, ctx: CheckContext)
       ? "The standard uncertainties of different entries are independent (no covariance columns) and known: differences are referred to the normal law."
       : `The standard uncertainties of different entries are independent (no covariance columns) and carry ${dof} degrees of freedom: differences are referred to Student's t.`,
     d.form === "thermoelectric"
-      ? `The scale of a pair is √(Ls_11 Ls_22) of the symmetric part (the largest off-diagonal entry positivity allows), expressed in volts as √(L22/L11) by dividing by G T, averaged over the two rows; the margin is ${margin} of it.`
-      : `The scale of a pair is √(Ls_ii Ls_jj) of the symmetric part (the largest off-diagonal entry positivity allows), averaged over the two rows; the margin is ${margin} of it.`,
+      ? `The scale of a Kelvin pair is √(Ls_11 Ls_22) of the symmetric part (the largest off-diagonal entry positivity allows), expressed in volts as √(L22/L11) by dividing by G T, averaged over the two rows; the scale of a diagonal entry is the geometric mean of the two values compared, √(G(B) G(−B)) or √(L22(B) L22(−B)); the margin is ${margin} of the scale.`
+      : `The scale of an off-diagonal pair is √(Ls_ii Ls_jj) of the symmetric part (the largest off-diagonal entry positivity allows), averaged over the two rows; the scale of a diagonal entry is the geometric mean of the two values compared, √(L_ii(B) L_ii(−B)); the margin is ${margin} of the scale.`,
+    "Every compared entry, the diagonal included, is one member of a single Holm family (Holm 1979); a pass needs every member equivalent within its margin (two one-sided tests, Schuirmann 1987).",
   ];
   if (d.form === "thermoelectric") {
-    assumptions.push("The conductance is even in the field, G(B) = G(−B), so L21(B) = L12(−B) reduces to Π(B) = T S(−B).");
+    assumptions.push(
+      d.hasField
+        ? "The conductance's evenness in the field, G(B) = G(−B), is tested beside the Kelvin pair; where it holds, L21(B) = L12(−B) reduces to Π(B) = T S(−B)."
+        : "At zero field L21 = L12 is the Kelvin relation Π = T S.",
+    );
     assumptions.push(SIGN_CONVENTION);
   }
   for (const f of d.findings) assumptions.push(`Pairing: ${f.message}.`);
@@ -405,6 +559,9 @@ export function reciprocityForDataset(d: CoefficientsDataset, ctx: CheckContext)
       max_abs_z: zs.length ? Math.max(...zs.map(Math.abs)) : null,
       p_value: ps.length ? Math.min(...ps) : null,
       pairs: results.length,
+      diagonal_pairs: diagonal.length,
+      tested_relations: [...new Set(results.map((r) => r.family))],
+      margins: marginPhrases(d, results, margin),
       form: d.form,
       relation: d.form === "thermoelectric" ? "Pi(B) = T S(-B)" : "L_ij(B) = eps_i eps_j L_ji(-B)",
       max_abs_normalised_asymmetry: results.length ? Math.max(...results.map((r) => Math.abs(r.normalised))) : null,
@@ -431,8 +588,8 @@ export function reciprocityForDataset(d: CoefficientsDataset, ctx: CheckContext)
     },
     assumptions,
     equations,
-    tables: results.length ? [comparisonTable(d, results)] : [],
-    plots: results.length ? [identityPlot(d, results), asymmetryPlot(d, results, margin, confidence)] : [],
+    tables: [...(offDiagonal.length ? [comparisonTable(d, offDiagonal)] : []), ...(diagonal.length ? [diagonalTable(d, diagonal)] : [])],
+    plots: results.length ? [...(offDiagonal.length ? [identityPlot(d, offDiagonal)] : []), asymmetryPlot(d, results, margin, confidence)] : [],
   };
 }
 
@@ -440,5 +597,6 @@ export const reciprocity: CheckDefinition = {
   id: "reciprocity",
   title: "Reciprocity: Onsager–Casimir relations and the Kelvin relation",
   verdictBearing: true,
+  options: { margin: fractionMarginOption, dof: positiveOption },
   run: perDataset("coefficients", reciprocityForDataset),
 };

@@ -69,5 +69,6 @@ export const uncertaintyRelation: CheckDefinition = {
   id: "uncertainty-relation",
   title: "Thermodynamic uncertainty relation (information)",
   verdictBearing: false,
+  options: {},
   run: perDataset("samples", uncertaintyRelationForDataset),
 };

@@ -1,6 +1,6 @@
 import path from "node:path";
 import { InvalidArgumentError, type Command } from "commander";
-import { buildSite } from "../../report/buildSite.ts";
+import { buildSite, type BuildOutcome } from "../../report/buildSite.ts";
 import { RESULT_CACHE_FOLDER } from "../../report/resultCache.ts";
 import { EXIT } from "../exit.ts";
 import { progressBar } from "../progress.ts";
@@ -8,32 +8,62 @@ import { progressBar } from "../progress.ts";
 export function registerBuild(program: Command, setExit: (code: number) => void): void {
   program
     .command("build")
-    .description("run every audit under <root>/audits and render the static report site")
+    .description(
+      "run every audit under <root>/audits and render the static report site; exit status 1 when an audit has a failed check (unless --allow-fail), 2 when one could not be audited or its published versions are damaged",
+    )
     .option("--root <dir>", "archive root holding audits/ (and archive.yaml)", ".")
-    .option("--out <dir>", "output folder for the site", "site")
+    .option("--out <dir>", "output folder for the site, replaced whole once the new site is complete (never inside the archive's audits)", "site")
+    .option("--force", "replace the output folder even when it holds files build did not write")
+    .option("--allow-fail", "exit 0 when the site is built although an audit has a failed check")
     .option("--no-cache", "recompute every audit instead of reusing stored results of unchanged ones (the new results are stored)")
     .option("--threads <n>", "worker threads running the audits (default: one a core, at most 4; 1 runs them one after another in this thread)", parseThreads)
-    .action(async (opts: { root: string; out: string; cache: boolean; threads?: number }) => {
+    .action(async (opts: { root: string; out: string; cache: boolean; threads?: number; force?: boolean; allowFail?: boolean }) => {
       const bar = progressBar("auditing");
-      const outcome = await buildSite({
-        root: path.resolve(opts.root),
-        out: path.resolve(opts.out),
-        onProgress: bar.update,
-        cache: opts.cache ? "use" : "refresh",
-        threads: opts.threads,
-      });
-      bar.stop();
-      for (const b of outcome.broken) process.stderr.write(`could not audit ${b.folder}:\n${b.error}\n`);
-      const failed = outcome.audits.filter((a) => a.stamp === "fail").length;
-      const { reused, unstored } = outcome.cache;
-      if (unstored > 0) process.stderr.write(`note: ${unstored} result(s) could not be stored in ${path.join(opts.root, RESULT_CACHE_FOLDER)}; the next build recomputes them\n`);
-      process.stderr.write(
-        `built ${outcome.audits.length} audit report(s)${failed ? `, ${failed} with a failed check` : ""}${reused ? `; ${reused} unchanged audit(s) taken from the result cache` : ""}\n`,
-      );
+      let outcome: BuildOutcome;
+      try {
+        outcome = await buildSite({
+          root: path.resolve(opts.root),
+          out: path.resolve(opts.out),
+          onProgress: bar.update,
+          cache: opts.cache ? "use" : "refresh",
+          threads: opts.threads,
+          force: opts.force === true,
+        });
+      } finally {
+        bar.stop();
+      }
+      process.stderr.write(buildSummary(outcome, path.join(opts.root, RESULT_CACHE_FOLDER), opts.allowFail === true));
       const relative = path.relative(process.cwd(), outcome.index);
       process.stdout.write(`site index: ${relative.startsWith("..") ? outcome.index : relative}\n`);
-      setExit(outcome.broken.length > 0 ? EXIT.input : EXIT.ok);
+      setExit(buildExitStatus(outcome, opts.allowFail === true));
     });
+}
+
+/** 2 when an audit could not be audited or its versions are damaged; else 1 when one failed (unless allowed); else 0. */
+export function buildExitStatus(outcome: Pick<BuildOutcome, "broken" | "damaged" | "failed">, allowFail: boolean): number {
+  if (outcome.broken.length > 0 || outcome.damaged.length > 0) return EXIT.input;
+  if (outcome.failed.length > 0 && !allowFail) return EXIT.failed;
+  return EXIT.ok;
+}
+
+/**
+ * The build's report on stderr. The first line counts what a script or a
+ * person looks for first: reports built, audits failed, audits that could not
+ * be audited or have damaged versions; the details follow.
+ */
+export function buildSummary(outcome: BuildOutcome, cacheFolder: string, allowFail: boolean): string {
+  const { broken, damaged, failed } = outcome;
+  const { reused, unstored } = outcome.cache;
+  const counts = [`${failed.length} failed`];
+  if (broken.length) counts.push(`${broken.length} could not be audited`);
+  if (damaged.length) counts.push(`${damaged.length} with damaged versions`);
+  const lines = [`built ${outcome.audits.length} audit report(s): ${counts.join(", ")}${reused ? `; ${reused} unchanged audit(s) taken from the result cache` : ""}`];
+  if (failed.length) lines.push(`failed: ${failed.join(", ")}`);
+  for (const b of broken) lines.push(`could not audit ${b.folder}:`, ...b.error.split("\n").map((l) => `  ${l}`));
+  for (const d of damaged) lines.push(`damaged versions in ${d.folder}:`, ...d.problems.flatMap((p) => p.split("\n")).map((l) => `  ${l}`));
+  if (unstored > 0) lines.push(`note: ${unstored} result(s) could not be stored in ${cacheFolder}; the next build recomputes them`);
+  if (failed.length && !allowFail && !broken.length && !damaged.length) lines.push("exit status 1 because an audit failed; pass --allow-fail to exit 0 when the site is built");
+  return `${lines.join("\n")}\n`;
 }
 
 function parseThreads(text: string): number {

@@ -28,11 +28,12 @@ settings:
   seed: auto        # random steps are seeded from each dataset's SHA-256; or give an integer
 
 datasets:
-  # Repeated runs of a contact protocol between reservoirs A and B, one realisation per row.
+  # Repeated runs of a contact protocol between reservoirs A and B, one realisation per row, or (as in the
+  # example file init wrote) a histogram: a count column gives how many realisations each row stands for.
   - id: run-1
     kind: samples
     file: data/run-1.csv
-    columns: { Q: Q, dN: dN, W: W }   # role → CSV column; roles: dE_A dE_B Q dN W count
+    columns: { Q: Q, dN: dN, W: W, count: count }   # role → CSV column; roles: dE_A dE_B Q dN W count
     energy_unit: meV                  # J | eV | meV | ueV | kT (kT needs reference_temperature)
     reservoirs:
       A: { T: 1.30, mu: 0.0 }         # T in kelvin (or beta per energy unit); mu in energy_unit
@@ -65,6 +66,30 @@ checks: all   # or a list of check ids, e.g. [second-law, integral-fluctuation]
 `;
 }
 
+/** Boltzmann's constant in meV/K (CODATA 2018, exact: k_B / e × 10³). */
+const KB_MEV_PER_K = (1.380649e-23 / 1.602176634e-19) * 1e3;
+
+/**
+ * A small example histogram for the scaffold's dataset, so that the new audit
+ * runs at once: heat Q on a 0.05 meV grid between reservoirs at 1.30 K and
+ * 1.00 K, no particles and no work, with multiplicities proportional to
+ * exp(−Q²/2s²) · exp(a_Q Q/2). Their ratio for ±Q is exp(a_Q Q), the exchange
+ * fluctuation relation (Jarzynski & Wójcik, Phys. Rev. Lett. 92, 230602
+ * (2004)) with a_Q = 1/k_B T_B − 1/k_B T_A, up to rounding to whole counts.
+ * Invented data, for a first run only: replace it with your own.
+ */
+export function exampleHistogramCsv(): string {
+  const aQ = 1 / (KB_MEV_PER_K * 1.0) - 1 / (KB_MEV_PER_K * 1.3);
+  const s = 0.5; // meV
+  const rows = ["Q,dN,W,count"];
+  for (let k = -30; k <= 30; k++) {
+    const q = k * 0.05;
+    const count = Math.round(20000 * Math.exp(-(q * q) / (2 * s * s) + (aQ * q) / 2));
+    if (count > 0) rows.push(`${q.toFixed(2)},0,0,${count}`);
+  }
+  return `${rows.join("\n")}\n`;
+}
+
 export function registerInit(program: Command, setExit: (code: number) => void): void {
   program
     .command("init")
@@ -80,7 +105,9 @@ export function registerInit(program: Command, setExit: (code: number) => void):
         .replace(/^-+|-+$/g, "") || "new-audit";
       fs.mkdirSync(path.join(dir, "data"), { recursive: true });
       fs.writeFileSync(file, scaffoldAuditYaml(id));
-      process.stderr.write(`created ${file}; put your data under ${path.join(dir, "data")} and edit the datasets\n`);
+      const example = path.join(dir, "data", "run-1.csv");
+      if (!fs.existsSync(example)) fs.writeFileSync(example, exampleHistogramCsv());
+      process.stderr.write(`created ${file} and an example dataset ${example}; try \`transport-audit run ${dir}\`, then replace the example with your data and edit the datasets\n`);
       setExit(EXIT.ok);
     });
 }

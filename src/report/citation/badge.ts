@@ -2,37 +2,49 @@ import { escapeHtml } from "../escape.ts";
 
 export type BadgeState = "pass" | "fail" | "inconclusive" | "draft";
 
-/** Fill colours with white text at a contrast ratio of at least 4.5:1 (WCAG 2.1, 1.4.3). */
-const FILL: Record<BadgeState, string> = { pass: "#1b6e34", fail: "#a8241c", inconclusive: "#7a5200", draft: "#545b66" };
+/**
+ * Ink colours on paper, each at a contrast ratio of at least 4.5:1 against
+ * white (WCAG 2.1, 1.4.3), so the stamp reads in grey-scale print too; the
+ * symbol and the word carry the verdict, never the colour alone.
+ */
+const INK: Record<BadgeState, string> = { pass: "#1b6e34", fail: "#a8241c", inconclusive: "#7a5200", draft: "#545b66" };
 const SYMBOL: Record<BadgeState, string> = { pass: "✓", fail: "✗", inconclusive: "?", draft: "✎" };
 
-/** Rough advance width of 11 px sans-serif text, enough to size the badge (no font metrics at build time). */
-function textWidth(text: string): number {
-  return Math.ceil([...text].length * 6.6);
-}
+/** Rough advance widths (no font metrics at build time): 12 px serif capitals and 9 px small capitals. */
+const width = (text: string, perChar: number) => Math.ceil([...text].length * perChar);
 
 /**
- * A small SVG status badge: "transport audit" on the left, the verdict and the
- * version on the right, with a text title for screen readers. `detail` is
- * appended to the title (e.g. the DOI).
+ * The project's status badge: an inspection stamp. A round seal on the left
+ * holds the verdict's symbol inside a double ring; beside it, on a paper tag
+ * with a perforated edge, the words "transport audit" in spaced small
+ * capitals over the verdict and version in a serif face. One ink colour per
+ * verdict on a light ground, as a rubber stamp prints. A text title states
+ * the same for screen readers; `detail` is appended to it (e.g. the DOI).
  */
 export function statusBadgeSvg(state: BadgeState, version: number | null, detail?: string): string {
-  const left = "transport audit";
-  const right = `${SYMBOL[state]} ${state === "draft" ? "draft" : state}${version !== null ? ` · v${version}` : ""}`;
-  const lw = textWidth(left) + 12;
-  const rw = textWidth(right) + 12;
+  const verdict = `${SYMBOL[state]} ${state === "draft" ? "draft" : state}${version !== null ? ` · v${version}` : ""}`;
   const label = `transport audit: ${state}${version !== null ? `, version ${version}` : ", unpublished"}${detail ? `, ${detail}` : ""}`;
+  const ink = INK[state];
+  const h = 36;
+  const seal = 17; // seal radius
+  const tagX = 2 * seal + 6;
+  const tagW = Math.max(width("TRANSPORT AUDIT", 7.2), width(verdict, 7.4)) + 18;
+  const w = tagX + tagW + 2;
+  // Perforation: small dots down the tag's left edge, where it would tear from a sheet.
+  const holes = Array.from({ length: 5 }, (_, i) => `<circle cx="${tagX + 4}" cy="${7 + i * 5.5}" r="1"/>`).join("");
   const esc = escapeHtml;
   return [
-    `<svg xmlns="http://www.w3.org/2000/svg" width="${lw + rw}" height="20" viewBox="0 0 ${lw + rw} 20" role="img" aria-label="${esc(label)}">`,
+    `<svg xmlns="http://www.w3.org/2000/svg" width="${w}" height="${h}" viewBox="0 0 ${w} ${h}" role="img" aria-label="${esc(label)}">`,
     `<title>${esc(label)}</title>`,
-    `<rect width="${lw}" height="20" rx="3" fill="#2f3540"/>`,
-    `<rect x="${lw}" width="${rw}" height="20" rx="3" fill="${FILL[state]}"/>`,
-    `<rect x="${lw}" width="4" height="20" fill="${FILL[state]}"/>`,
-    `<g fill="#ffffff" font-family="DejaVu Sans,Verdana,Geneva,sans-serif" font-size="11" text-anchor="middle">`,
-    `<text x="${lw / 2}" y="14">${esc(left)}</text>`,
-    `<text x="${lw + rw / 2}" y="14">${esc(right)}</text>`,
+    `<g fill="#fffdf7" stroke="${ink}">`,
+    `<path d="M${tagX},2.5H${w - 9}l7.5,7v17l-7.5,7H${tagX}z" stroke-width="1.5"/>`,
+    `<circle cx="${seal + 1}" cy="${h / 2}" r="${seal - 0.5}" stroke-width="1.5"/>`,
+    `<circle cx="${seal + 1}" cy="${h / 2}" r="${seal - 4}" stroke-width="0.8" stroke-dasharray="2 1.6"/>`,
     `</g>`,
+    `<g fill="${ink}" stroke="none">${holes}</g>`,
+    `<text x="${seal + 1}" y="${h / 2 + 6}" text-anchor="middle" fill="${ink}" font-family="DejaVu Serif,Georgia,serif" font-size="17" font-weight="700">${esc(SYMBOL[state])}</text>`,
+    `<text x="${tagX + 11}" y="15" fill="${ink}" font-family="DejaVu Serif,Georgia,serif" font-size="8.5" letter-spacing="1.2">TRANSPORT AUDIT</text>`,
+    `<text x="${tagX + 11}" y="29" fill="${ink}" font-family="DejaVu Serif,Georgia,serif" font-size="12.5" font-style="italic">${esc(verdict)}</text>`,
     `</svg>`,
     "",
   ].join("\n");

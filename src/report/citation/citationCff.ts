@@ -39,5 +39,8 @@ export function citationCff(s: CitationSubject): string {
     identifiers,
     keywords: ["transport audit", "Onsager reciprocity", "fluctuation relations", ...(s.device ? [s.device] : [])],
   };
-  return `# Citation File Format 1.2.0; written by ${s.tool.name} ${s.tool.version}\n${stringify(doc, { lineWidth: 0 })}`;
+  // Every text value double-quoted: a YAML 1.1 reader (PyYAML, used by CFF tools) would otherwise read a
+  // plain `no`, `on` or `1e3` as a boolean or number; the yaml package escapes what the quotes need.
+  const body = stringify(doc, { lineWidth: 0, defaultStringType: "QUOTE_DOUBLE", defaultKeyType: "PLAIN" });
+  return `# Citation File Format 1.2.0; written by ${s.tool.name} ${s.tool.version}\n${body}`;
 }

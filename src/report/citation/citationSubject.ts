@@ -31,23 +31,37 @@ export function versionUrl(baseUrl: string | undefined, auditId: string, version
   return `${base}${auditId}/v${version}/`;
 }
 
+/**
+ * A citation is one line per field: line breaks, tabs, runs of spaces and
+ * control or format characters (which no reference list can show, and which
+ * could end a line of a BibTeX or YAML file early) become single spaces.
+ */
+export function oneLine(text: string): string {
+  return text.replace(/[\s\p{C}]+/gu, " ").trim();
+}
+
 export function citationSubject(result: ResultDocument, version: { number: number; date: string }, archive: ArchiveDefinition): CitationSubject {
   const url = versionUrl(archive.base_url, result.audit, version.number);
+  const license = result.license ?? archive.license;
   return {
     auditId: result.audit,
-    title: result.title,
-    authors: result.authors,
+    title: oneLine(result.title),
+    authors: result.authors.map((a) => ({
+      name: oneLine(a.name),
+      ...(a.orcid ? { orcid: a.orcid } : {}),
+      ...(a.affiliation ? { affiliation: oneLine(a.affiliation) } : {}),
+    })),
     version: version.number,
     date: version.date,
     ...(result.doi ? { doi: result.doi } : {}),
     ...(url ? { url } : {}),
-    license: result.license ?? archive.license,
-    publisher: archive.publisher,
-    archiveName: archive.name,
+    license: oneLine(license),
+    publisher: oneLine(archive.publisher),
+    archiveName: oneLine(archive.name),
     ...(archive.repository ? { repository: archive.repository } : {}),
     fingerprint: result.fingerprint,
     stamp: result.stamp,
-    tool: result.tool,
-    ...(result.device ? { device: result.device } : {}),
+    tool: { name: oneLine(result.tool.name), version: oneLine(result.tool.version) },
+    ...(result.device ? { device: oneLine(result.device) } : {}),
   };
 }

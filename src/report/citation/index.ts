@@ -6,3 +6,4 @@ export * from "./plainCitation.ts";
 export * from "./latexTable.ts";
 export * from "./pointsCsv.ts";
 export * from "./badge.ts";
+export * from "./latexMacros.ts";

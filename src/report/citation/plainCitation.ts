@@ -19,8 +19,17 @@ function authorList(names: string[]): string {
  * audit id and version with its date, publisher, DOI (or address) and the
  * fingerprint that ties the citation to exactly one result.
  */
+/**
+ * A DOI as an address at the DOI resolver: characters that a URL cannot carry
+ * as they are (`%`, `"`, `<`, `>`, `#`, `?`, non-ASCII, …) percent-encoded, as
+ * the DOI Handbook (§2.5.2.4, "Encoding rules for URL presentation") asks.
+ */
+export function doiAddress(doi: string): string {
+  return `https://doi.org/${encodeURI(doi).replace(/[#?]/g, (c) => encodeURIComponent(c))}`;
+}
+
 export function plainCitation(s: CitationSubject): string {
-  const link = s.doi ? `https://doi.org/${s.doi}` : s.url;
+  const link = s.doi ? doiAddress(s.doi) : s.url;
   const title = /[.?!]$/.test(s.title) ? s.title : `${s.title}.`;
   return (
     `${authorList(s.authors.map((a) => a.name))} (${s.date.slice(0, 4)}). ${title} ` +

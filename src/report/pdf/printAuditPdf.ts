@@ -8,6 +8,9 @@ import { runAudit } from "../runAudit.ts";
 import { auditPageModel, type AuditPageModel } from "../viewModel.ts";
 import { chromiumPath, launchChromium } from "./launchChromium.ts";
 import { footerTemplate, headerTemplate } from "./printTemplates.ts";
+import { refuseUnsafePdfTarget, writeFileReplacing } from "../../output/pdfTarget.ts";
+import { onInterrupt } from "../../interrupt/cancellation.ts";
+import { compactPageHtml } from "./compactPage.ts";
 
 export interface PdfOptions {
   auditDir: string;
@@ -15,6 +18,8 @@ export interface PdfOptions {
   out?: string;
   /** Chromium executable; default TRANSPORT_AUDIT_CHROMIUM or /usr/bin/chromium. */
   chromium?: string;
+  /** The compact form: one page per dataset with its verdicts, key numbers and two most telling plots. */
+  compact?: boolean;
 }
 
 export interface PdfOutcome {
@@ -44,14 +49,21 @@ export async function printAuditPdf(options: PdfOptions): Promise<PdfOutcome> {
   const { result } = await runAudit(auditDir);
   const audit = auditPageModel(result);
   const out = path.resolve(options.out ?? `${audit.id}.pdf`);
+  refuseUnsafePdfTarget(out, options.out ?? `${audit.id}.pdf`);
   const tmp = fs.mkdtempSync(path.join(os.tmpdir(), "transport-audit-pdf-"));
+  const forget = onInterrupt(() => fs.rmSync(tmp, { recursive: true, force: true }));
   try {
     await renderSite(tmp, { archive: archiveOf(auditDir), audits: [audit], broken: [] });
     const { browser, close } = await launchChromium(chromium);
     try {
       const page = await browser.newPage();
       await page.emulateMedia({ media: "print", colorScheme: "light" });
-      await page.goto(pathToFileURL(path.join(tmp, audit.id, "index.html")).href, { waitUntil: "load" });
+      let pageFile = path.join(tmp, audit.id, "index.html");
+      if (options.compact) {
+        pageFile = path.join(tmp, audit.id, "compact.html");
+        fs.writeFileSync(pageFile, compactPageHtml(audit, "../"));
+      }
+      await page.goto(pathToFileURL(pageFile).href, { waitUntil: "load" });
       await page.evaluate("document.fonts.ready.then(() => true)");
       const pdf = await page.pdf({
         format: "A4",
@@ -63,13 +75,13 @@ export async function printAuditPdf(options: PdfOptions): Promise<PdfOutcome> {
         tagged: true,
         outline: true,
       });
-      fs.mkdirSync(path.dirname(out), { recursive: true });
-      fs.writeFileSync(out, pdf);
+      await writeFileReplacing(out, pdf, "pdf:printed");
       return { file: out, bytes: pdf.length, audit };
     } finally {
       await close();
     }
   } finally {
     fs.rmSync(tmp, { recursive: true, force: true });
+    forget();
   }
 }

@@ -3,7 +3,7 @@ import type { PlotSpec, Series, Axis } from "../../checks/plotSpec.ts";
 import { escapeHtml } from "../escape.ts";
 import { DASHES, HATCH_CYCLE, LINE_CYCLE, MARKERS, seriesColour } from "./palette.ts";
 import { describePlot } from "./describePlot.ts";
-import { tickLabelSvg } from "./tickLabel.ts";
+import { exponentNote, linearTickLabels, logTickLabel } from "./tickLabel.ts";
 import { richTextSvg } from "./richText.ts";
 
 /*
@@ -85,17 +85,29 @@ function scaleFor(axis: Axis, domain: [number, number], range: [number, number])
   return scaleLinear().domain(domain).range(range).nice() as Scale;
 }
 
-export function axisTitle(a: Axis): string {
-  return a.unit ? `${a.label} (${a.unit})` : a.label;
+/** A data-file column's name used as a label (`Vg_mV`): its unit is in its name, as the file wrote it. */
+const COLUMN_NAME = /^[A-Za-z][A-Za-z0-9]*_[A-Za-z0-9_]+$/;
+
+/**
+ * An axis title with its unit: `label (unit)`, `(dimensionless)` for a pure
+ * number, a column name as written; a power of ten shared by the tick labels
+ * goes in front of the unit.
+ */
+export function axisTitle(a: Axis, exponent = 0): string {
+  const power = exponentNote(exponent);
+  if (a.unit && a.unit !== "1") return `${a.label} (${power ? `${power.slice(1)} ` : ""}${a.unit})`;
+  if (COLUMN_NAME.test(a.label)) return power ? `${a.label} (${power})` : a.label;
+  return `${a.label} (${power ? `${power} ` : ""}dimensionless)`.replace("(×", "(×");
 }
 
-/** Ticks of an axis, each with its label, or "" for an unlabelled minor tick on a log axis. */
-function ticksOf(axis: Axis, scale: Scale, count: number): { value: number; label: string }[] {
+/** Ticks of an axis with their labels in one style, "" for an unlabelled minor tick on a log axis, and the power of ten the labels share. */
+function ticksOf(axis: Axis, scale: Scale, count: number): { ticks: { value: number; label: string }[]; exponent: number } {
   const ticks = scale.ticks(count);
-  if (axis.scale !== "log") return ticks.map((value) => ({ value, label: tickLabelSvg(value) }));
-  // d3's log-scale formatter returns "" for ticks it would leave unlabelled (2…9 within a decade when crowded).
-  const keep = scale.tickFormat(count, "");
-  return ticks.map((value) => ({ value, label: keep(value) === "" ? "" : tickLabelSvg(value) }));
+  if (axis.scale !== "log") {
+    const { labels, exponent } = linearTickLabels(ticks);
+    return { ticks: ticks.map((value, i) => ({ value, label: escapeHtml(labels[i]) })), exponent };
+  }
+  return { ticks: ticks.map((value) => ({ value, label: logTickLabel(value) })), exponent: 0 };
 }
 
 function marker(kind: (typeof MARKERS)[number], x: number, y: number): string {
@@ -265,8 +277,8 @@ export function renderPlot(spec: PlotSpec, idPrefix = "", ordinal?: number): str
   const uid = `${idPrefix}${spec.id}-${ordinal ?? ++plotCounter}`.replace(/[^A-Za-z0-9_-]/g, "-");
   const x = scaleFor(spec.x, extent(spec, "x"), [0, PW]);
   const y = scaleFor(spec.y, extent(spec, "y"), [PH, 0]);
-  const xTicks = ticksOf(spec.x, x, spec.x.scale === "log" ? 6 : 7);
-  const yTicks = ticksOf(spec.y, y, 6);
+  const { ticks: xTicks, exponent: xExp } = ticksOf(spec.x, x, spec.x.scale === "log" ? 6 : 7);
+  const { ticks: yTicks, exponent: yExp } = ticksOf(spec.y, y, 6);
   const grid = [
     ...yTicks.filter((t) => t.label).map((t) => `<path d="M0,${f2(y(t.value))}H${PW}"/>`),
     ...xTicks.filter((t) => t.label).map((t) => `<path d="M${f2(x(t.value))},0V${PH}"/>`),
@@ -303,8 +315,8 @@ export function renderPlot(spec: PlotSpec, idPrefix = "", ordinal?: number): str
     `<rect class="frame" width="${PW}" height="${PH}" fill="none" stroke="currentColor" stroke-opacity="0.75"/>`,
     `<g class="axis x" stroke="currentColor" fill="currentColor">${xAxis}</g>`,
     `<g class="axis y" stroke="currentColor" fill="currentColor">${yAxis}</g>`,
-    `<text class="axis-title" x="${PW / 2}" y="${PH + 48}" text-anchor="middle" fill="currentColor" font-size="15">${richTextSvg(axisTitle(spec.x))}</text>`,
-    `<text class="axis-title" transform="translate(${-M.left + 18},${PH / 2}) rotate(-90)" text-anchor="middle" fill="currentColor" font-size="15">${richTextSvg(axisTitle(spec.y))}</text>`,
+    `<text class="axis-title" x="${PW / 2}" y="${PH + 48}" text-anchor="middle" fill="currentColor" font-size="15">${richTextSvg(axisTitle(spec.x, xExp))}</text>`,
+    `<text class="axis-title" transform="translate(${-M.left + 18},${PH / 2}) rotate(-90)" text-anchor="middle" fill="currentColor" font-size="15">${richTextSvg(axisTitle(spec.y, yExp))}</text>`,
     `</g>`,
     `<g class="legend" transform="translate(${M.left},${H + 8})" fill="currentColor">${legend}</g>`,
     `</svg>`,

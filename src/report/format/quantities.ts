@@ -1,0 +1,92 @@
+import { BOLTZMANN, ELEMENTARY_CHARGE, PLANCK } from "../../physics/constants.ts";
+
+/**
+ * The kinds of quantity the report shows, each with its SI unit (the unit of
+ * the result document) and how it may be displayed. A display unit is a base
+ * symbol, optionally with an SI prefix, and the factor from SI to it.
+ */
+export const QUANTITIES = [
+  "energy",
+  "affinity",
+  "heat_current",
+  "particle_current",
+  "temperature",
+  "chemical_potential",
+  "conductance",
+  "thermal_conductance",
+  "voltage",
+  "thermopower",
+  "power_factor",
+  "lorenz_number",
+  "time",
+  "field",
+  "entropy",
+  "entropy_density",
+  "dimensionless",
+] as const;
+export type Quantity = (typeof QUANTITIES)[number];
+
+/** A display base: its symbol, how many SI units one of it is, whether an SI prefix may be put in front, and its siunitx spelling. */
+export interface UnitBase {
+  symbol: string;
+  /** SI value of one base unit: 1 eV = e J. */
+  si: number;
+  /** Where the prefix goes: before the numerator (meV/s), before the denominator (1/meV), or nowhere. */
+  prefix: "numerator" | "denominator" | "none";
+  /** siunitx unit macro text with `<p>` where the prefix macro goes, e.g. `\<p>electronvolt\per\second`. */
+  siunitx: string;
+  /** Prefix exponents allowed, lowest and highest (temperatures stop at kelvin: no kK). */
+  range?: [number, number];
+}
+
+const e = ELEMENTARY_CHARGE;
+/** Conductance quantum without spin, e²/h (exact from the defining constants, SI Brochure 9th ed.). */
+export const CONDUCTANCE_QUANTUM = (e * e) / PLANCK;
+
+/** Display bases by name. The first of each quantity's list is its default; the rest may be chosen in `display:`. */
+export const BASES: Record<string, UnitBase> = {
+  J: { symbol: "J", si: 1, prefix: "numerator", siunitx: "\\<p>joule" },
+  eV: { symbol: "eV", si: e, prefix: "numerator", siunitx: "\\<p>electronvolt" },
+  "kB K": { symbol: "k_B K", si: BOLTZMANN, prefix: "none", siunitx: "\\kelvin" },
+  "1/J": { symbol: "1/J", si: 1, prefix: "denominator", siunitx: "\\per\\<p>joule" },
+  "1/eV": { symbol: "1/eV", si: 1 / e, prefix: "denominator", siunitx: "\\per\\<p>electronvolt" },
+  W: { symbol: "W", si: 1, prefix: "numerator", siunitx: "\\<p>watt" },
+  "eV/s": { symbol: "eV/s", si: e, prefix: "numerator", siunitx: "\\<p>electronvolt\\per\\second" },
+  "1/s": { symbol: "1/s", si: 1, prefix: "none", siunitx: "\\per\\second" },
+  "e/s": { symbol: "e/s", si: 1, prefix: "none", siunitx: "\\elementarycharge\\per\\second" },
+  A: { symbol: "A", si: 1 / e, prefix: "numerator", siunitx: "\\<p>ampere" },
+  K: { symbol: "K", si: 1, prefix: "numerator", siunitx: "\\<p>kelvin", range: [-9, 0] },
+  S: { symbol: "S", si: 1, prefix: "numerator", siunitx: "\\<p>siemens" },
+  "e2/h": { symbol: "e²/h", si: CONDUCTANCE_QUANTUM, prefix: "none", siunitx: "\\elementarycharge\\squared\\per\\planckconstant" },
+  "W/K": { symbol: "W/K", si: 1, prefix: "numerator", siunitx: "\\<p>watt\\per\\kelvin" },
+  V: { symbol: "V", si: 1, prefix: "numerator", siunitx: "\\<p>volt" },
+  "V/K": { symbol: "V/K", si: 1, prefix: "numerator", siunitx: "\\<p>volt\\per\\kelvin" },
+  "W/K2": { symbol: "W/K²", si: 1, prefix: "numerator", siunitx: "\\<p>watt\\per\\kelvin\\squared" },
+  "W Ohm/K2": { symbol: "W Ω K⁻²", si: 1, prefix: "numerator", siunitx: "\\<p>watt\\ohm\\per\\kelvin\\squared" },
+  s: { symbol: "s", si: 1, prefix: "numerator", siunitx: "\\<p>second", range: [-24, 0] },
+  T: { symbol: "T", si: 1, prefix: "numerator", siunitx: "\\<p>tesla" },
+  kB: { symbol: "k_B", si: 1, prefix: "none", siunitx: "\\kB" },
+  "1/kB": { symbol: "1/k_B", si: 1, prefix: "none", siunitx: "\\per\\kB" },
+  "1": { symbol: "1", si: 1, prefix: "none", siunitx: "" },
+};
+
+/** Bases each quantity may be shown in; the first is the default (energies follow the dataset's unit, see `energyFamily`). */
+export const QUANTITY_BASES: Record<Quantity, string[]> = {
+  energy: ["eV", "J", "kB K"],
+  affinity: ["1/eV", "1/J"],
+  heat_current: ["eV/s", "W"],
+  particle_current: ["1/s", "e/s", "A"],
+  temperature: ["K"],
+  chemical_potential: ["eV", "J"],
+  conductance: ["S", "e2/h"],
+  thermal_conductance: ["W/K"],
+  voltage: ["V"],
+  thermopower: ["V/K"],
+  power_factor: ["W/K2"],
+  lorenz_number: ["W Ohm/K2"],
+  time: ["s"],
+  field: ["T"],
+  entropy: ["kB"],
+  entropy_density: ["1/kB"],
+  dimensionless: ["1"],
+};
