@@ -1,4 +1,5 @@
 import { z } from "zod";
+import { dataFileKeys } from "./dataFileSchema.ts";
 import { datasetId, positive, relativeFile, text } from "./common.ts";
 
 const temperatureSchema = z.union([z.object({ column: text("a CSV column name") }).strict(), z.object({ value: positive("kelvin") }).strict()], {
@@ -10,6 +11,7 @@ export const coefficientsDatasetSchema = z
     id: datasetId,
     kind: z.literal("coefficients"),
     file: relativeFile,
+    ...dataFileKeys,
     description: z.string().optional(),
     form: z.enum(["onsager", "thermoelectric"], { errorMap: () => ({ message: "must be onsager or thermoelectric" }) }),
     temperature: temperatureSchema,

@@ -1,4 +1,5 @@
 import { z } from "zod";
+import { dataFileKeys } from "./dataFileSchema.ts";
 import { energyUnitErrorMap } from "./energyUnitMessage.ts";
 import { datasetId, positive, relativeFile, text } from "./common.ts";
 import { ENERGY_UNITS } from "./samplesSchema.ts";
@@ -10,7 +11,7 @@ export type CumulantRole = (typeof CUMULANT_ROLES)[number];
 export const TIME_UNITS = ["s", "ms", "us", "µs", "ns", "ps", "fs", "hbar/J"] as const;
 
 const roleMap = z
-  .record(z.string(), text("a CSV column name"))
+  .record(z.string(), text("a column name"))
   .superRefine((m, ctx) => {
     for (const key of Object.keys(m)) {
       if (!(CUMULANT_ROLES as readonly string[]).includes(key)) {
@@ -30,6 +31,7 @@ export const cumulantsDatasetSchema = z
     id: datasetId,
     kind: z.literal("cumulants"),
     file: relativeFile,
+    ...dataFileKeys,
     description: z.string().optional(),
     columns: roleMap.optional(),
     energy_unit: z.enum(ENERGY_UNITS, { errorMap: energyUnitErrorMap(ENERGY_UNITS) }).default("J"),

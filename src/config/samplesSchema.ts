@@ -1,4 +1,5 @@
 import { z } from "zod";
+import { columnRef, dataFileKeys } from "./dataFileSchema.ts";
 import { energyUnitErrorMap } from "./energyUnitMessage.ts";
 import { datasetId, finite, positive, relativeFile, text } from "./common.ts";
 
@@ -31,7 +32,7 @@ export const stateDistributionSchema = z
   });
 
 const roleMap = z
-  .record(z.string(), text("a CSV column name"))
+  .record(z.string(), columnRef)
   .superRefine((m, ctx) => {
     for (const key of Object.keys(m)) {
       if (!(SAMPLE_ROLES as readonly string[]).includes(key)) {
@@ -45,6 +46,7 @@ export const samplesDatasetSchema = z
     id: datasetId,
     kind: z.literal("samples"),
     file: relativeFile,
+    ...dataFileKeys,
     description: z.string().optional(),
     columns: roleMap,
     energy_unit: z.enum(ENERGY_UNITS, { errorMap: energyUnitErrorMap(ENERGY_UNITS) }),

@@ -20,7 +20,7 @@ import type { CoefficientsDatasetConfig } from "../config/types.ts";
 import { nearest } from "../config/nearest.ts";
 import { parseUnit, toSI, type ParsedUnit, type QuantityKey } from "../physics/units.ts";
 import { onsagerFromThermoelectric } from "../physics/thermoelectric.ts";
-import { readNumericCsv, type ColumnRequest, type NumericTable } from "./readCsv.ts";
+import { readNumericCsv, type ColumnRequest, type NumericTable, type TableReader } from "./readCsv.ts";
 import type { CoefficientPoint, CoefficientsDataset, PairingFinding } from "./types.ts";
 
 const MAX_FLUXES = 9;
@@ -200,7 +200,12 @@ function onsagerUncertainty(v: { G: number; S: number; Pi: number; K: number }, 
   ];
 }
 
-export async function loadCoefficients(config: CoefficientsDatasetConfig, filePath: string, keyPath: string): Promise<CoefficientsDataset> {
+export async function loadCoefficients(
+  config: CoefficientsDatasetConfig,
+  filePath: string,
+  keyPath: string,
+  read: TableReader = (requests) => readNumericCsv(filePath, config.file, requests),
+): Promise<CoefficientsDataset> {
   const where = `audit.yaml ${keyPath}`;
   const col = columnMapper(config, where);
   const fieldUnit = config.field_unit ?? "T";
@@ -225,7 +230,7 @@ export async function loadCoefficients(config: CoefficientsDatasetConfig, filePa
   for (const p of config.point) request(p, "an operating-point coordinate", false);
   if (config.sweep_variable) request(config.sweep_variable, "the sweep variable", false);
 
-  const table = await readNumericCsv(filePath, config.file, requests);
+  const table = await read(requests);
   const { names, n } = valueRoles(config, table, col);
   const units = parseUnits(config, n, where);
 

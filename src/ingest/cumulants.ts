@@ -3,7 +3,7 @@ import type { CumulantsDatasetConfig } from "../config/types.ts";
 import type { CumulantRole } from "../config/cumulantsSchema.ts";
 import { HBAR } from "../physics/constants.ts";
 import { joulesPerEnergyUnit, type EnergyUnit } from "../physics/energyUnits.ts";
-import { readNumericCsv, type ColumnRequest } from "./readCsv.ts";
+import { readNumericCsv, type ColumnRequest, type TableReader } from "./readCsv.ts";
 import type { CumulantsDataset } from "./types.ts";
 
 const SECONDS_PER: Record<string, number> = { s: 1, ms: 1e-3, us: 1e-6, "µs": 1e-6, ns: 1e-9, ps: 1e-12, fs: 1e-15 };
@@ -42,7 +42,12 @@ function scaled(values: Float64Array | undefined, factor: number): Float64Array 
  * contact time. Headers default to the role names (`tau`, `Q`, `dN`, `u_Q`,
  * `u_dN`); roles mapped in `columns` must be present.
  */
-export async function loadCumulants(config: CumulantsDatasetConfig, filePath: string, keyPath: string): Promise<CumulantsDataset> {
+export async function loadCumulants(
+  config: CumulantsDatasetConfig,
+  filePath: string,
+  keyPath: string,
+  read: TableReader = (requests) => readNumericCsv(filePath, config.file, requests),
+): Promise<CumulantsDataset> {
   const where = `audit.yaml ${keyPath}`;
   const mapped = (config.columns ?? {}) as Partial<Record<CumulantRole, string>>;
   const joules = joulesPerEnergyUnit(config.energy_unit as EnergyUnit, config.reference_temperature, `${where}.energy_unit`);
@@ -54,7 +59,7 @@ export async function loadCumulants(config: CumulantsDatasetConfig, filePath: st
     column: columnOf(role),
     optional: role !== "tau" && mapped[role] === undefined,
   }));
-  const table = await readNumericCsv(filePath, config.file, requests);
+  const table = await read(requests);
   const col = (role: CumulantRole) => table.columns.get(columnOf(role));
   if (!col("Q") && !col("dN")) {
     throw new DataError(

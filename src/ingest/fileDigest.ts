@@ -1,5 +1,7 @@
 import fs from "node:fs";
 import { createHash } from "node:crypto";
+import { confinePath } from "../config/confinePath.ts";
+import { listParts, partsDigest } from "./sources/parts.ts";
 
 /**
  * SHA-256 (FIPS 180-4) of a file's bytes as hex, the form the result document
@@ -46,4 +48,15 @@ export async function sha256HexOfFileAsync(file: string): Promise<string> {
     await handle.close();
   }
   return hash.digest("hex");
+}
+
+/**
+ * The digest ingestion records for a dataset's `file:` value without parsing
+ * it: the file's SHA-256, or for a folder or glob of parts the digest over
+ * the sorted list of (path, SHA-256) (src/ingest/sources/parts.ts).
+ */
+export function datasetDigest(auditDir: string, file: string, keyPath: string): string {
+  const parts = listParts(auditDir, file, keyPath);
+  if (parts === null) return sha256HexOfFile(confinePath(auditDir, file, keyPath));
+  return partsDigest(parts.map((p) => ({ path: p, sha256: sha256HexOfFile(confinePath(auditDir, p, keyPath)) })));
 }

@@ -11,6 +11,9 @@ export interface ColumnRequest {
   optional?: boolean;
 }
 
+/** Reads the requested columns of a dataset's file (the ingesters take one, so that every format reaches them). */
+export type TableReader = (requests: ColumnRequest[]) => Promise<NumericTable & { format?: string }>;
+
 export interface NumericTable {
   sha256: string;
   rows: number;
@@ -39,15 +42,25 @@ export const SNIFF_BYTES = 64 * 1024;
  * not data a person means as a measured value.
  */
 const DECIMAL_NUMBER = /^[+-]?(?:\d+\.?\d*|\.\d+)(?:[eE][+-]?\d+)?$/;
+/** The same with a decimal comma (European spreadsheets, `decimal: comma`). */
+const DECIMAL_COMMA_NUMBER = /^[+-]?(?:\d+,?\d*|,\d+)(?:[eE][+-]?\d+)?$/;
 
 /**
  * One cell of a numeric column: its value when it is a finite decimal number,
  * else a message that says what was expected and what was found (the caller
  * adds file, line and column). Shared by every CSV reader of the tool.
  */
-export function describeCellProblem(raw: string): string | number {
+export function describeCellProblem(raw: string, decimal: "point" | "comma" = "point"): string | number {
   const text = raw.trim();
   if (text === "") return "expected a number, found an empty cell";
+  if (decimal === "comma") {
+    // A decimal comma (declared with decimal: comma): the same grammar with "," where the point stands.
+    if (DECIMAL_COMMA_NUMBER.test(text)) {
+      const value = Number(text.replace(",", "."));
+      return Number.isFinite(value) ? value : `expected a finite number, found ${JSON.stringify(raw)}`;
+    }
+    if (DECIMAL_NUMBER.test(text) && text.includes(".")) return `expected a number with a decimal comma (decimal: comma), found ${JSON.stringify(raw)}`;
+  }
   if (DECIMAL_NUMBER.test(text)) {
     const value = Number(text);
     // Beyond ±1.8e308 a decimal literal rounds to an infinity (IEEE 754 binary64).
@@ -162,12 +175,18 @@ export function describeHeaderProblem(label: string, line: number, headers: read
   return null;
 }
 
-/** A csv-parse error in words a person reads, with the line. */
-function describeCsvError(label: string, e: { code: string; lines?: number; message?: string; record?: unknown[] }, columns: number | null): string {
-  const at = `${label}:${e.lines ?? "?"}: malformed CSV`;
+/** A csv-parse error in words a person reads, with the line (`noun`: "CSV", or "table" for other delimiters). */
+export function describeCsvError(
+  label: string,
+  e: { code: string; lines?: number; message?: string; record?: unknown[] },
+  columns: number | null,
+  noun = "CSV",
+  countedBy = "header",
+): string {
+  const at = `${label}:${e.lines ?? "?"}: malformed ${noun}`;
   switch (e.code) {
     case "CSV_RECORD_INCONSISTENT_FIELDS_LENGTH":
-      return `${at}: this row has ${e.record?.length ?? "a different number of"} cell(s) but the header has ${columns ?? "another number"}; every row needs one cell per column (a decimal comma, or a comma inside an unquoted text, splits a cell in two)`;
+      return `${at}: this row has ${e.record?.length ?? "a different number of"} cell(s) but the ${countedBy} has ${columns ?? "another number"}; every row needs one cell per column (a decimal comma, or a comma inside an unquoted text, splits a cell in two)`;
     case "CSV_QUOTE_NOT_CLOSED":
       return `${at}: the file ends inside a quoted cell; a quote (") opened on or before this line is never closed`;
     case "CSV_MAX_RECORD_SIZE":
@@ -245,7 +264,8 @@ export async function readNumericCsv(filePath: string, label: string, requests: 
     skip_empty_lines: true,
     trim: true,
     info: true,
-    relax_column_count: false,
+    // Row lengths are checked below against the header once it is read (csv-parse, reading ahead, could report a row before the header reached this loop).
+    relax_column_count: true,
     bom: true,
     max_record_size: MAX_LINE_CHARS,
   });
@@ -282,6 +302,9 @@ export async function readNumericCsv(filePath: string, label: string, requests: 
         }
         if (missing.length) throw new DataError(missing.join("\n"));
         continue;
+      }
+      if (record.length !== headers.length) {
+        throw new DataError(describeCsvError(label, { code: "CSV_RECORD_INCONSISTENT_FIELDS_LENGTH", lines: info.lines, record }, headers.length));
       }
       rows++;
       lines.push(info.lines);

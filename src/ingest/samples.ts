@@ -1,16 +1,18 @@
 import fs from "node:fs";
+import path from "node:path";
 import { ConfigError, DataError, newProblemLog, type ProblemLog } from "../errors.ts";
 import type { SamplesDatasetConfig } from "../config/types.ts";
 import { joulesPerEnergyUnit, type EnergyUnit } from "../physics/energyUnits.ts";
 import { affinities, reservoirFromBeta, reservoirFromTemperature, type Affinities, type ReservoirState } from "../physics/affinities.ts";
 import { conductorStates, stateLabels } from "./conductorStates.ts";
 import { entropyProduction } from "../physics/entropyProduction.ts";
-import type { ColumnRequest } from "./readCsv.ts";
-import { readNumericTable } from "./fast/fastTable.ts";
-import { reduceSamplesFile, REDUCE_ABOVE_BYTES, type ReducedFields, type ReduceInput } from "./reduce/reduceSamples.ts";
-import { isParquetFile, readParquetRaw, reduceSamplesParquet } from "./reduce/samplesParquet.ts";
+import { REDUCE_ABOVE_BYTES, type ReducedFields, type ReduceInput } from "./reduce/reduceSamples.ts";
+import { readSamplesSource, type SamplesReadOptions, type SamplesRows } from "./reduce/samplesSource.ts";
+import { listParts } from "./sources/parts.ts";
+import { confinePath } from "../config/confinePath.ts";
+import { layoutSettings } from "./sources/layoutSettings.ts";
 import { formatRowProblems } from "./samplesRows.ts";
-import { logSigmaOverflow, SAMPLE_ROLES, sampleRowsOf, type SampleRole, type SampleRoles } from "./samplesRows.ts";
+import { logSigmaOverflow, sampleRowsOf, type SampleRole, type SampleRoles } from "./samplesRows.ts";
 import type { ConductorStates, SamplesDataset } from "./types.ts";
 
 function reservoirState(r: SamplesDatasetConfig["reservoirs"]["A"], joules: number): ReservoirState {
@@ -19,63 +21,19 @@ function reservoirState(r: SamplesDatasetConfig["reservoirs"]["A"], joules: numb
   return r.T !== undefined ? reservoirFromTemperature(r.T, mu) : reservoirFromBeta(r.beta! / joules, mu);
 }
 
-/** How a `samples` file is read: whole, or (large files) reduced to cells while streaming. */
-export interface SamplesReadOptions {
-  /** Files larger than this are reduced to cells (reduce/reduceSamples.ts); default REDUCE_ABOVE_BYTES. */
-  reduceAboveBytes?: number;
-  /** Most cells a reduced dataset keeps; default DEFAULT_CELL_CAPACITY. */
-  cellCapacity?: number;
-  /** Use worker threads for large files (default true; false gives the same result in this thread). */
-  threads?: boolean;
-  /** Bytes of the file processed so far, and its size. */
-  onBytes?: (done: number, total: number) => void;
-}
+export type { SamplesReadOptions } from "./reduce/samplesSource.ts";
 
 /**
  * Ingest a `samples` dataset: map roles to columns, convert energies to J,
  * derive W and Q from dE_A, dE_B where given, and compute the entropy
  * production of every realisation.
  */
-export async function loadSamples(config: SamplesDatasetConfig, filePath: string, keyPath: string, options: SamplesReadOptions = {}): Promise<SamplesDataset> {
-  const { head, input, conductor, roles, where } = prepareSamples(config, filePath, keyPath);
-  const large = fileSize(filePath) > (options.reduceAboveBytes ?? REDUCE_ABOVE_BYTES);
-  if (large && conductorHeld(roles)) {
-    // Summarising into cells would pool realisations with different end states; not supported yet.
-    throw new ConfigError(
-      `${where}.columns: ${config.file} is larger than ${Math.round((options.reduceAboveBytes ?? REDUCE_ABOVE_BYTES) / 2 ** 20)} MB and would be summarised while read, which does not yet keep the conductor's states or per-lead particle counts (state_start, state_end, dN_A, dN_B); give the windows as a histogram with a count column, or cut the file into smaller datasets`,
-    );
-  }
-  if (isParquetFile(config.file)) {
-    return { ...head, ...(large ? await reduceSamplesParquet(input, options) : exactFields(input, await readParquetRaw(input), "row", conductor)) };
-  }
-  if (large) {
-    const reduced = await reduceSamplesFile(input, options);
-    if (reduced !== null) return { ...head, ...reduced };
-  }
-  const table = await readNumericTable(filePath, config.file, input.requests, { onBytes: options.onBytes });
-  const raw: Partial<Record<SampleRole, Float64Array>> = {};
-  for (const role of SAMPLE_ROLES) if (roles[role] !== undefined) raw[role] = table.columns.get(roles[role]!);
-  return { ...head, ...exactFields(input, { raw, rows: table.rows, lines: table.lineOfRow, sha256: table.sha256 }, "line", conductor) };
-}
-
-/**
- * A samples dataset from columns already in hand (declared units), keyed by role: the per-window samples
- * a `trace` dataset builds. `lines` locate each row for messages; `sha256` is the source file's digest.
- */
-export function samplesFromColumns(
+export async function loadSamples(
   config: SamplesDatasetConfig,
+  filePath: string,
   keyPath: string,
-  raw: Partial<Record<SampleRole, Float64Array>>,
-  rows: number,
-  lines: ArrayLike<number>,
-  sha256: string,
-): SamplesDataset {
-  const { head, input, conductor } = prepareSamples(config, config.file, keyPath);
-  return { ...head, ...exactFields(input, { raw, rows, lines, sha256 }, "row", conductor) };
-}
-
-/** Roles checked, units and reservoirs resolved: everything a samples dataset needs before its rows. */
-function prepareSamples(config: SamplesDatasetConfig, filePath: string, keyPath: string) {
+  options: SamplesReadOptions & { auditDir?: string } = {},
+): Promise<SamplesDataset> {
   const where = `audit.yaml ${keyPath}`;
   const roles = config.columns as SampleRoles & Partial<Record<string, string>>;
   const hasQ = roles.Q !== undefined;
@@ -92,35 +50,37 @@ function prepareSamples(config: SamplesDatasetConfig, filePath: string, keyPath:
     );
   }
   checkStateRoles(roles, config, where);
-  const joules = joulesPerEnergyUnit(config.energy_unit as EnergyUnit, config.reference_temperature, `${where}.energy_unit`);
-  const A = reservoirState(config.reservoirs.A, joules);
-  const B = reservoirState(config.reservoirs.B, joules);
-  const affinity = affinities(A, B);
-  const head = {
-    kind: "samples" as const,
-    id: config.id,
-    file: config.file,
-    config,
-    reservoirs: { A, B },
-    affinity,
-    energyUnit: { name: config.energy_unit, joules },
-    hasParticleColumn: roles.dN !== undefined || roles.dN_A !== undefined,
-    tau: config.tau ?? null,
-  };
+  const { base, A, B, joules, affinity } = samplesHead(config, where);
+
   // Columns in the order audit.yaml maps them (messages list problems in that order).
-  const requests: ColumnRequest[] = Object.entries(roles).map(([role, column]) => ({ role, column: column! }));
-  const input: ReduceInput = { filePath, label: config.file, requests, roles, joules, affinity, workZero: config.work === "zero" };
+  const columns = Object.entries(config.columns as Record<string, string | number>).map(([role, column]) => ({ role, column }));
+  const auditDir = options.auditDir ?? path.dirname(filePath);
+  const settings = layoutSettings(config);
+  const parts = listParts(auditDir, config.file, keyPath);
+  const request = (file: string, label: string) => ({ filePath: file, label, auditDir, keyPath, columns, settings });
+  const requests = parts ? parts.map((p) => request(confinePath(auditDir, p, `${keyPath}.file`), p)) : [request(filePath, config.file)];
+  const partBytes = parts ? requests.map((r) => fs.statSync(r.filePath).size) : undefined;
+  const input = { label: config.file, joules, affinity, workZero: config.work === "zero" };
   const conductor: ConductorInput = { roles, A, B, declared: config.state_distribution, file: config.file, where };
-  return { head, input, conductor, roles, where };
+  if (conductorHeld(roles)) {
+    const bytes = partBytes ? partBytes.reduce((a, b) => a + b, 0) : fileSize(filePath);
+    const limit = options.reduceAboveBytes ?? REDUCE_ABOVE_BYTES;
+    // Summarising into cells would pool realisations with different end states; several parts would be
+    // concatenated without their states. Neither is supported yet.
+    if (bytes > limit || parts) {
+      throw new ConfigError(
+        `${where}.columns: ${config.file} is ${parts ? "a multi-part dataset" : `larger than ${Math.round(limit / 2 ** 20)} MB and would be summarised while read`}, which does not yet keep the conductor's states or per-lead particle counts (state_start, state_end, dN_A, dN_B); give the windows as one histogram file with a count column`,
+      );
+    }
+  }
+  const exact = (part: ReduceInput, rows: RawSamples) => exactFields(part, rows, rows.located, conductorHeld(roles) ? conductor : undefined);
+  const { fields, format } = await readSamplesSource(requests, input, exact, { ...options, partBytes });
+  const stated = parts ? `${parts.length} part(s) of ${format}` : format;
+  return { kind: "samples" as const, id: config.id, file: config.file, format: stated, ...base, ...fields };
 }
 
-/** Raw columns of a whole file (declared units), with each row's line (CSV) or 1-based row number (Parquet). */
-interface RawSamples {
-  raw: Partial<Record<SampleRole, Float64Array>>;
-  rows: number;
-  lines: ArrayLike<number>;
-  sha256: string;
-}
+/** Raw columns of a whole file (declared units), with each row's line (text) or 1-based row number (binary). */
+type RawSamples = SamplesRows;
 
 /** What the conductor-state roles need besides the rows. */
 interface ConductorInput {
@@ -208,7 +168,7 @@ function conductorFields(
 }
 
 /** Every row kept as read: the dataset's arrays straight from the rows. */
-function exactFields(input: ReduceInput, table: RawSamples, located: "line" | "row", conductor?: ConductorInput): ReducedFields & Pick<SamplesDataset, "states" | "leadParticles"> {
+function exactFields(input: ReduceInput, table: RawSamples, located: RawSamples["located"], conductor?: ConductorInput): ReducedFields & Pick<SamplesDataset, "states" | "leadParticles"> {
   const problems = newProblemLog();
   const rows = sampleRowsOf(table.raw, input.roles, input.joules, table.rows, table.lines, problems);
   if (problems.count > 0) throw new DataError(formatRowProblems(input.label, problems, located));
@@ -238,6 +198,48 @@ function exactFields(input: ReduceInput, table: RawSamples, located: "line" | "r
     states: held.states,
     leadParticles: held.leadParticles,
   };
+}
+
+
+
+/** Units, reservoirs and affinities of a samples dataset: what it needs before its rows. */
+function samplesHead(config: SamplesDatasetConfig, where: string) {
+  const joules = joulesPerEnergyUnit(config.energy_unit as EnergyUnit, config.reference_temperature, `${where}.energy_unit`);
+  const A = reservoirState(config.reservoirs.A, joules);
+  const B = reservoirState(config.reservoirs.B, joules);
+  const affinity = affinities(A, B);
+  const roles = config.columns as SampleRoles;
+  const base = {
+    config,
+    reservoirs: { A, B },
+    affinity,
+    energyUnit: { name: config.energy_unit, joules },
+    hasParticleColumn: roles.dN !== undefined || roles.dN_A !== undefined,
+    tau: config.tau ?? null,
+  };
+  return { base, A, B, joules, affinity };
+}
+
+/**
+ * A samples dataset from columns already in hand (declared units), keyed by role: the per-window samples
+ * a `trace` dataset builds. `lines` locate each row for messages; `sha256` is the source file's digest.
+ */
+export function samplesFromColumns(
+  config: SamplesDatasetConfig,
+  keyPath: string,
+  raw: Partial<Record<SampleRole, Float64Array>>,
+  rows: number,
+  lines: ArrayLike<number>,
+  sha256: string,
+): SamplesDataset {
+  const where = `audit.yaml ${keyPath}`;
+  const roles = config.columns as SampleRoles;
+  checkStateRoles(roles, config, where);
+  const { base, A, B, joules, affinity } = samplesHead(config, where);
+  const input: ReduceInput = { label: config.file, roles, joules, affinity, workZero: config.work === "zero" } as ReduceInput;
+  const conductor: ConductorInput = { roles, A, B, declared: config.state_distribution, file: config.file, where };
+  const fields = exactFields(input, { raw, rows, lines, sha256, located: "row" } as RawSamples, "row", conductor);
+  return { kind: "samples" as const, id: config.id, file: config.file, format: "trace windows", ...base, ...fields };
 }
 
 function fileSize(filePath: string): number {

@@ -7,6 +7,8 @@ export interface DatasetRecord {
   file: string; // as written in audit.yaml, relative to the audit folder
   sha256: string; // hex digest of the file's bytes
   rows: number; // data rows (header and comment lines excluded)
+  /** The file's format as read, for the report: "comma-separated text", "Parquet", … (src/ingest/sources). */
+  format?: string;
 }
 
 /**

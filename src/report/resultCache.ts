@@ -2,9 +2,8 @@ import { createHash, randomBytes } from "node:crypto";
 import fs from "node:fs";
 import path from "node:path";
 import { fileURLToPath } from "node:url";
-import { confinePath } from "../config/confinePath.ts";
 import { loadAuditDefinition } from "../config/loadAudit.ts";
-import { sha256HexOfFile } from "../ingest/fileDigest.ts";
+import { datasetDigest } from "../ingest/fileDigest.ts";
 import { canonicalJson } from "./canonicalJson.ts";
 import type { ResultDocument } from "./resultDocument.ts";
 import { fingerprintFromDigests, runAudit, type InputDigest } from "./runAudit.ts";
@@ -48,7 +47,7 @@ export function folderFingerprint(dir: string): string {
   const inputs: InputDigest[] = definition.datasets.map((d, i) => ({
     id: d.id,
     file: d.file,
-    sha256: sha256HexOfFile(confinePath(dir, d.file, `datasets[${i}].file`)),
+    sha256: datasetDigest(dir, d.file, `datasets[${i}].file`),
   }));
   return fingerprintFromDigests(definition, inputs);
 }

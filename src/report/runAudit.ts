@@ -160,7 +160,7 @@ export function resultDocumentOf(audit: IngestedAudit, checks: CheckResult[]): R
     stamp: stampOf(checks),
     settings: d.settings,
     ...(d.display !== undefined ? { display: d.display } : {}),
-    datasets: audit.datasets.map((x) => ({ id: x.id, file: x.file, sha256: x.sha256, rows: x.rows, ...("energyUnit" in x ? { energy_unit: x.energyUnit.name } : {}) })),
+    datasets: audit.datasets.map((x) => ({ id: x.id, file: x.file, sha256: x.sha256, rows: x.rows, ...("energyUnit" in x ? { energy_unit: x.energyUnit.name } : {}), ...(x.format ? { format: x.format } : {}) })),
     checks,
   };
 }

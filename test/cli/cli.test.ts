@@ -21,7 +21,7 @@ describe("transport-audit command line (contract: audit-format.md)", () => {
     expect(doc.fingerprint).toMatch(/^sha256:[0-9a-f]{64}$/);
     expect(["pass", "fail", "inconclusive"]).toContain(doc.stamp);
     // energy_unit: an extension of the contract, the unit the report shows this dataset's energies in.
-    expect(doc.datasets[0]).toEqual({ id: "pulse-40ns", file: "data/exchange.csv", sha256: expect.stringMatching(/^[0-9a-f]{64}$/), rows: expect.any(Number), energy_unit: "meV" });
+    expect(doc.datasets[0]).toEqual({ id: "pulse-40ns", file: "data/exchange.csv", sha256: expect.stringMatching(/^[0-9a-f]{64}$/), rows: expect.any(Number), energy_unit: "meV", format: "comma-separated text (detected)" });
     const secondLaw = doc.checks.find((c: { check: string }) => c.check === "second-law");
     expect(secondLaw).toMatchObject({ dataset: "pulse-40ns", status: expect.any(String), summary: expect.any(String) });
     expect(secondLaw.values.ci).toHaveLength(2);

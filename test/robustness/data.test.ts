@@ -12,7 +12,7 @@
 import fs from "node:fs";
 import path from "node:path";
 import { describe, expect, it } from "vitest";
-import { DataError, InputError } from "../../src/errors.ts";
+import { ConfigError, DataError, InputError } from "../../src/errors.ts";
 import { describeCellProblem, MAX_LINE_CHARS } from "../../src/ingest/readCsv.ts";
 import { ingestAudit } from "../../src/ingest/loadAudit.ts";
 import type { SamplesDataset } from "../../src/ingest/types.ts";
@@ -45,10 +45,12 @@ describe("files that cannot be read as a table", () => {
     expect(await dataError(null)).toBe("data/run.csv: cannot read the file (does it exist?)");
   });
 
-  it("names a folder where a file belongs", async () => {
+  it("names an empty folder where a file or the parts of a multi-part dataset belong", async () => {
     const dir = auditWithData(null);
     fs.mkdirSync(path.join(dir, "data", "run.csv"));
-    await expect(ingestAudit(dir)).rejects.toThrow(new DataError("data/run.csv: is a folder; expected a CSV file"));
+    await expect(ingestAudit(dir)).rejects.toThrow(
+      new ConfigError('audit.yaml datasets[0].file: the folder "data/run.csv" holds no files; a multi-part dataset needs at least one part'),
+    );
   });
 
   it("refuses an empty file", async () => {
@@ -105,15 +107,22 @@ describe("the header", () => {
     expectClose(q[0], 1 * MEV, { rtol: 1e-15, source: "1 meV = 1.602176634e-22 J (SI 2019, exact)" });
   });
 
-  it("refuses a semicolon-separated file, saying which separator it found", async () => {
-    expect(await dataError("q;n\n1,5;2\n")).toBe(
-      'data/run.csv:1: the header is separated by semicolons; transport-audit reads comma-separated files: save the table with commas between cells and a decimal point in numbers (header found: "q;n")',
-    );
+  it("reads a semicolon-separated file, and points a decimal comma to the decimal key", async () => {
+    expect(await dataError("q;n\n1,5;2\n")).toBe('data/run.csv:2, column "q": expected a number, found "1,5" (use a decimal point, or declare decimal: comma for this file)');
+    const d = (await ingestAudit(auditWithData("q;n\n1.5;2\n"))).datasets[0];
+    expect(d.format).toBe("semicolon-separated text (detected)");
   });
 
-  it("refuses a tab-separated file, saying which separator it found", async () => {
-    expect(await dataError("q\tn\n1\t2\n")).toBe(
-      'data/run.csv:1: the header is separated by tabs; transport-audit reads comma-separated files: save the table with commas between cells and a decimal point in numbers (header found: "q\\tn")',
+  it("reads a tab-separated file and states the separator it found", async () => {
+    const d = (await ingestAudit(auditWithData("q\tn\n1\t2\n"))).datasets[0];
+    expect(d.format).toBe("tab-separated text (detected)");
+    expect(d.rows).toBe(1);
+  });
+
+  it("still refuses a header separated by semicolons when format: comma is stated", async () => {
+    const yaml = VALID_YAML.replace("columns: { Q: q, dN: n }", "format: comma\n    columns: { Q: q, dN: n }");
+    expect(await dataError("q;n\n1;2\n", yaml)).toBe(
+      'data/run.csv:1: the header is separated by semicolons; transport-audit reads comma-separated files: save the table with commas between cells and a decimal point in numbers (header found: "q;n")',
     );
   });
 });
@@ -202,7 +211,7 @@ describe("through the command line", () => {
   });
 
   it("reports every dataset error as an input error, never as an internal one", async () => {
-    for (const content of ["", "q,n\n", "q;n\n1;2\n", "q,q\n1,1\n"]) {
+    for (const content of ["", "q,n\n", "q;n\n1;2;3\n", "q,q\n1,1\n"]) {
       const r = await cli(["run", auditWithData(content)]);
       expect(r.code, JSON.stringify(content)).toBe(2);
       expect(r.stderr.startsWith("error: data/run.csv"), r.stderr).toBe(true);

@@ -1,5 +1,5 @@
 import { MAX_REPORTED_PROBLEMS, type CellProblem } from "../../errors.ts";
-import { describeCellProblem } from "../readCsv.ts";
+import { describeCellProblem, MAX_LINE_CHARS } from "../readCsv.ts";
 
 /**
  * The byte-level scanner of the fast CSV path: one pass over complete lines,
@@ -26,7 +26,18 @@ export interface ScanLayout {
   slotNames: string[];
   /** Lines end with CR LF (as the header's does); a line ending otherwise goes to the reference reader. */
   crlf: boolean;
+  /** What set `fieldCount`, for messages: "header" or "first row" (files without a header). */
+  countedBy: string;
+  /** What the file is called in messages about its structure: "CSV", or "table" for the other delimiters. */
+  noun: string;
+  /** The byte between cells (comma, tab or semicolon), or WHITESPACE_RUNS: any run of spaces and tabs. */
+  delimiter: number;
+  /** The decimal separator's byte: a point, or a comma (with a non-comma delimiter). */
+  decimal: number;
 }
+
+/** `ScanLayout.delimiter` for tables whose cells are separated by runs of spaces and tabs (fixed-width columns included). */
+export const WHITESPACE_RUNS = 32;
 
 /** Rows handed to a sink: one Float64Array a slot, `rows` long, and the row's line within the range. */
 export interface RowChunk {
@@ -46,6 +57,10 @@ export interface ScanState {
   problemCount: number;
   /** Why the fast path gave up, or null. */
   structural: string | null;
+  /** A refusal worded for the user (its line counted from the range's start), or null: the file cannot be read. */
+  refusal: { line: number; message: string } | null;
+  /** Byte offset (in the scanned buffer) of the line where the scan stopped, when it stopped early. */
+  stoppedAt: number;
 }
 
 const NL = 10;
@@ -53,6 +68,8 @@ const CR = 13;
 const COMMA = 44;
 const QUOTE = 34;
 const HASH = 35;
+const PERCENT = 37;
+const BANG = 33;
 const SPACE = 32;
 const TAB = 9;
 const ZERO = 48;
@@ -64,7 +81,7 @@ const LOWER_E = 101;
 const UPPER_E = 69;
 
 export function newScanState(): ScanState {
-  return { line: 0, rows: 0, problems: [], problemCount: 0, structural: null };
+  return { line: 0, rows: 0, problems: [], problemCount: 0, structural: null, refusal: null, stoppedAt: -1 };
 }
 
 /** Buffers of one chunk of rows, filled line by line and flushed to the sink when full. */
@@ -124,6 +141,12 @@ export function scanLines(
   const slots = layout.slotNames.length;
   const fieldCount = layout.fieldCount;
   const slotOfField = layout.slotOfField;
+  const runs = layout.delimiter === WHITESPACE_RUNS;
+  // −1 never equals a byte: with whitespace runs no single byte separates cells, and a tab pads a cell only where it does not separate cells.
+  const delim = runs ? -1 : layout.delimiter;
+  const pad = layout.delimiter === TAB ? -1 : TAB;
+  const dec = layout.decimal;
+  const decimal = dec === COMMA ? "comma" : "point";
   const lineProblems: (string | null)[] = new Array(slots).fill(null);
   // Counters live in locals while the lines are scanned, and go back to state and chunk on the way out.
   const { values, lines, capacity } = chunk;
@@ -131,41 +154,85 @@ export function scanLines(
   let rows = state.rows;
   let row = chunk.rows;
   let pos = from;
+  // Whether `line` already counts the line at `pos` (its fields are being read).
+  let counted = false;
+  // The line at `pos` is left uncounted for the reader that takes over (or for the refusal's line number).
+  const stop = (reason: string) => {
+    if (counted) line--;
+    state.stoppedAt = pos;
+    state.structural = reason;
+  };
+  const refuse = (message: string) => {
+    if (counted) line--;
+    state.stoppedAt = pos;
+    state.refusal = { line: line + 1, message };
+  };
   try {
     while (pos < to) {
       let c = bytes[pos];
-      // Mixed line ends are counted differently by csv-parse; the reference reader takes such files.
       if (c === NL) {
-        if (layout.crlf) return structural(state, "mixed line ends");
+        if (layout.crlf) return refuse(LF_IN_CRLF);
         line++;
         pos++;
         continue; // empty line
       }
       if (c === CR && bytes[pos + 1] === NL) {
-        if (!layout.crlf) return structural(state, "mixed line ends");
+        // Mixed line ends are counted differently by csv-parse; the general reader takes the rest of such files.
+        if (!layout.crlf) return stop("mixed line ends");
         line++;
         pos += 2;
         continue;
       }
-      if (c === HASH) {
+      let p = pos;
+      if (runs) {
+        // Fixed-width columns: leading blanks are padding, a line of blanks is empty.
+        while (c === SPACE || c === TAB) c = bytes[++p];
+        if (c === NL || c === CR) {
+          if ((c === CR) !== layout.crlf) return c === CR ? stop("mixed line ends") : refuse(LF_IN_CRLF);
+          line++;
+          pos = c === CR ? p + 2 : p + 1;
+          continue;
+        }
+      }
+      if (c === HASH || c === PERCENT || c === BANG) {
+        const nl = bytes.indexOf(NL, p);
+        if (nl - pos > MAX_LINE_CHARS) return refuse(longLine(layout));
+        if ((bytes[nl - 1] === CR) !== layout.crlf) return layout.crlf ? refuse(LF_IN_CRLF) : stop("mixed line ends");
         line++;
-        const nl = bytes.indexOf(NL, pos);
-        if ((bytes[nl - 1] === CR) !== layout.crlf) return structural(state, "mixed line ends");
         pos = nl + 1;
         continue; // comment line
       }
       line++;
+      counted = true;
       const lineStart = pos;
       let field = 0;
       let hasProblem = false;
-      let p = pos;
-      // One field per turn; p ends on the comma, CR or NL that closes it.
+      // One field per turn; p ends on the delimiter, CR or NL that closes it (with runs: on the next field or the line end).
       while (true) {
-        const fieldStart = p;
+        let fieldStart = p;
         const slot = field < fieldCount ? slotOfField[field] : -1;
         c = bytes[p];
-        while (c === SPACE || c === TAB) c = bytes[++p];
-        if (slot >= 0) {
+        while (c === SPACE || c === pad) c = bytes[++p];
+        if (c === QUOTE && !runs) {
+          // A whole quoted cell on one line ("1.5"): its text goes through the cell rules, as csv-parse gives it.
+          const open = p;
+          let q = p + 1;
+          while (q < to && bytes[q] !== QUOTE && bytes[q] !== NL) q++;
+          if (bytes[q] !== QUOTE || bytes[q + 1] === QUOTE) return stop("a quoted field over several lines or with a doubled quote");
+          p = q + 1;
+          c = bytes[p];
+          while (c === SPACE || c === pad) c = bytes[++p];
+          if (c !== delim && c !== NL && c !== CR) return stop("a quoted field followed by other text");
+          if (slot >= 0) {
+            const parsed = describeCellProblem(decoder.decode(bytes.subarray(open + 1, q)), decimal);
+            if (typeof parsed === "string") {
+              lineProblems[slot] = parsed;
+              hasProblem = true;
+              values[slot][row] = Number.NaN;
+            } else values[slot][row] = parsed;
+          }
+        } else if (slot >= 0) {
+          if (runs) fieldStart = p;
           let negative = false;
           if (c === MINUS || c === PLUS) {
             negative = c === MINUS;
@@ -181,7 +248,7 @@ export function scanLines(
           }
           let any = p > intStart;
           let scale = 0;
-          if (c === DOT) {
+          if (c === dec) {
             const fracStart = ++p;
             c = bytes[p];
             while (c >= ZERO && c <= NINE) {
@@ -208,8 +275,14 @@ export function scanLines(
             if (p === expStart) exact = false;
             scale += expNegative ? -exponent : exponent;
           }
-          while (c === SPACE || c === TAB) c = bytes[++p];
-          if (c !== COMMA && c !== NL && c !== CR) exact = false;
+          const end = p;
+          if (runs) {
+            while (c === SPACE || c === TAB) c = bytes[++p];
+            if (p === end && c !== NL && c !== CR) exact = false;
+          } else {
+            while (c === SPACE || c === pad) c = bytes[++p];
+            if (c !== delim && c !== NL && c !== CR) exact = false;
+          }
           if (m >= TWO_53 || scale > 22 || scale < -22) exact = false;
           let value: number;
           if (exact) {
@@ -219,38 +292,49 @@ export function scanLines(
             // Outside the fast path: the cell's text goes through the reference cell rules.
             p = fieldStart;
             c = bytes[p];
-            while (c !== COMMA && c !== NL && c !== QUOTE && c !== CR) c = bytes[++p];
-            if (c === QUOTE) return structural(state, "a quoted field");
-            if (c === CR && bytes[p + 1] !== NL) return structural(state, "a carriage return inside a line");
-            const parsed = describeCellProblem(decoder.decode(bytes.subarray(fieldStart, p)));
+            if (runs) while (c !== SPACE && c !== TAB && c !== NL && c !== CR) c = bytes[++p];
+            else while (c !== delim && c !== NL && c !== QUOTE && c !== CR) c = bytes[++p];
+            if (c === QUOTE) return stop("a quote inside a cell");
+            if (c === CR && bytes[p + 1] !== NL) return stop("a carriage return inside a line");
+            const parsed = describeCellProblem(decoder.decode(bytes.subarray(fieldStart, p)), decimal);
             if (typeof parsed === "string") {
               lineProblems[slot] = parsed;
               hasProblem = true;
               value = Number.NaN;
             } else value = parsed;
+            if (runs) while (c === SPACE || c === TAB) c = bytes[++p];
           }
           values[slot][row] = value;
+        } else if (runs) {
+          while (c !== SPACE && c !== TAB && c !== NL && c !== CR) c = bytes[++p];
+          while (c === SPACE || c === TAB) c = bytes[++p];
         } else {
-          while (c !== COMMA && c !== NL && c !== QUOTE && c !== CR) c = bytes[++p];
-          if (c === QUOTE) return structural(state, "a quoted field");
+          while (c !== delim && c !== NL && c !== QUOTE && c !== CR) c = bytes[++p];
+          if (c === QUOTE) return stop("a quote inside a cell");
         }
         field++;
-        if (c === COMMA) {
+        if (c === delim) {
           p++;
           continue;
         }
-        if (c === CR && bytes[p + 1] !== NL) return structural(state, "a carriage return inside a line");
+        if (c === CR && bytes[p + 1] !== NL) return stop("a carriage return inside a line");
+        if (runs && c !== NL && c !== CR) continue;
         break;
       }
+      if (p - lineStart > MAX_LINE_CHARS) return refuse(longLine(layout));
       const crlf = bytes[p] === CR;
-      if (crlf !== layout.crlf) return structural(state, "mixed line ends");
+      if (crlf !== layout.crlf) return crlf ? stop("mixed line ends") : refuse(LF_IN_CRLF);
       const lineEnd = crlf ? p + 2 : p + 1;
-      if (field !== fieldCount) return structural(state, `a record with ${field} field(s) where the header has ${fieldCount}`);
-      if (bytes[lineStart] === SPACE || bytes[lineStart] === TAB) {
-        // A blank-only line, or an indented "#": csv-parse's reading of those is its own; let it decide.
+      if (field !== fieldCount) {
+        if (runs) return refuse(`malformed ${layout.noun}: this row has ${field} cell(s) but the ${layout.countedBy} has ${fieldCount}; every row needs one cell per column (is a cell empty, or do two columns touch?)`);
+        return stop(`a record with ${field} field(s) where the header has ${fieldCount}`);
+      }
+      if (!runs && (bytes[lineStart] === SPACE || bytes[lineStart] === TAB)) {
+        // A blank-only line, or an indented comment: csv-parse's reading of those is its own; let it decide.
         let q = lineStart;
         while (bytes[q] === SPACE || bytes[q] === TAB) q++;
-        if (bytes[q] === HASH || bytes[q] === NL || bytes[q] === CR) return structural(state, "an indented comment or a blank line");
+        const first = bytes[q];
+        if (first === HASH || first === PERCENT || first === BANG || first === NL || first === CR) return stop("an indented comment or a blank line");
       }
       if (hasProblem) {
         for (let slot = 0; slot < slots; slot++) {
@@ -270,6 +354,7 @@ export function scanLines(
         row = chunk.rows;
       }
       pos = lineEnd;
+      counted = false;
     }
   } finally {
     state.line = line;
@@ -278,6 +363,11 @@ export function scanLines(
   }
 }
 
-function structural(state: ScanState, reason: string): void {
-  state.structural = reason;
+/** The refusal for a line that ends with LF alone in a file whose header line ends with CR LF. */
+export const LF_IN_CRLF =
+  "this line ends with a line feed alone (LF) while the lines before it end with CR LF; a file with mixed line ends was pieced together by different programs and its lines cannot be counted reliably: save it with one kind of line end";
+
+/** The refusal of a line beyond MAX_LINE_CHARS (numeric lines are ASCII, so characters are bytes). */
+export function longLine(layout: Pick<ScanLayout, "noun">): string {
+  return `malformed ${layout.noun}: a line is longer than ${MAX_LINE_CHARS.toLocaleString("en-US")} characters; a row of a numeric table is far shorter, so this is not a table transport-audit can read (are the line ends missing?)`;
 }

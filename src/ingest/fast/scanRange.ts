@@ -1,7 +1,7 @@
 import fs from "node:fs";
 import type { Hash } from "node:crypto";
 import { MAX_LINE_CHARS } from "../readCsv.ts";
-import { ChunkBuilder, newScanState, scanLines, type RowChunk, type ScanLayout, type ScanState } from "./scanLines.ts";
+import { ChunkBuilder, longLine, newScanState, scanLines, type RowChunk, type ScanLayout, type ScanState } from "./scanLines.ts";
 
 /** Bytes read at a time: large enough for system calls not to matter, small enough for the cache. */
 export const BLOCK_BYTES = 4 << 20;
@@ -34,7 +34,7 @@ export function scanFileRange(
   let buffer = Buffer.allocUnsafe(BLOCK_BYTES + 2);
   let carry = 0; // bytes of an incomplete line kept at the buffer's start
   let offset = start;
-  while (offset < end && state.structural === null) {
+  while (offset < end && state.structural === null && state.refusal === null) {
     if (carry + BLOCK_BYTES + 2 > buffer.length) {
       const grown = Buffer.allocUnsafe(carry + BLOCK_BYTES + 2);
       buffer.copy(grown, 0, 0, carry);
@@ -44,6 +44,7 @@ export function scanFileRange(
     if (got === 0) break;
     options.hash?.update(buffer.subarray(carry, carry + got));
     offset += got;
+    const base = offset - got - carry; // file offset of the buffer's first byte
     let filled = carry + got;
     const final = offset >= end;
     let cut: number;
@@ -59,7 +60,8 @@ export function scanFileRange(
     options.onBytes?.(got);
     carry = filled - cut;
     // The reference reader's limit (numeric lines are ASCII, so characters are bytes); it words the refusal.
-    if (carry > MAX_LINE_CHARS) state.structural = `a line longer than ${MAX_LINE_CHARS} bytes`;
+    if (state.structural !== null || state.refusal !== null) state.stoppedAt += base; // as a file offset
+    else if (carry > MAX_LINE_CHARS) state.refusal = { line: state.line + 1, message: longLine(layout) };
     else if (carry > 0) buffer.copy(buffer, 0, cut, filled);
   }
   flush();

@@ -1,4 +1,5 @@
 import fs from "node:fs/promises";
+import fsCallback from "node:fs";
 import type { AsyncBuffer } from "hyparquet";
 
 /** An AsyncBuffer over an open file, plus the means to close it. */
@@ -21,6 +22,25 @@ export async function openFileAsyncBuffer(filePath: string): Promise<FileAsyncBu
     await handle.close();
     throw err;
   }
+  return handleAsyncBuffer(handle, byteLength);
+}
+
+/** The same over a descriptor opened and checked elsewhere (src/ingest/sources/openDataFile.ts); closing it is the opener's. */
+export function descriptorAsyncBuffer(fd: number, byteLength: number): FileAsyncBuffer {
+  const handle = {
+    read: (bytes: Uint8Array, offset: number, length: number, position: number) =>
+      new Promise<{ bytesRead: number }>((resolve, reject) => fsCallback.read(fd, bytes, offset, length, position, (err, bytesRead) => (err ? reject(err) : resolve({ bytesRead })))),
+    close: async () => {},
+  };
+  return handleAsyncBuffer(handle, byteLength);
+}
+
+interface ReadHandle {
+  read(bytes: Uint8Array, offset: number, length: number, position: number): Promise<{ bytesRead: number }>;
+  close(): Promise<void>;
+}
+
+function handleAsyncBuffer(handle: ReadHandle, byteLength: number): FileAsyncBuffer {
   return {
     byteLength,
     async slice(start: number, end: number = byteLength): Promise<ArrayBuffer> {

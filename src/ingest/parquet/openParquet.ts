@@ -61,6 +61,11 @@ export async function openParquet(filePath: string, label: string): Promise<Open
   } catch {
     throw new DataError(`${label}: cannot read the file (does it exist?)`);
   }
+  return openParquetBuffer(file, label);
+}
+
+/** The same over a buffer already opened (the caller's descriptor); closes it when the file is refused. */
+export async function openParquetBuffer(file: FileAsyncBuffer, label: string): Promise<OpenParquet> {
   try {
     await checkFraming(file, label);
     let metadata: FileMetaData;

@@ -1,4 +1,4 @@
-import { openParquet } from "./openParquet.ts";
+import { openParquet, type OpenParquet } from "./openParquet.ts";
 import { requireNumericColumns } from "./numericColumns.ts";
 import { planReads } from "./planReads.ts";
 import { readRowRange } from "./readRowRange.ts";
@@ -22,10 +22,19 @@ export async function* readParquetColumns(
   columns: string[],
   options: { batchRows?: number } = {},
 ): AsyncGenerator<ParquetColumnBatch> {
+  yield* readOpenParquetColumns(await openParquet(filePath, label), label, columns, options);
+}
+
+/** readParquetColumns over a file already opened (its footer read); closes it at the end. */
+export async function* readOpenParquetColumns(
+  open: OpenParquet,
+  label: string,
+  columns: string[],
+  options: { batchRows?: number } = {},
+): AsyncGenerator<ParquetColumnBatch> {
   const batchRows = options.batchRows ?? DEFAULT_BATCH_ROWS;
   if (!Number.isSafeInteger(batchRows) || batchRows < 1) throw new RangeError(`batchRows must be a positive integer, got ${batchRows}`);
   const wanted = [...new Set(columns)];
-  const open = await openParquet(filePath, label);
   try {
     requireNumericColumns(open.metadata, label, wanted);
     const problems = new RowProblems(label);

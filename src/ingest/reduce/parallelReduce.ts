@@ -5,13 +5,13 @@ import { fileURLToPath } from "node:url";
 import { createHash } from "node:crypto";
 import { threadId, Worker } from "node:worker_threads";
 import type { ScanLayout } from "../fast/scanLines.ts";
-import { sha256HexOfFile, sha256HexOfFileAsync } from "../fileDigest.ts";
 import { startTsWorker } from "../../threads/tsWorker.ts";
 import { reduceFileRange, type SamplesPartSummary, type SamplesReductionSpec } from "./samplesSink.ts";
 
 /** One thread's share of a file. */
 export interface RangeJob {
-  file: string;
+  /** The descriptor the audit opened and checked (src/ingest/sources/openDataFile.ts): worker threads share the process's descriptors, so nothing re-opens the path. */
+  fd: number;
   start: number;
   end: number;
   layout: ScanLayout;
@@ -232,30 +232,25 @@ export function lineAlignedCuts(fd: number, from: number, to: number, parts: num
  * thread computes the file's digest.
  */
 export async function reduceInParts(
-  file: string,
+  fd: number,
   from: number,
   to: number,
   layout: ScanLayout,
   spec: SamplesReductionSpec,
+  digest: () => Promise<string>,
   options: { threads?: boolean; onBytes?: (bytes: number) => void } = {},
 ): Promise<{ parts: SamplesPartSummary[]; sha256: string }> {
-  const fd = fs.openSync(file, "r");
-  let cuts: number[];
-  try {
-    cuts = lineAlignedCuts(fd, from, to, PARTS);
-  } finally {
-    fs.closeSync(fd);
-  }
+  const cuts = lineAlignedCuts(fd, from, to, PARTS);
   const jobs: RangeJob[] = [];
-  for (let k = 0; k < PARTS; k++) jobs.push({ file, start: cuts[k], end: cuts[k + 1], layout, spec });
+  for (let k = 0; k < PARTS; k++) jobs.push({ fd, start: cuts[k], end: cuts[k + 1], layout, spec });
   if (options.threads === false) {
-    const sha256 = sha256HexOfFile(file);
-    return { parts: jobs.map((j) => reduceFileRange(j.file, j.start, j.end, j.layout, j.spec, options.onBytes)), sha256 };
+    const parts = jobs.map((j) => reduceFileRange(j.fd, j.start, j.end, j.layout, j.spec, options.onBytes));
+    return { parts, sha256: await digest() };
   }
   const workers = await Promise.all(jobs.map(startWorker));
   const parts = Promise.all(workers.map((worker) => resultOf(worker, options.onBytes)));
   parts.catch(() => {}); // a worker's failure is rethrown by the await below, not reported as unhandled meanwhile
-  const sha256 = await sha256HexOfFileAsync(file); // in this thread, while the workers scan
+  const sha256 = await digest(); // in this thread, while the workers scan
   return { parts: await parts, sha256 };
 }
 

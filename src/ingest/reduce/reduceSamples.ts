@@ -1,15 +1,14 @@
 import fs from "node:fs";
 import { DataError, newProblemLog } from "../../errors.ts";
+import type { ByteRangePlan } from "../sources/types.ts";
 import type { Affinities } from "../../physics/affinities.ts";
 import { entropyProduction } from "../../physics/entropyProduction.ts";
-import type { ColumnRequest } from "../readCsv.ts";
-import { openPlain, throwRangeProblems } from "../fast/fastTable.ts";
 import type { RowChunk, ScanLayout } from "../fast/scanLines.ts";
 import { scanFileRange } from "../fast/scanRange.ts";
 import { sampleRowsOf, type SampleRole, type SampleRoles } from "../samplesRows.ts";
 import type { SamplesDataset, SamplesReduction } from "../types.ts";
-import { columnLevel, MAX_LEVEL, mergeCellTables } from "./cellTable.ts";
-import { PARTS, reduceInParts, workerBundle } from "./parallelReduce.ts";
+import { columnLevel, MAX_LEVEL, type CellTableData } from "./cellTable.ts";
+import { reduceInParts, workerBundle } from "./parallelReduce.ts";
 import { sigmaOfRows, type KeyColumn, type SampleColumn, type SamplesReductionSpec } from "./samplesSink.ts";
 
 /**
@@ -79,9 +78,8 @@ function distinctAbove(values: Float64Array, limit: number): boolean {
 const PROBE_BYTES = 1 << 20;
 
 export interface ReduceInput {
-  filePath: string;
   label: string;
-  requests: ColumnRequest[];
+  /** Role → the column's name in the file (its header name, or its position without a header). */
   roles: SampleRoles;
   joules: number;
   affinity: Affinities;
@@ -93,46 +91,43 @@ export type ReducedFields = Pick<
   "sha256" | "rows" | "W" | "W_data" | "Q" | "dN" | "dE_A" | "dE_B" | "weight" | "realisations" | "sigma" | "reduction"
 >;
 
+/** The spec of a summary from the first rows of a plain text file's byte ranges. */
+export function byteRangeSpec(input: ReduceInput, plan: ByteRangePlan, slotOfRole: Partial<Record<SampleRole, number>>, capacity = DEFAULT_CELL_CAPACITY): SamplesReductionSpec {
+  return reductionSpec(input, csvProbe(plan.fd, plan.dataStart, plan.size, plan.layout), slotOfRole, capacity);
+}
+
 /**
- * Read a large `samples` file into a cell summary (see cellTable.ts) on worker
- * threads, and return the dataset's arrays over cells. Returns null when the
- * file is not in the plain layout the fast scanner reads (the caller then uses
- * the reference reader, which reads or words it).
+ * A large plain text `samples` file summarised into cells (see cellTable.ts)
+ * on worker threads, each scanning a byte range of the descriptor the source
+ * opened, while this thread computes the digest: the sorted cell tables of
+ * the ranges. Null when a range holds anything the byte scanner leaves to the
+ * general reader, or any problem (the caller then reduces the source's
+ * batches, which reads or words it with exact lines).
  */
-export async function reduceSamplesFile(
-  input: ReduceInput,
-  options: { cellCapacity?: number; threads?: boolean; onBytes?: (done: number, total: number) => void } = {},
-): Promise<ReducedFields | null> {
-  const opened = openPlain(input.filePath, input.label, input.requests);
-  if (opened === null) return null;
-  const { header, size } = opened;
+export async function reduceByteRanges(
+  plan: ByteRangePlan,
+  spec: SamplesReductionSpec,
+  digest: () => Promise<string>,
+  options: { threads?: boolean; onBytes?: (done: number, total: number) => void } = {},
+): Promise<{ tables: CellTableData[]; rows: number; sha256: string } | null> {
+  const { fd, size, layout } = plan;
   // esbuild bundles the worker in its own process while this thread reads the probe.
   if (options.threads !== false) void workerBundle();
-  let spec: SamplesReductionSpec;
-  try {
-    const probe = csvProbe(opened.fd, header.dataStart, size, header.layout);
-    spec = reductionSpec(input, probe, header.layout.slotNames, options.cellCapacity ?? DEFAULT_CELL_CAPACITY);
-  } finally {
-    fs.closeSync(opened.fd);
-  }
-  let done = header.dataStart;
-  const { parts, sha256 } = await reduceInParts(input.filePath, header.dataStart, size, header.layout, spec, {
+  let done = plan.dataStart;
+  const { parts, sha256 } = await reduceInParts(fd, plan.dataStart, size, layout, spec, digest, {
     threads: options.threads,
     onBytes: (n) => {
       done += n;
       options.onBytes?.(done, size);
     },
   });
-  if (parts.some((p) => p.state.structural !== null)) return null;
+  if (parts.some((p) => p.state.structural !== null || p.state.problemCount > 0 || p.rowProblems.count > 0)) return null;
   const rows = parts.reduce((a, p) => a + p.state.rows, 0);
   if (rows === 0) return null;
-  throwRangeProblems(input.label, header.headerLines, parts.map((p) => ({ problems: p.state.problems, count: p.state.problemCount, lines: p.state.line })));
-  throwRangeProblems(input.label, header.headerLines, parts.map((p) => ({ problems: p.rowProblems.problems, count: p.rowProblems.count, lines: p.state.line })));
-  const merged = mergeCellTables(spec.grid, parts.map((p) => p.table));
-  return fieldsFromCells(input, spec, merged, rows, sha256, PARTS);
+  return { tables: parts.map((p) => p.table), rows, sha256 };
 }
 
-/** The first whole rows of a plain CSV file (up to PROBE_BYTES), as the scanner gives them; null if none. */
+/** The first whole rows of a plain text file (up to PROBE_BYTES), as the scanner gives them; null if none. */
 function csvProbe(fd: number, dataStart: number, size: number, layout: ScanLayout): RowChunk | null {
   let probe: RowChunk | null = null;
   scanFileRange(fd, dataStart, probeEnd(fd, dataStart, size), layout, (chunk) => {
@@ -145,13 +140,8 @@ function csvProbe(fd: number, dataStart: number, size: number, layout: ScanLayou
  * Key and stored columns, and the grid, chosen from the rows at the start of
  * the file (`probe`: the scanner's columns in slot order).
  */
-export function reductionSpec(input: ReduceInput, probe: RowChunk | null, slotNames: string[], capacity: number): SamplesReductionSpec {
+export function reductionSpec(input: ReduceInput, probe: RowChunk | null, slotOfRole: Partial<Record<SampleRole, number>>, capacity: number): SamplesReductionSpec {
   const { roles } = input;
-  const slotOfRole: Partial<Record<SampleRole, number>> = {};
-  for (const [role, column] of Object.entries(roles)) {
-    const slot = slotNames.indexOf(column!);
-    if (slot >= 0) slotOfRole[role as SampleRole] = slot;
-  }
   const hasE = roles.dE_A !== undefined && roles.dE_B !== undefined;
   const hasW = roles.W !== undefined || hasE;
   const a = input.affinity;
@@ -335,7 +325,7 @@ function probeEnd(fd: number, dataStart: number, size: number): number {
 export function fieldsFromCells(
   input: ReduceInput,
   spec: SamplesReductionSpec,
-  cells: ReturnType<typeof mergeCellTables>,
+  cells: CellTableData,
   rows: number,
   sha256: string,
   parts: number,

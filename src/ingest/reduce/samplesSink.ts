@@ -1,4 +1,3 @@
-import fs from "node:fs";
 import { entropyProduction } from "../../physics/entropyProduction.ts";
 import { newProblemLog, type ProblemLog } from "../../errors.ts";
 import { CellTable, type CellTableData, type GridSpec, type RowBlock } from "./cellTable.ts";
@@ -162,18 +161,13 @@ export function sigmaOfRows(rows: SampleRows, c: SamplesReductionSpec["sigma"]):
   return entropyProduction({ beta_bar: c.cW, a_Q: c.cQ, a_N: c.cN }, rows.W_data ?? zeros!, rows.Q, rows.dN ?? zeros!);
 }
 
-/** Scan one byte range of a file and reduce it: the work of one thread. */
-export function reduceFileRange(file: string, start: number, end: number, layout: ScanLayout, spec: SamplesReductionSpec, onBytes?: (n: number) => void): SamplesPartSummary {
-  const fd = fs.openSync(file, "r");
-  try {
-    const reducer = new SamplesReducer(spec);
-    const state = scanFileRange(fd, start, end, layout, (chunk) => reducer.accept(chunk), { onBytes });
-    return {
-      state: { rows: state.rows, line: state.line, problems: state.problems, problemCount: state.problemCount, structural: state.structural },
-      rowProblems: reducer.rowProblems,
-      table: reducer.table.exportSorted(),
-    };
-  } finally {
-    fs.closeSync(fd);
-  }
+/** Scan one byte range of an open file and reduce it: the work of one thread. */
+export function reduceFileRange(fd: number, start: number, end: number, layout: ScanLayout, spec: SamplesReductionSpec, onBytes?: (n: number) => void): SamplesPartSummary {
+  const reducer = new SamplesReducer(spec);
+  const state = scanFileRange(fd, start, end, layout, (chunk) => reducer.accept(chunk), { onBytes });
+  return {
+    state: { rows: state.rows, line: state.line, problems: state.problems, problemCount: state.problemCount, structural: state.structural ?? state.refusal?.message ?? null },
+    rowProblems: reducer.rowProblems,
+    table: reducer.table.exportSorted(),
+  };
 }

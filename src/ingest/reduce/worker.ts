@@ -9,7 +9,7 @@ if (!port) throw new Error("worker.ts must run in a worker thread");
 const job = workerData as RangeJob;
 try {
   let pending = 0;
-  const summary = reduceFileRange(job.file, job.start, job.end, job.layout, job.spec, (n) => {
+  const summary = reduceFileRange(job.fd, job.start, job.end, job.layout, job.spec, (n) => {
     pending += n;
     if (pending >= 16 << 20) {
       port.postMessage({ type: "bytes", bytes: pending });

@@ -1,8 +1,7 @@
 import { DataError } from "../../errors.ts";
 import type { SamplesDatasetConfig, TraceDatasetConfig } from "../../config/types.ts";
-import { readNumericTable } from "../fast/fastTable.ts";
-import { readParquetTable } from "../parquet/index.ts";
-import { isParquetFile } from "../reduce/samplesParquet.ts";
+import { readSourceTable } from "../sources/readSourceTable.ts";
+import { layoutSettings } from "../sources/layoutSettings.ts";
 import { samplesFromColumns } from "../samples.ts";
 import type { SamplesDataset } from "../types.ts";
 import { blockLengthFor } from "./blockLength.ts";
@@ -19,7 +18,7 @@ const SECONDS: Record<TraceDatasetConfig["time_unit"], number> = { s: 1, ms: 1e-
  * named by `series`, or the trace's id), with the states at both ends of every
  * window and blocks of consecutive windows for the block bootstrap.
  */
-export async function loadTrace(config: TraceDatasetConfig, filePath: string, keyPath: string): Promise<SamplesDataset[]> {
+export async function loadTrace(config: TraceDatasetConfig, filePath: string, keyPath: string, auditDir: string): Promise<SamplesDataset[]> {
   const where = `audit.yaml ${keyPath}`;
   const valueColumn = config.signal === "transitions" ? config.columns.state : config.columns.level;
   if (valueColumn === undefined) {
@@ -28,15 +27,19 @@ export async function loadTrace(config: TraceDatasetConfig, filePath: string, ke
   if (config.signal === "level" && !config.thresholds) {
     throw new DataError(`${where}.thresholds: signal level needs two thresholds (low, high) and the states below and above them`);
   }
-  const parquet = isParquetFile(config.file);
-  const table = parquet
-    ? await readParquetTable(filePath, config.file, [config.columns.time, valueColumn])
-    : await readNumericTable(filePath, config.file, [
-        { role: "time", column: config.columns.time },
-        { role: config.signal === "transitions" ? "state" : "level", column: valueColumn },
-      ]);
-  const lineOfRow: Uint32Array | null = "lineOfRow" in table ? (table.lineOfRow as Uint32Array) : null;
-  const lineOf = (i: number) => (lineOfRow ? `line ${lineOfRow[i]}` : `row ${i + 1}`);
+  // Any format the tool reads (text, Parquet, …) through the shared source readers.
+  const table = await readSourceTable({
+    filePath,
+    label: config.file,
+    auditDir,
+    keyPath,
+    columns: [
+      { role: "time", column: config.columns.time },
+      { role: config.signal === "transitions" ? "state" : "level", column: valueColumn },
+    ],
+    settings: layoutSettings({}),
+  });
+  const lineOf = (i: number) => (table.located === "line" ? `line ${table.lineOfRow[i]}` : `row ${table.lineOfRow[i]}`);
   const scale = SECONDS[config.time_unit];
   const rawTime = table.columns.get(config.columns.time)!;
   const rawValue = table.columns.get(valueColumn)!;

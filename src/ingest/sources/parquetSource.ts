@@ -1,0 +1,58 @@
+import fs from "node:fs";
+import { ConfigError } from "../../errors.ts";
+import { descriptorAsyncBuffer } from "../parquet/fileAsyncBuffer.ts";
+import { openParquetBuffer } from "../parquet/openParquet.ts";
+import { topLevelColumns } from "../parquet/numericColumns.ts";
+import { readOpenParquetColumns } from "../parquet/readParquetColumns.ts";
+import { openDataFile } from "./openDataFile.ts";
+import { sha256OfDescriptor } from "./fileBytes.ts";
+import type { OpenSource, SourceModule, SourceRequest } from "./types.ts";
+
+/**
+ * Parquet files (hyparquet, src/ingest/parquet): columns by name or by
+ * 1-based position in the schema, batches of row groups in file order, rows
+ * numbered from 1 in messages.
+ */
+export const parquetSource: SourceModule = {
+  formats: ["parquet"],
+  detect: (name) => (/\.parquet$/i.test(name) ? "parquet" : null),
+  open: openParquetSource,
+};
+
+async function openParquetSource(request: SourceRequest): Promise<OpenSource> {
+  const { label } = request;
+  const { fd, size } = openDataFile(request.filePath, label, request.auditDir);
+  try {
+    const open = await openParquetBuffer(descriptorAsyncBuffer(fd, size), label);
+    const available = topLevelColumns(open.metadata);
+    const names = request.columns.map((w) => {
+      if (typeof w.column === "string") return w.column;
+      const name = available[w.column - 1];
+      if (name === undefined) throw new ConfigError(`audit.yaml ${request.keyPath}.columns.${w.role}: ${label} has ${available.length} column(s); there is no column ${w.column}`);
+      return name;
+    });
+    const wanted = [...new Set(names)];
+    return {
+      label,
+      format: "Parquet",
+      located: "row",
+      names,
+      available,
+      byteSize: size,
+      async *batches(onBytes) {
+        for await (const batch of readOpenParquetColumns(open, label, wanted)) {
+          const locations = new Float64Array(batch.rows);
+          for (let i = 0; i < batch.rows; i++) locations[i] = batch.firstRow + i + 1;
+          // Progress in bytes, estimated from the rows decoded (row groups are of similar size).
+          onBytes?.(Math.round(((batch.firstRow + batch.rows) / open.rows) * size), size);
+          yield { rows: batch.rows, values: names.map((n) => batch.values.get(n)!), locations };
+        }
+      },
+      sha256: () => sha256OfDescriptor(fd, size),
+      close: async () => fs.closeSync(fd),
+    };
+  } catch (err) {
+    fs.closeSync(fd);
+    throw err;
+  }
+}
