@@ -11,6 +11,7 @@ import { weightedIdentity } from "./weighted-identity/weightedIdentity.ts";
 import { uncertaintyRelation } from "./uncertainty-relation/uncertaintyRelation.ts";
 import { fluctuationDissipation } from "./fluctuation-dissipation/fluctuationDissipation.ts";
 import { linearGrowth } from "./linear-growth/linearGrowth.ts";
+import { steadyStateCounting } from "./steady-state-counting/steadyStateCounting.ts";
 
 /** Every check the tool knows, in the order the report lists them. Adding a check: one module, one line here. */
 export const CHECKS: readonly CheckDefinition[] = [
@@ -26,6 +27,7 @@ export const CHECKS: readonly CheckDefinition[] = [
   uncertaintyRelation,
   fluctuationDissipation,
   linearGrowth,
+  steadyStateCounting,
 ];
 
 export * from "./types.ts";

@@ -17,6 +17,7 @@ export const CHECK_IDS = [
   "uncertainty-relation",
   "fluctuation-dissipation",
   "linear-growth",
+  "steady-state-counting",
 ] as const;
 export type CheckId = (typeof CHECK_IDS)[number];
 

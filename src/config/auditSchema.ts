@@ -8,6 +8,7 @@ import { doiSchema } from "./identifiers.ts";
 import { samplesDatasetSchema } from "./samplesSchema.ts";
 import { coefficientsDatasetSchema, undeclaredUnits } from "./coefficientsSchema.ts";
 import { cumulantsDatasetSchema } from "./cumulantsSchema.ts";
+import { traceDatasetSchema } from "./traceSchema.ts";
 import { displaySchema } from "./displaySchema.ts";
 
 const orcid = z
@@ -47,10 +48,10 @@ export const settingsSchema = z
   .strict()
   .default({});
 
-export const datasetSchema = z.discriminatedUnion("kind", [samplesDatasetSchema, coefficientsDatasetSchema, cumulantsDatasetSchema], {
+export const datasetSchema = z.discriminatedUnion("kind", [samplesDatasetSchema, coefficientsDatasetSchema, cumulantsDatasetSchema, traceDatasetSchema], {
   errorMap: (issue, ctx) =>
     issue.code === "invalid_union_discriminator"
-      ? { message: "kind must be one of samples, coefficients, cumulants" }
+      ? { message: "kind must be one of samples, coefficients, cumulants, trace" }
       : { message: ctx.defaultError },
 });
 

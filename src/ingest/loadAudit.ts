@@ -5,6 +5,7 @@ import type { AuditDefinition, DatasetConfig } from "../config/types.ts";
 import { loadSamples } from "./samples.ts";
 import { loadCoefficients } from "./coefficients.ts";
 import { loadCumulants } from "./cumulants.ts";
+import { loadTrace } from "./trace/loadTrace.ts";
 import type { TableReader } from "./readCsv.ts";
 import { layoutSettings } from "./sources/layoutSettings.ts";
 import { readSourceTable } from "./sources/readSourceTable.ts";
@@ -18,7 +19,7 @@ export interface IngestOptions {
 /** Whole columns of a dataset's file through the source of its format; the format is kept for the record. */
 function sourceReader(dir: string, config: DatasetConfig, filePath: string, keyPath: string, format: { value: string | null }): TableReader {
   return async (requests) => {
-    const table = await readSourceTable({ filePath, label: config.file, auditDir: dir, keyPath, columns: requests, settings: layoutSettings(config) });
+    const table = await readSourceTable({ filePath, label: config.file, auditDir: dir, keyPath, columns: requests, settings: layoutSettings(config as Parameters<typeof layoutSettings>[0]) });
     format.value = table.format;
     return table;
   };
@@ -42,6 +43,9 @@ export async function ingestDefinition(dir: string, definition: AuditDefinition,
         break;
       case "cumulants":
         datasets.push({ ...(await loadCumulants(config, filePath, keyPath, sourceReader(dir, config, filePath, keyPath, format))), format: format.value! });
+        break;
+      case "trace":
+        datasets.push(...(await loadTrace(config, filePath, keyPath, dir)));
         break;
     }
   }

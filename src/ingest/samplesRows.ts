@@ -18,9 +18,15 @@ export interface SampleRoles {
   dE_A?: string;
   dE_B?: string;
   count?: string;
+  /** Particles gained by each lead, when the conductor can hold some (physics.md §4b). */
+  dN_A?: string;
+  dN_B?: string;
+  /** The conductor's state (an integer label) at the start and the end of the realisation. */
+  state_start?: string;
+  state_end?: string;
 }
 
-export const SAMPLE_ROLES = ["dE_A", "dE_B", "Q", "dN", "W", "count"] as const;
+export const SAMPLE_ROLES = ["dE_A", "dE_B", "Q", "dN", "W", "count", "dN_A", "dN_B", "state_start", "state_end"] as const;
 export type SampleRole = (typeof SAMPLE_ROLES)[number];
 
 /**

@@ -44,6 +44,49 @@ export interface SamplesDataset extends DatasetRecord {
    * realisations). Null when every row is kept as read.
    */
   reduction: SamplesReduction | null;
+  /**
+   * The conductor's state at the two ends of each realisation (roles state_start, state_end), with the
+   * stationary distribution used for the boundary term; absent or null without state columns. Then
+   * `sigma` is the total entropy production Σ_tot = Σ_res + ln p(x₀) − ln p(x_τ) (physics.md §4b).
+   */
+  states?: ConductorStates | null;
+  /** Particles gained by each lead (roles dN_A, dN_B), when the conductor can hold some; absent or null otherwise. */
+  leadParticles?: { A: Float64Array; B: Float64Array } | null;
+  /**
+   * Realisations that are consecutive windows cut from one trajectory (a `trace` dataset): intervals
+   * resample blocks of windows. Absent or null for independent realisations.
+   */
+  windows?: WindowBlocks | null;
+  /** What the trace's detection says about missed events (trace datasets), for the report. */
+  traceNotes?: string[];
+}
+
+/** The conductor's state at the ends of each realisation and its stationary distribution. */
+export interface ConductorStates {
+  /** State labels as written in the data, sorted. */
+  labels: number[];
+  /** Index into `labels` of each row's start and end state. */
+  start: Int32Array;
+  end: Int32Array;
+  /** Stationary probability of each label: estimated from the start states, or declared in audit.yaml. */
+  probability: number[];
+  source: "estimated" | "declared";
+  /** ln p(x₀) − ln p(x_τ) of each row. */
+  boundary: Float64Array;
+  /** The reservoirs' part Σ_res of each row (k_B). */
+  sigmaReservoirs: Float64Array;
+}
+
+/** Windows cut from one trajectory, grouped into blocks of consecutive windows for the block bootstrap. */
+export interface WindowBlocks {
+  /** Block index of each row (windows in time order). */
+  block: Int32Array;
+  blocks: number;
+  /** Windows per block, and the integrated autocorrelation time (in windows) it was chosen from. */
+  blockLength: number;
+  correlationWindows: number;
+  /** How the block length was chosen, for the report. */
+  rule: string;
 }
 
 /** How a large `samples` file was summarised into cells (src/ingest/reduce). */

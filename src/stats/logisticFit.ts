@@ -54,6 +54,12 @@ const ILL_CONDITIONED =
 
 export interface LogisticOptions {
   maxIterations?: number;
+  /**
+   * A known term added to θ·z in every row, with coefficient 1 (an offset, McCullagh & Nelder 1989, §4.3):
+   * ln P(z, o)/P(−z, −o) = θ·z + o. Counted data through a conductor use it for the boundary term
+   * ln p(x₀) − ln p(x_τ) of Seifert's total entropy production.
+   */
+  offset?: ArrayLike<number>;
 }
 
 function rms(x: ArrayLike<number>, weight: ArrayLike<number> | null): number {
@@ -67,8 +73,9 @@ function rms(x: ArrayLike<number>, weight: ArrayLike<number> | null): number {
   return Math.sqrt(s / w);
 }
 
-function linearPredictor(features: ArrayLike<number>[], scales: number[], beta: number[], out: Float64Array): void {
-  out.fill(0);
+function linearPredictor(features: ArrayLike<number>[], scales: number[], beta: number[], out: Float64Array, offset?: ArrayLike<number>): void {
+  if (offset) out.set(offset);
+  else out.fill(0);
   for (let j = 0; j < features.length; j++) {
     const f = features[j];
     const b = beta[j] / scales[j];
@@ -177,6 +184,7 @@ export function fitExchangeLogistic(features: ArrayLike<number>[], weight: Array
   if (p > 1 && columnDependence(features, weight).dependent.length > 0) return failed("degenerate", p, DEPENDENT, eta, scales, 0, 0, 0);
 
   let beta = new Array<number>(p).fill(0);
+  if (options.offset) eta.set(options.offset);
   let ll = logLikelihood(eta, weight);
   const trial = new Float64Array(n);
   for (let it = 1; it <= maxIterations; it++) {
@@ -193,7 +201,7 @@ export function fitExchangeLogistic(features: ArrayLike<number>[], weight: Array
     if (decrement / 2 < CONVERGED) {
       // Inside the quadratic basin: take the last full Newton step, which squares the remaining error.
       const last = beta.map((b, j) => b + step[j]);
-      linearPredictor(features, scales, last, trial);
+      linearPredictor(features, scales, last, trial, options.offset);
       const llLast = logLikelihood(trial, weight);
       if (llLast >= ll) {
         eta.set(trial);
@@ -207,7 +215,7 @@ export function fitExchangeLogistic(features: ArrayLike<number>[], weight: Array
     let llNext = -Infinity;
     for (let k = 0; k < 40; k++) {
       next = beta.map((b, j) => b + t * step[j]);
-      linearPredictor(features, scales, next, trial);
+      linearPredictor(features, scales, next, trial, options.offset);
       llNext = logLikelihood(trial, weight);
       if (llNext >= ll + 1e-4 * t * decrement) break;
       t /= 2;

@@ -7,6 +7,10 @@ import { gillespieDotTransfers } from "./gillespie.ts";
 import { parseParameters, type SynthParameter } from "./parameters.ts";
 import { betaPerMeV } from "./units.ts";
 import { rngFromText } from "../stats/rng.ts";
+import { InputError } from "../errors.ts";
+import { countingSynthAudit } from "./countingAudit.ts";
+import { cycleAffinity, dotModel } from "./dotModels.ts";
+import type { ParameterValues } from "./parameters.ts";
 
 export const DOT_REFERENCES = [
   "Gillespie, J. Comput. Phys. 22, 403 (1976): exact stochastic simulation of jump processes",
@@ -28,12 +32,22 @@ export const DOT_PARAMETERS: SynthParameter[] = [
     name: "start",
     unit: "",
     description:
-      "state of the dot when counting starts: stationary (the steady state of both leads) or equilibrium-a (in equilibrium with lead A, which makes the exchange relation exact at every counting time)",
+      "state of the dot when counting starts: stationary (windows of one stationary trajectory, written with the dot's state at both ends, which makes the relations for the total entropy production exact at every counting time) or equilibrium-a (independent runs in equilibrium with lead A first, which makes the exchange relation for the leads alone exact)",
     default: "stationary",
     type: "choice",
     choices: ["stationary", "equilibrium-a"],
   },
-  { name: "samples", unit: "trajectories", description: "number of simulated trajectories", default: "100000", type: "integer", min: 1 },
+  {
+    name: "detector-heating",
+    unit: "K",
+    description:
+      "temperature of a bath (a heating charge detector) that drives the transitions between the dot and lead A in place of lead A's electrons; audit.yaml still declares lead A's temperature, so the audit sees the back-action (stationary start only; none when not given)",
+    default: "",
+    type: "number",
+    min: 0,
+    minExclusive: true,
+  },
+  { name: "samples", unit: "trajectories", description: "number of simulated trajectories (windows of one trajectory for a stationary start)", default: "40000", type: "integer", min: 1 },
   { name: "seed", unit: "", description: "text that seeds the random numbers (same seed, same data)", default: "dot", type: "text" },
 ];
 
@@ -54,6 +68,8 @@ export function synthDot(raw: Record<string, string | undefined>): SynthAudit {
   };
   const rates = dotRates(params);
   const start = v.start as string;
+  if (start === "stationary") return stationaryDot(v, params);
+  if (v["detector-heating"] !== undefined) throw new InputError("--detector-heating: needs --start stationary (the back-action is a property of the steady state)");
   const p0 = start === "stationary" ? stationaryOccupation(rates) : fermiOccupation(params.level, params.beta.A, params.mu.A);
   const tau = v.tau as number; // ns, rates in 1/ns
   const samples = v.samples as number;
@@ -132,4 +148,50 @@ checks: all
     },
     summary: `${samples} trajectories in ${ns.length} histogram rows; exact ⟨dN⟩ = ${mean.toPrecision(4)}, affinity per electron ${affinity.toPrecision(4)}`,
   };
+}
+
+/**
+ * Stationary start: windows of one stationary trajectory with the dot's occupation at both ends, so that
+ * Σ_tot = Σ_res + ln p(x₀) − ln p(x_τ) obeys the exact relations at every τ (Seifert, PRL 95, 040602 (2005)).
+ * With --detector-heating the A transitions follow a bath at that temperature while audit.yaml declares T_A:
+ * the true affinity per electron is then β_B(ε − μ_B) − β_heat(ε − μ_A), and lead A's effective temperature
+ * is exactly the bath's.
+ */
+function stationaryDot(v: ParameterValues, params: DotParameters): SynthAudit {
+  const heatingK = v["detector-heating"] as number | undefined;
+  const heatingBeta = heatingK === undefined ? null : betaPerMeV(heatingK);
+  const dynamics = dotModel({ ...params, heatingBeta });
+  const eps = params.level;
+  const declaredAffinity = affinityPerElectron(params);
+  const trueAffinity = cycleAffinity(eps, eps, heatingBeta ?? params.beta.A, params.beta.B, params.mu.A, params.mu.B, null);
+  const tau = v.tau as number;
+  const heated = heatingK !== undefined;
+  const description = `Simulated electron counting through a single spinless level at ${eps} meV between leads A and B
+(tunnelling rates ${params.rateA} and ${params.rateB} per ns, sequential tunnelling with Fermi-function rates): windows of
+${tau} ns cut from one stationary trajectory simulated by Gillespie's algorithm (J. Comput. Phys. 22, 403 (1976)), ten
+relaxation times apart. Each row gives the particles and energy each lead gained in a window, the dot's occupation at the
+window's start and end, and how many windows did so. With the occupations, the total entropy production
+Σ_tot = Σ_res + ln p(x₀) − ln p(x_τ) obeys the detailed and integral relations exactly at every counting time (Seifert,
+PRL 95, 040602 (2005)). ${heated ? `A heating charge detector drives the transitions between the dot and lead A as a bath at ${heatingK} K, while the audit declares lead A at ${v["temperature-a"]} K: the relations must fail, and the effective temperature of lead A is ${heatingK} K.` : ""}
+\`data/trace.csv\` holds the trajectory (time in ns, occupation after each jump); \`data/expected.json\` the exact joint law.
+`;
+  return countingSynthAudit({
+    model: "dot",
+    dynamics,
+    charge: [0, 1],
+    levelIn: eps,
+    levelOut: eps,
+    leads: { TA: v["temperature-a"] as number, TB: v["temperature-b"] as number, betaA: params.beta.A, betaB: params.beta.B, muA: params.mu.A, muB: params.mu.B },
+    trueAffinity,
+    declaredAffinity,
+    effectiveTemperatureA: heatingK ?? null,
+    tau,
+    samples: v.samples as number,
+    seed: String(v.seed),
+    parameters: v,
+    references: DOT_REFERENCES,
+    title: heated ? "Simulated electron counting through a single-level dot with detector back-action" : "Simulated electron counting through a single-level dot",
+    description,
+    keywords: ["simulation", "quantum dot", "sequential tunnelling", "full counting statistics", "steady state"],
+  });
 }

@@ -30,6 +30,8 @@ export function parseParameters(table: SynthParameter[], raw: Record<string, str
   const out: ParameterValues = {};
   for (const p of table) {
     const text = raw[p.name] ?? p.default;
+    // An optional number (default "") that was not given stays absent.
+    if (p.type === "number" && p.default === "" && raw[p.name] === undefined) continue;
     if (p.type === "text") {
       if (text.trim() === "") fail(p.name, "must not be empty");
       out[p.name] = text;

@@ -60,7 +60,7 @@ describe("parseAuditDefinition", () => {
 
   it("reports an unknown dataset kind", () => {
     expect(messageOf(valid.replace("kind: samples", "kind: histogram"))).toBe(
-      'audit.yaml:7 datasets[0].kind: kind must be one of samples, coefficients, cumulants, found "histogram"',
+      'audit.yaml:7 datasets[0].kind: kind must be one of samples, coefficients, cumulants, trace, found "histogram"',
     );
   });
 

@@ -3,7 +3,7 @@ import os from "node:os";
 import path from "node:path";
 import { describe, expect, it } from "vitest";
 import { runAudit } from "../../src/report/runAudit.ts";
-import { synthDot, synthFermions, synthTilted, writeAuditFolder, type SynthAudit } from "../../src/synth/index.ts";
+import { synthDot, synthDoubleDot, synthFermions, synthTilted, writeAuditFolder, type SynthAudit } from "../../src/synth/index.ts";
 
 async function audited(audit: SynthAudit) {
   const dir = fs.mkdtempSync(path.join(os.tmpdir(), "ta-synth-"));
@@ -43,9 +43,22 @@ describe("synth outputs audited as written", () => {
     expect(status("exchange-fluctuation")).not.toBe("fail");
   });
 
-  it("dot from the stationary state passes the second law (its finite-time exchange relation is only asymptotic)", async () => {
-    const { status } = await audited(synthDot({ samples: "30000" }));
-    expect(status("second-law")).toBe("pass");
+  it("dot from the stationary state, written with its occupation at both ends, passes the exact relations for Σ_tot", async () => {
+    // Seifert, PRL 95, 040602 (2005): Σ_tot = Σ_res + ln p(x₀) − ln p(x_τ) obeys the detailed and integral relations at every τ.
+    const { status } = await audited(synthDot({}));
+    for (const check of ["exchange-fluctuation", "integral-fluctuation", "weighted-identity", "second-law"]) expect([check, status(check)]).toEqual([check, "pass"]);
+  });
+
+  it("dot with a heating detector on lead A's transitions fails the exchange, integral and weighted relations", async () => {
+    const { status } = await audited(synthDot({ "detector-heating": "2.5" }));
+    for (const check of ["exchange-fluctuation", "integral-fluctuation", "weighted-identity"]) expect([check, status(check)]).toEqual([check, "fail"]);
+  });
+
+  it("serial double dot with its charge states passes the exact relations; with a heating detector on the inter-dot jumps it fails them", async () => {
+    const { status } = await audited(synthDoubleDot({}));
+    for (const check of ["exchange-fluctuation", "integral-fluctuation", "weighted-identity", "second-law"]) expect([check, status(check)]).toEqual([check, "pass"]);
+    const heated = await audited(synthDoubleDot({ "detector-heating": "3" }));
+    for (const check of ["exchange-fluctuation", "integral-fluctuation", "weighted-identity"]) expect([check, heated.status(check)]).toEqual([check, "fail"]);
   });
 
   it("tilted at the declared temperatures passes the fluctuation checks", async () => {

@@ -3,13 +3,14 @@ import os from "node:os";
 import path from "node:path";
 import { describe, expect, it } from "vitest";
 import { cli } from "../helpers/cliInProcess.ts";
-import { DOT_PARAMETERS, FERMION_PARAMETERS, TILTED_PARAMETERS } from "../../src/synth/index.ts";
+import { DOT_PARAMETERS, DOUBLE_DOT_PARAMETERS, FERMION_PARAMETERS, TILTED_PARAMETERS } from "../../src/synth/index.ts";
 import { parseParameters } from "../../src/synth/parameters.ts";
 
 describe("transport-audit synth (contract: audit-format.md)", () => {
   for (const [model, table] of [
     ["fermions", FERMION_PARAMETERS],
     ["dot", DOT_PARAMETERS],
+    ["double-dot", DOUBLE_DOT_PARAMETERS],
     ["tilted", TILTED_PARAMETERS],
   ] as const) {
     it(`synth ${model} --help lists every parameter with its unit and default`, async () => {
@@ -29,9 +30,10 @@ describe("transport-audit synth (contract: audit-format.md)", () => {
     const dir = fs.mkdtempSync(path.join(os.tmpdir(), "ta-synth-cli-"));
     const r = await cli(["synth", "dot", "--out", dir, "--samples", "2000"]);
     expect(r.code).toBe(0);
-    expect(fs.readdirSync(path.join(dir, "data")).sort()).toEqual(["dot.csv", "expected.json"]);
+    expect(fs.readdirSync(path.join(dir, "data")).sort()).toEqual(["dot.csv", "expected.json", "trace.csv"]);
     const expected = JSON.parse(fs.readFileSync(path.join(dir, "data", "expected.json"), "utf8"));
-    const total = expected.dN_distribution.probability.reduce((s: number, p: number) => s + p, 0);
+    let total = 0;
+    for (const cell of expected.joint_distribution) total += cell.probability.reduce((s: number, p: number) => s + p, 0);
     expect(Math.abs(total - 1)).toBeLessThan(1e-12);
     const run = await cli(["run", dir, "--json"]);
     expect([0, 1]).toContain(run.code);

@@ -12,6 +12,8 @@ import { binnedLogRatio, type LogRatio } from "./binnedLogRatio.ts";
 import { jointHistogramPlot, logRatioPlot, mirrorHistogramPlot } from "./plots.ts";
 import { mirrorSymmetryResult } from "./mirrorSymmetry.ts";
 import { marginOption, countOption } from "../options.ts";
+import { countingAssumptions, countingOffset, countingSources } from "../resamplingUnits.ts";
+import { withCountingCovariance } from "../countingCovariance.ts";
 
 /** Fewer negative-Σ realisations than this cannot pin the slope (the rare side carries the information). */
 export const MIN_NEGATIVE = 20;
@@ -153,7 +155,7 @@ function cubed(x: Float64Array): Float64Array {
 }
 
 function base(d: SamplesDataset): Pick<CheckResult, "check" | "dataset" | "references" | "equations"> {
-  return { check: "exchange-fluctuation", dataset: d.id, references: REFERENCES, equations: EQUATIONS };
+  return { check: "exchange-fluctuation", dataset: d.id, ...countingSources(d, EQUATIONS, REFERENCES) };
 }
 
 export function assumptionsFor(d: SamplesDataset): string[] {
@@ -165,7 +167,7 @@ export function assumptionsFor(d: SamplesDataset): string[] {
   ];
   out.push(d.config.work === "zero" ? "The switching work is declared zero (W = 0 in every realisation)." : "The switching work W is measured and enters Σ.");
   if (!d.hasParticleColumn) out.push("No particle-number column: no particles are exchanged (ΔN = 0).");
-  return out;
+  return countingAssumptions(d, out);
 }
 
 function notApplicable(d: SamplesDataset, reason: string): CheckResult {
@@ -205,7 +207,7 @@ export function exchangeFluctuationForDataset(d: SamplesDataset, ctx: CheckConte
   if (negative + positive === 0) return mirrorSymmetryResult(d, ctx.settings, margin, assumptionsFor(d));
 
   // (1) Contracted relation: slope c of ln P(Σ)/P(−Σ), fitted without bins.
-  const contracted: LogisticFit = fitExchangeLogistic([sigma], weight);
+  const contracted: LogisticFit = withCountingCovariance(d, fitExchangeLogistic([sigma], weight), [sigma], "features");
   const slopeOk = contracted.status === "converged";
   const slope = slopeOk ? contracted.coefficients[0] : Number.NaN;
   const slopeSe = slopeOk ? contracted.standardErrors[0] : Number.NaN;
@@ -216,7 +218,9 @@ export function exchangeFluctuationForDataset(d: SamplesDataset, ctx: CheckConte
   // (2) Joint relation: the coefficients of (W, Q, ΔN), or the combinations of them the data identify.
   const channels = channelsOf(d);
   const ident = identifiableJoint(d, channels, weight);
-  const joint = ident.basis.length ? fitExchangeLogistic(ident.basis.map((c) => c.feature), weight) : null;
+  // Counted data through a conductor: the part of Σ_tot no channel carries (boundary term) enters as an offset.
+  const offset = countingOffset(d, channels);
+  const joint = ident.basis.length ? withCountingCovariance(d, fitExchangeLogistic(ident.basis.map((c) => c.feature), weight, offset ? { offset } : {}), ident.basis.map((c) => c.feature), "offset") : null;
   const jointOk = joint?.status === "converged";
   const fitted: FittedAffinities = { beta_bar: null, a_Q: null, a_N: null };
   const fittedSe: Record<string, number | null> = Object.fromEntries(channels.map((c) => [c.key, null]));

@@ -8,6 +8,7 @@ import { sigmaVanishesIdentically, trivialAtEquilibrium } from "../equilibriumGu
 import type { CheckContext, CheckDefinition, CheckResult, Status } from "../types.ts";
 import type { PlotSpec } from "../plotSpec.ts";
 import type { Rng } from "../../stats/rng.ts";
+import { countingAssumptions, countingSources, resamplingUnits } from "../resamplingUnits.ts";
 
 export const MIN_REALISATIONS = 30;
 
@@ -143,7 +144,9 @@ export function integralFluctuationForDataset(d: SamplesDataset, ctx: CheckConte
   const shift = maxExp > MAX_EXPONENT ? maxExp - MAX_EXPONENT : 0;
   const u = new Float64Array(sigma.length);
   for (let i = 0; i < sigma.length; i++) u[i] = Math.exp(-sigma[i] - shift);
-  const boot = bootstrapRatio(u, null, d.weight, ctx.rngFor(d.sha256, "exp-average"), { resamples: ctx.settings.resamples });
+  // With conductor states, u depends on p̂ through the boundary term: ∂u/∂b = −u.
+  const units = resamplingUnits(d, u, d.states ? u.map((x) => -x) : null);
+  const boot = bootstrapRatio(units.u, units.v, units.weight, ctx.rngFor(d.sha256, "exp-average"), { resamples: ctx.settings.resamples });
   const scale = Math.exp(shift);
   const mean = boot.estimate * scale;
   const ciScaled = bcaInterval(boot, confidence);
@@ -205,15 +208,14 @@ export function integralFluctuationForDataset(d: SamplesDataset, ctx: CheckConte
       realisations: n,
     },
     criteria: { alpha, margin, confidence },
-    assumptions: [
+    assumptions: countingAssumptions(d, [
       "Both reservoirs start in independent grand-canonical states at the declared temperatures and chemical potentials.",
       "Energies and particle numbers are two-point measurements of the isolated reservoirs.",
       "Realisations are independent and identically prepared.",
       "The integral relation holds with or without a magnetic field: it needs the forward process only.",
       d.config.work === "zero" ? "The switching work is declared zero (W = 0 in every realisation)." : "The switching work W is measured and enters Σ.",
-    ],
-    references: REFERENCES,
-    equations: EQUATIONS,
+    ]),
+    ...countingSources(d, EQUATIONS, REFERENCES),
     tables: [],
     plots: [runningEstimatePlot(d, shift, z, confidence, ctx.rngFor(d.sha256, "running-order"), mean)],
   };
@@ -279,13 +281,12 @@ function overflowingAverage(
       realisations: n,
     },
     criteria: { alpha, margin, confidence },
-    assumptions: [
+    assumptions: countingAssumptions(d, [
       "Both reservoirs start in independent grand-canonical states at the declared temperatures and chemical potentials.",
       "Realisations are independent and identically prepared.",
       d.config.work === "zero" ? "The switching work is declared zero (W = 0 in every realisation)." : "The switching work W is measured and enters Σ.",
-    ],
-    references: REFERENCES,
-    equations: EQUATIONS,
+    ]),
+    ...countingSources(d, EQUATIONS, REFERENCES),
     tables: [],
     plots: [],
   };

@@ -6,6 +6,7 @@ import { fmt, numberOption, perDataset } from "../helpers.ts";
 import { sigmaVanishesIdentically, trivialAtEquilibrium } from "../equilibriumGuard.ts";
 import type { CheckContext, CheckDefinition, CheckResult, Status } from "../types.ts";
 import type { PlotSpec } from "../plotSpec.ts";
+import { countingAssumptions, countingSources, unitMean } from "../resamplingUnits.ts";
 
 /** Fewer realisations than this cannot support a normal-theory bound on the mean. */
 export const MIN_REALISATIONS = 30;
@@ -88,7 +89,9 @@ export function secondLawForDataset(d: SamplesDataset, ctx: CheckContext): Check
   if (sigmaVanishesIdentically(d)) return trivialAtEquilibrium("second-law", d, EQUATIONS, REFERENCES);
   const { alpha, confidence } = ctx.settings;
   const margin = numberOption(ctx, "margin", ctx.settings.margin, (v) => v > 0);
-  const m = weightedMoments(d.sigma, d.weight);
+  const plain = weightedMoments(d.sigma, d.weight);
+  // Counted data: the estimated p's uncertainty (∂Σ/∂b = 1) and the block structure of windows enter the standard error.
+  const m = d.states || d.windows ? { ...plain, standardError: unitMean(d, d.sigma, d.states ? new Float64Array(d.sigma.length).fill(1) : null).standardError } : plain;
   const z = normalQuantile(confidence);
   const lower = m.mean - z * m.standardError;
   const decision = decideSecondLaw(m.n, m.mean, m.standardError, alpha, confidence, margin);
@@ -121,9 +124,8 @@ export function secondLawForDataset(d: SamplesDataset, ctx: CheckContext): Check
       contributions: { beta_bar_W: work.mean, a_Q_Q: heat.mean, a_N_dN: particles.mean },
     },
     criteria: { alpha, margin, confidence },
-    assumptions,
-    references: REFERENCES,
-    equations: EQUATIONS,
+    assumptions: countingAssumptions(d, assumptions),
+    ...countingSources(d, EQUATIONS, REFERENCES),
     tables: [
       {
         id: "contributions",
@@ -137,12 +139,25 @@ export function secondLawForDataset(d: SamplesDataset, ctx: CheckContext): Check
           { channel: "work  β̄⟨W⟩", mean: work.mean, se: work.standardError },
           { channel: "heat  a_Q⟨Q⟩", mean: heat.mean, se: heat.standardError },
           { channel: "particles  a_N⟨ΔN⟩", mean: particles.mean, se: particles.standardError },
+          ...(d.states ? stateRows(d) : []),
           { channel: "total  ⟨Σ⟩", mean: m.mean, se: m.standardError },
         ],
       },
     ],
     plots: [sigmaHistogramPlot(d)],
   };
+}
+
+/** With the conductor's states: the rest of Σ_res (particles the conductor keeps) and the boundary term, each with its mean. */
+function stateRows(d: SamplesDataset): { channel: string; mean: number; se: number }[] {
+  const states = d.states!;
+  const a = d.affinity;
+  const rest = weightedMeanOf(d.sigma.length, (i) => states.sigmaReservoirs[i] - a.beta_bar * d.W[i] - a.a_Q * d.Q[i] - a.a_N * d.dN[i], d.weight);
+  const boundary = weightedMeanOf(d.sigma.length, (i) => states.boundary[i], d.weight);
+  return [
+    { channel: "particles kept by the conductor", mean: rest.mean, se: rest.standardError },
+    { channel: "boundary  ln p(x₀) − ln p(x_τ)", mean: boundary.mean, se: boundary.standardError },
+  ];
 }
 
 export const secondLaw: CheckDefinition = {

@@ -6,6 +6,7 @@ import { holm } from "../../stats/holm.ts";
 import { resolveSentence } from "../../stats/sampleSize.ts";
 import { fmt, fmtInterval, numberOption, perDataset } from "../helpers.ts";
 import type { CheckContext, CheckDefinition, CheckResult, Status, TableSpec } from "../types.ts";
+import { countingAssumptions, countingSources, resamplingUnits } from "../resamplingUnits.ts";
 
 /**
  * The weighted identity ⟨x (e^{−β̄W} + e^{−a·x})⟩ = 0 for each current x in
@@ -41,7 +42,8 @@ export function weightedIdentityForDataset(d: SamplesDataset, ctx: CheckContext)
     "Realisations are independent and identically prepared.",
     d.config.work === "zero" ? "The switching work is declared zero (W = 0, so the identity reads ⟨x(1 + e^{−a·x})⟩ = 0)." : "The switching work W is measured.",
   ];
-  const base = { check: "weighted-identity" as const, dataset: d.id, references: refs, equations, assumptions };
+  // With the conductor's states, a·x stands for Σ_tot − β̄W: the boundary term travels with the currents.
+  const base = { check: "weighted-identity" as const, dataset: d.id, ...countingSources(d, equations, refs), assumptions: countingAssumptions(d, assumptions) };
   const field = d.config.field ?? 0;
   if (field !== 0) {
     const reason = `the dataset was taken at a magnetic field of ${fmt(field)} T; the identity follows from the detailed relation, which pairs B with −B (Saito & Utsumi 2008), so one dataset cannot test it.`;
@@ -91,11 +93,19 @@ export function weightedIdentityForDataset(d: SamplesDataset, ctx: CheckContext)
     for (let i = 0; i < n; i++) scaleX = Math.max(scaleX, Math.abs(c.x[i]));
     const u = new Float64Array(n);
     const v = new Float64Array(n);
+    // With conductor states the boundary term b sits in a·x: ∂g/∂b = −e^{−a·x}, carried by resamplingUnits.
+    const du = d.states ? new Float64Array(n) : null;
+    const dv = d.states ? new Float64Array(n) : null;
     for (let i = 0; i < n; i++) {
       u[i] = (c.x[i] / scaleX) * g[i];
       v[i] = Math.abs(u[i]);
+      if (du && dv) {
+        du[i] = -(c.x[i] / scaleX) * Math.exp(ax[i] - shift);
+        dv[i] = Math.sign(u[i]) * du[i];
+      }
     }
-    const boot = bootstrapRatio(u, v, d.weight, ctx.rngFor(d.sha256, `weighted-identity-${c.key}`), { resamples: ctx.settings.resamples });
+    const units = resamplingUnits(d, u, du, v, dv);
+    const boot = bootstrapRatio(units.u, units.v, units.weight, ctx.rngFor(d.sha256, `weighted-identity-${c.key}`), { resamples: ctx.settings.resamples });
     return { current: c, ratio: boot.estimate, ci: bcaInterval(boot, confidence), p: bcaPValue(boot, 0), sameAs: null as null | { key: Current["key"]; factor: number } };
   });
   // A p-value the bootstrap could not form (resamples with no weighted realisation give 0/0) rejects nothing;

@@ -132,7 +132,10 @@ export function workForDataset(d: SamplesDataset, ctx: CheckContext): CheckResul
       status: "info",
       summary: applies
         ? "The measured work is zero in every realisation: the Onsager derivation without work applies."
-        : `Work is done by switching the contact: ${stats}; correlation with Q ${corrQ === null ? "undefined" : fmt(corrQ, 3)}${corrN !== null ? `, with ΔN ${fmt(corrN, 3)}` : ""}. The fluctuation–dissipation form without work does not apply; use the weighted flux and report the spontaneous part.`,
+        : d.states || d.leadParticles
+          ? // Counted through a conductor, ΔE_A + ΔE_B is the energy the conductor (or a bath the leads do not see) gave the leads, not switching work.
+            `The leads' total energy change ΔE_A + ΔE_B is not zero: ${stats}. Counted through a conductor, it is the energy the conductor kept or gave back between the window's ends (and any energy a bath the leads do not see supplied), not work done by switching a contact; it enters Σ through the leads' energies.`
+          : `Work is done by switching the contact: ${stats}; correlation with Q ${corrQ === null ? "undefined" : fmt(corrQ, 3)}${corrN !== null ? `, with ΔN ${fmt(corrN, 3)}` : ""}. The fluctuation–dissipation form without work does not apply; use the weighted flux and report the spontaneous part.`,
       values,
       criteria: { alpha, confidence },
     };

@@ -1,5 +1,5 @@
 import { Command, Option } from "commander";
-import { DOT_PARAMETERS, FERMION_PARAMETERS, TILTED_PARAMETERS, synthDot, synthFermions, synthTilted, writeAuditFolder } from "../../synth/index.ts";
+import { DOT_PARAMETERS, DOUBLE_DOT_PARAMETERS, FERMION_PARAMETERS, TILTED_PARAMETERS, synthDot, synthDoubleDot, synthFermions, synthTilted, writeAuditFolder } from "../../synth/index.ts";
 import type { SynthAudit, SynthParameter } from "../../synth/index.ts";
 import { progressBar } from "../progress.ts";
 import { EXIT } from "../exit.ts";
@@ -28,6 +28,11 @@ const MODELS: Record<string, ModelEntry> = {
     description: "a single-level quantum dot between two leads (sequential tunnelling); Gillespie trajectories and the exact counting distribution",
     parameters: DOT_PARAMETERS,
     run: async (values) => synthDot(values),
+  },
+  "double-dot": {
+    description: "a serial double dot between two leads, counted in both directions by a charge detector; windows of one stationary trajectory with the charge states and the exact counting law",
+    parameters: DOUBLE_DOT_PARAMETERS,
+    run: async (values) => synthDoubleDot(values),
   },
   tilted: {
     description: "the exactly tilted family of exchange statistics, optionally drawn at other temperatures than declared",

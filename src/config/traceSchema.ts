@@ -1,0 +1,70 @@
+import { z } from "zod";
+import { datasetId, finite, positive, relativeFile, text } from "./common.ts";
+import { ENERGY_UNITS, stateDistributionSchema } from "./samplesSchema.ts";
+
+/**
+ * A `trace` dataset: the conductor's state against time, from which windows of
+ * several lengths are cut. Either the detected transitions (`signal:
+ * transitions`, columns time and state: the state after each jump, the first
+ * row the state at the start) or a sampled detector signal (`signal: level`,
+ * columns time and level) turned into transitions by two thresholds with
+ * hysteresis. `transitions` maps each jump (from → to) to what each lead gains.
+ */
+export const TIME_UNITS = ["s", "ms", "us", "µs", "ns", "ps"] as const;
+
+const reservoirSchema = z
+  .object({
+    T: positive("kelvin").optional(),
+    beta: positive("inverse energy units").optional(),
+    mu: finite("energy units").default(0),
+  })
+  .strict()
+  .refine((r) => (r.T === undefined) !== (r.beta === undefined), { message: "must give exactly one of T (kelvin) or beta (per energy unit)" });
+
+const stateLabel = z.number({ required_error: "is required", invalid_type_error: "must be an integer state label" }).int("must be an integer state label");
+
+const transitionSchema = z
+  .object({
+    from: stateLabel,
+    to: stateLabel,
+    dN_A: finite("particles").default(0),
+    dN_B: finite("particles").default(0),
+    dE_A: finite("energy units").default(0),
+    dE_B: finite("energy units").default(0),
+  })
+  .strict();
+
+const thresholdsSchema = z
+  .object({
+    low: finite("signal units"),
+    high: finite("signal units"),
+    /** The state below `low` and the state above `high`. */
+    states: z.tuple([stateLabel, stateLabel], { errorMap: () => ({ message: "must list two state labels: the state below low, then the state above high" }) }),
+  })
+  .strict()
+  .refine((t) => t.high > t.low, { message: "high must be above low (the band between them is the hysteresis)" });
+
+export const traceDatasetSchema = z
+  .object({
+    id: datasetId,
+    kind: z.literal("trace"),
+    file: relativeFile,
+    description: z.string().optional(),
+    signal: z.enum(["transitions", "level"], { errorMap: () => ({ message: "must be transitions (time, state after each jump) or level (a sampled detector signal)" }) }),
+    columns: z.object({ time: text("a column name"), state: text("a column name").optional(), level: text("a column name").optional() }).strict(),
+    time_unit: z.enum(TIME_UNITS, { errorMap: () => ({ message: `must be one of ${TIME_UNITS.join(", ")}` }) }),
+    /** Window lengths in time_unit. */
+    windows: z.array(positive("time units")).min(1, "must list at least one window length"),
+    thresholds: thresholdsSchema.optional(),
+    /** Detector bandwidth in Hz: dwell times shorter than 1/bandwidth are at risk of being missed. */
+    bandwidth: positive("hertz").optional(),
+    energy_unit: z.enum(ENERGY_UNITS, { errorMap: () => ({ message: `must be one of ${ENERGY_UNITS.join(", ")}` }) }),
+    reference_temperature: positive("kelvin").optional(),
+    reservoirs: z.object({ A: reservoirSchema, B: reservoirSchema }).strict(),
+    transitions: z.array(transitionSchema).min(1, "must map at least one transition"),
+    state_distribution: stateDistributionSchema.optional(),
+    series: text().optional(),
+  })
+  .strict();
+
+export type TraceDatasetConfig = z.output<typeof traceDatasetSchema>;

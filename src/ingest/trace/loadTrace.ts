@@ -1,0 +1,113 @@
+import { DataError } from "../../errors.ts";
+import type { SamplesDatasetConfig, TraceDatasetConfig } from "../../config/types.ts";
+import { readSourceTable } from "../sources/readSourceTable.ts";
+import { layoutSettings } from "../sources/layoutSettings.ts";
+import { samplesFromColumns } from "../samples.ts";
+import type { SamplesDataset } from "../types.ts";
+import { blockLengthFor } from "./blockLength.ts";
+import { cutWindows } from "./cutWindows.ts";
+import { detectionStatistics } from "./detectionStatistics.ts";
+import { detectTransitions } from "./hysteresis.ts";
+import { mapJumps } from "./transitionMap.ts";
+
+const SECONDS: Record<TraceDatasetConfig["time_unit"], number> = { s: 1, ms: 1e-3, us: 1e-6, "µs": 1e-6, ns: 1e-9, ps: 1e-12 };
+
+/**
+ * A `trace` dataset: the conductor's state against time, cut into windows of
+ * each declared length; one samples dataset per length (sharing the series
+ * named by `series`, or the trace's id), with the states at both ends of every
+ * window and blocks of consecutive windows for the block bootstrap.
+ */
+export async function loadTrace(config: TraceDatasetConfig, filePath: string, keyPath: string, auditDir: string): Promise<SamplesDataset[]> {
+  const where = `audit.yaml ${keyPath}`;
+  const valueColumn = config.signal === "transitions" ? config.columns.state : config.columns.level;
+  if (valueColumn === undefined) {
+    throw new DataError(`${where}.columns: signal ${config.signal} needs the ${config.signal === "transitions" ? "state" : "level"} column mapped`);
+  }
+  if (config.signal === "level" && !config.thresholds) {
+    throw new DataError(`${where}.thresholds: signal level needs two thresholds (low, high) and the states below and above them`);
+  }
+  // Any format the tool reads (text, Parquet, …) through the shared source readers.
+  const table = await readSourceTable({
+    filePath,
+    label: config.file,
+    auditDir,
+    keyPath,
+    columns: [
+      { role: "time", column: config.columns.time },
+      { role: config.signal === "transitions" ? "state" : "level", column: valueColumn },
+    ],
+    settings: layoutSettings({}),
+  });
+  const lineOf = (i: number) => (table.located === "line" ? `line ${table.lineOfRow[i]}` : `row ${table.lineOfRow[i]}`);
+  const scale = SECONDS[config.time_unit];
+  const rawTime = table.columns.get(config.columns.time)!;
+  const rawValue = table.columns.get(valueColumn)!;
+  for (let i = 1; i < table.rows; i++) {
+    if (rawTime[i] < rawTime[i - 1]) {
+      throw new DataError(`${config.file}, ${lineOf(i)}, column "${config.columns.time}": time ${rawTime[i]} comes before the previous row's ${rawTime[i - 1]}; a trace lists its rows in time order`);
+    }
+  }
+  let times: Float64Array;
+  let states: Int32Array;
+  let rowOf: (i: number) => string;
+  let origin: string;
+  if (config.signal === "transitions") {
+    for (let i = 0; i < table.rows; i++) {
+      if (!Number.isInteger(rawValue[i])) throw new DataError(`${config.file}, ${lineOf(i)}, column "${valueColumn}": expected an integer state label, found ${rawValue[i]}`);
+    }
+    times = Float64Array.from(rawTime, (t) => t * scale);
+    states = Int32Array.from(rawValue);
+    rowOf = lineOf;
+    origin = `${table.rows} rows of detected states`;
+  } else {
+    const th = config.thresholds!;
+    const detected = detectTransitions(rawTime, rawValue, th.low, th.high, th.states[0], th.states[1]);
+    times = Float64Array.from(detected.times, (t) => t * scale);
+    states = detected.states;
+    rowOf = (i) => lineOf(detected.sampleOf[i]);
+    origin = `${table.rows} samples of the detector signal, turned into ${Math.max(0, states.length - 1)} jumps by the thresholds ${th.low} (below: state ${th.states[0]}) and ${th.high} (above: state ${th.states[1]}) with hysteresis`;
+  }
+  if (times.length < 2) throw new DataError(`${config.file}: the trace holds ${times.length} known state${times.length === 1 ? "" : "s"}; at least a start and one more row are needed to cut windows`);
+  const jumps = mapJumps(config, states, rowOf, where);
+  const detection = detectionStatistics(times, states, config.bandwidth ?? null, origin);
+  const series = config.series ?? config.id;
+  const out: SamplesDataset[] = [];
+  for (const [k, length] of config.windows.entries()) {
+    const tau = length * scale;
+    const w = cutWindows(times, states, jumps, tau);
+    const n = w.start.length;
+    if (n < 2) {
+      throw new DataError(`${where}.windows[${k}]: ${length} ${config.time_unit} leaves ${n} whole window${n === 1 ? "" : "s"} in a trace of ${(times[times.length - 1] - times[0]) / scale} ${config.time_unit}; choose shorter windows`);
+    }
+    const samplesConfig: SamplesDatasetConfig = {
+      id: `${config.id} τ=${length} ${config.time_unit}`,
+      kind: "samples",
+      file: config.file,
+      columns: { dE_A: "dE_A", dE_B: "dE_B", dN_A: "dN_A", dN_B: "dN_B", state_start: "state_start", state_end: "state_end" },
+      energy_unit: config.energy_unit,
+      reference_temperature: config.reference_temperature,
+      reservoirs: config.reservoirs as SamplesDatasetConfig["reservoirs"],
+      tau,
+      work: "measured",
+      series,
+      state_distribution: config.state_distribution,
+    };
+    const lines = Uint32Array.from({ length: n }, (_, i) => i + 1);
+    const d = samplesFromColumns(samplesConfig, `${keyPath}.windows[${k}]`, { dE_A: w.dE_A, dE_B: w.dE_B, dN_A: w.dN_A, dN_B: w.dN_B, state_start: w.start, state_end: w.end }, n, lines, table.sha256);
+    const block = blockLengthFor([w.dN_B, d.sigma]);
+    const blocks = Math.ceil(n / block.length);
+    out.push({
+      ...d,
+      windows: {
+        block: Int32Array.from({ length: n }, (_, i) => Math.floor(i / block.length)),
+        blocks,
+        blockLength: block.length,
+        correlationWindows: block.correlation,
+        rule: `block length twice the integrated autocorrelation time ${Number(block.correlation.toPrecision(3))} windows of the count and of Σ, at least 2`,
+      },
+      traceNotes: [detection.sentence],
+    });
+  }
+  return out;
+}
