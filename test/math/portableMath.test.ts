@@ -8,7 +8,7 @@
  * changes ours.
  */
 import { describe, expect, test } from "vitest";
-import { exp, log } from "../../src/math/index.ts";
+import { cbrt, exp, integerPower, log, sinPi } from "../../src/math/index.ts";
 
 /** xorshift32 (Marsaglia, J. Stat. Softw. 8(14), 2003): a fixed stream of 32-bit words. */
 function words(seed: number): () => number {
@@ -71,5 +71,53 @@ describe("portable exp and log", () => {
     // Subnormal arguments and results: log(2^-1074) = -1074 ln 2 = -744.4400719213812 (correctly rounded value).
     expect(log(5e-324)).toBe(-744.4400719213812);
     expect(exp(-744.4400719213812)).toBe(5e-324);
+  });
+});
+
+describe("portable cube root, sin(πx) and whole powers", () => {
+  /** Distance in units in the last place (of b). */
+  const ulps = (a: number, b: number) => Math.abs(a - b) / (Math.abs(b) * Number.EPSILON || Number.MIN_VALUE);
+
+  test("cbrt: exact cubes, and within 2 ulp of Math.cbrt elsewhere", () => {
+    // Exact: 27 = 3³, 0.125 = 0.5³, −1e-300 = (−1e-100)³ to rounding (common practice).
+    expect(cbrt(27)).toBe(3);
+    expect(cbrt(-8)).toBe(-2);
+    expect(cbrt(0.125)).toBe(0.5);
+    expect(cbrt(-0)).toBe(-0);
+    expect(cbrt(Infinity)).toBe(Infinity);
+    const xs = argumentsFor(0x3c6ef372, 20_000, 1e6);
+    let worst = 0;
+    for (const x of xs) if (Number.isFinite(x) && x !== 0) worst = Math.max(worst, ulps(cbrt(x), Math.cbrt(x)));
+    // Tolerance: Newton's step from exp(log) leaves at most about 1 ulp; Math.cbrt is itself within 1 ulp.
+    expect(worst).toBeLessThanOrEqual(2);
+  });
+
+  test("sinPi: exact points and within 2 ulp of Math.sin(πx) away from its zeros", () => {
+    // sin(π/2) = 1, sin(π/6) = 1/2, sin(π) = 0 exactly (the reduction is exact; Abramowitz & Stegun 4.3.46).
+    expect(sinPi(0.5)).toBe(1);
+    expect(sinPi(1)).toBe(0);
+    expect(sinPi(-0.5)).toBe(-1);
+    expect(Math.abs(sinPi(1 / 6) - 0.5)).toBeLessThanOrEqual(Number.EPSILON / 2);
+    expect(Math.abs(sinPi(2.25) - Math.SQRT1_2)).toBeLessThanOrEqual(Number.EPSILON);
+    // Against Math.sin(π·x) only on (0, 1/2], where rounding π·x (half an ulp) moves sin by at most
+    // half an ulp (the condition number πx·cot(πx) is at most 1 there); elsewhere it would measure π's rounding.
+    let worst = 0;
+    for (let i = 1; i <= 5000; i++) worst = Math.max(worst, ulps(sinPi(i / 10_000), Math.sin((Math.PI * i) / 10_000)));
+    expect(worst).toBeLessThanOrEqual(3);
+    // Everywhere: sin²(πx) + sin²(π(x + 1/2)) = 1 (Pythagoras) to a few ulp, and the odd symmetry exactly.
+    for (let i = -4000; i < 4000; i++) {
+      const x = i / 997;
+      expect(Math.abs(sinPi(x) ** 2 + sinPi(x + 0.5) ** 2 - 1)).toBeLessThanOrEqual(4 * Number.EPSILON);
+      expect(sinPi(-x)).toBe(x === 0 || Number.isInteger(x) ? 0 : -sinPi(x));
+    }
+  });
+
+  test("integerPower: exact powers of 2, 3 and 10, and reciprocals", () => {
+    expect(integerPower(2, -24)).toBe(5.9604644775390625e-8); // 2^-24, exact
+    expect(integerPower(3, 33)).toBe(5559060566555523); // 3^33 < 2^53, exact
+    expect(integerPower(10, 22)).toBe(1e22); // the largest exact power of ten in binary64
+    expect(integerPower(10, -3)).toBe(1 / 1000);
+    expect(integerPower(1.5, 0)).toBe(1);
+    expect(() => integerPower(2, 0.5)).toThrow(RangeError);
   });
 });
