@@ -7,7 +7,11 @@
  */
 export function sinPi(x: number): number {
   if (!Number.isFinite(x)) return NaN;
-  if (x < 0) return -sinPi(-x); // odd, and the reduction below is exact only for x ≥ 0
+  if (x < 0) {
+    // Odd (and the reduction below is exact only for x ≥ 0); +0 at the integers.
+    const s = sinPi(-x);
+    return s === 0 ? 0 : -s;
+  }
   // x − 2⌊x/2⌋ and every fold below subtract numbers within a factor 2 of each
   // other, so they are exact (Sterbenz's lemma).
   let r = x - 2 * Math.floor(x / 2); // in [0, 2)
