@@ -104,10 +104,11 @@ describe("portable cube root, sin(πx) and whole powers", () => {
     let worst = 0;
     for (let i = 1; i <= 5000; i++) worst = Math.max(worst, ulps(sinPi(i / 10_000), Math.sin((Math.PI * i) / 10_000)));
     expect(worst).toBeLessThanOrEqual(3);
-    // Everywhere: sin²(πx) + sin²(π(x + 1/2)) = 1 (Pythagoras) to a few ulp, and the odd symmetry exactly.
+    // Everywhere: sin²(πx) + sin²(π(x + 1/2)) = 1 (Pythagoras) and the odd symmetry exactly. Tolerance 8ε:
+    // up to 1 ulp in each value doubles in its square, plus the roundings of the squares and the sum.
     for (let i = -4000; i < 4000; i++) {
       const x = i / 997;
-      expect(Math.abs(sinPi(x) ** 2 + sinPi(x + 0.5) ** 2 - 1)).toBeLessThanOrEqual(4 * Number.EPSILON);
+      expect(Math.abs(sinPi(x) ** 2 + sinPi(x + 0.5) ** 2 - 1)).toBeLessThanOrEqual(8 * Number.EPSILON);
       expect(sinPi(-x)).toBe(x === 0 || Number.isInteger(x) ? 0 : -sinPi(x));
     }
   });
