@@ -8,6 +8,7 @@ import { sigmaVanishesIdentically, trivialAtEquilibrium } from "../equilibriumGu
 import type { CheckContext, CheckDefinition, CheckResult, Status } from "../types.ts";
 import type { PlotSpec } from "../plotSpec.ts";
 import type { Rng } from "../../stats/rng.ts";
+import { exp, log } from "../../math/index.ts";
 
 export const MIN_REALISATIONS = 30;
 
@@ -72,19 +73,19 @@ function runningEstimatePlot(d: SamplesDataset, shift: number, z: number, confid
   // the last point is the full average anyway.
   const order = realisationOrder(d, rng, d.reduction ? 1 << 18 : 2_000_000);
   const marks: number[] = [];
-  for (let k = 0; k <= 120; k++) marks.push(Math.round(Math.exp(Math.log(Math.min(10, total)) + ((Math.log(total) - Math.log(Math.min(10, total))) * k) / 120)));
+  for (let k = 0; k <= 120; k++) marks.push(Math.round(exp(log(Math.min(10, total)) + ((log(total) - log(Math.min(10, total))) * k) / 120)));
   const xs: number[] = [];
   const ys: number[] = [];
   const lo: number[] = [];
   const hi: number[] = [];
-  const scale = Math.exp(shift);
+  const scale = exp(shift);
   let n = 0;
   let mean = 0;
   let m2 = 0;
   let next = 0;
   for (let k = 0; k < order.length && next < marks.length; k++) {
     const i = order[k];
-    const x = Math.exp(-sigma[i] - shift);
+    const x = exp(-sigma[i] - shift);
     n += 1;
     const delta = x - mean;
     mean += delta / n;
@@ -142,9 +143,9 @@ export function integralFluctuationForDataset(d: SamplesDataset, ctx: CheckConte
   for (let i = 0; i < sigma.length; i++) if (-sigma[i] > maxExp) maxExp = -sigma[i];
   const shift = maxExp > MAX_EXPONENT ? maxExp - MAX_EXPONENT : 0;
   const u = new Float64Array(sigma.length);
-  for (let i = 0; i < sigma.length; i++) u[i] = Math.exp(-sigma[i] - shift);
+  for (let i = 0; i < sigma.length; i++) u[i] = exp(-sigma[i] - shift);
   const boot = bootstrapRatio(u, null, d.weight, ctx.rngFor(d.sha256, "exp-average"), { resamples: ctx.settings.resamples });
-  const scale = Math.exp(shift);
+  const scale = exp(shift);
   const mean = boot.estimate * scale;
   const ciScaled = bcaInterval(boot, confidence);
   const ci: [number, number] = [ciScaled[0] * scale, ciScaled[1] * scale];
@@ -193,7 +194,7 @@ export function integralFluctuationForDataset(d: SamplesDataset, ctx: CheckConte
       mean,
       ci,
       p_value: pValue,
-      log_mean: Math.log(boot.estimate) + shift,
+      log_mean: log(boot.estimate) + shift,
       mean_sigma: conv.meanSigma,
       ln_N: conv.logN,
       mirror_realisations: conv.mirrorCount,
@@ -238,9 +239,9 @@ function overflowingAverage(
 ): CheckResult {
   const { alpha, confidence } = ctx.settings;
   const margin = numberOption(ctx, "margin", ctx.settings.margin, (v) => v > 0);
-  const logMean = Math.log(estimate) + shift;
+  const logMean = log(estimate) + shift;
   let lowest = Infinity;
-  for (let i = 0; i < replicates.length; i++) lowest = Math.min(lowest, Math.log(replicates[i]) + shift);
+  for (let i = 0; i < replicates.length; i++) lowest = Math.min(lowest, log(replicates[i]) + shift);
   const pFloor = 1 / (replicates.length + 1);
   const n = d.realisations;
   const decimal = `≈ 10^${fmt(logMean / Math.LN10)}`;

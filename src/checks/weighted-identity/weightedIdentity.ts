@@ -6,6 +6,7 @@ import { holm } from "../../stats/holm.ts";
 import { resolveSentence } from "../../stats/sampleSize.ts";
 import { fmt, fmtInterval, numberOption, perDataset } from "../helpers.ts";
 import type { CheckContext, CheckDefinition, CheckResult, Status, TableSpec } from "../types.ts";
+import { exp } from "../../math/index.ts";
 
 /**
  * The weighted identity ⟨x (e^{−β̄W} + e^{−a·x})⟩ = 0 for each current x in
@@ -68,7 +69,7 @@ export function weightedIdentityForDataset(d: SamplesDataset, ctx: CheckContext)
   // Weights are kept below e^100 so that the bootstrap's third moments (jackknife acceleration) cannot overflow.
   shift = shift > 100 ? shift - 100 : 0;
   const g = new Float64Array(n);
-  for (let i = 0; i < n; i++) g[i] = Math.exp(bW[i] - shift) + Math.exp(ax[i] - shift);
+  for (let i = 0; i < n; i++) g[i] = exp(bW[i] - shift) + exp(ax[i] - shift);
   // Convergence of the exponential weights: judged on the a·x part, which carries the rare events.
   const aDotX = new Float64Array(n);
   for (let i = 0; i < n; i++) aDotX[i] = -ax[i];
