@@ -1,4 +1,5 @@
 import { hillTailShape } from "../stats/tailShape.ts";
+import { exp, log } from "../math/index.ts";
 
 /**
  * Whether a sample can resolve the exponential average ⟨e^{−Σ}⟩.
@@ -56,20 +57,20 @@ export function exponentialConvergence(sigma: ArrayLike<number>, weight: ArrayLi
   for (let i = 0; i < sigma.length; i++) {
     const w = weight ? weight[i] : 1;
     if (w === 0) continue;
-    const e = Math.exp(-sigma[i] - shift);
+    const e = exp(-sigma[i] - shift);
     s1 += w * e;
     s2 += w * e * e;
     if (sigma[i] <= -meanSigma) mirror += w;
   }
   const effectiveSampleSize = (s1 * s1) / s2;
   const expMinus = new Float64Array(sigma.length);
-  for (let i = 0; i < sigma.length; i++) expMinus[i] = Math.exp(-sigma[i] - shift);
+  for (let i = 0; i < sigma.length; i++) expMinus[i] = exp(-sigma[i] - shift);
   const tailShape = hillTailShape(expMinus, weight);
-  const logN = Math.log(n);
+  const logN = log(n);
   const reasons: string[] = [];
   if (meanSigma >= logN) {
     reasons.push(
-      `⟨Σ⟩ = ${meanSigma.toPrecision(3)} k_B is not below ln N = ${logN.toPrecision(3)}: about e^⟨Σ⟩ ≈ ${Math.exp(meanSigma).toPrecision(2)} realisations are needed to resolve ⟨e^−Σ⟩ (Jarzynski 2006)`,
+      `⟨Σ⟩ = ${meanSigma.toPrecision(3)} k_B is not below ln N = ${logN.toPrecision(3)}: about e^⟨Σ⟩ ≈ ${exp(meanSigma).toPrecision(2)} realisations are needed to resolve ⟨e^−Σ⟩ (Jarzynski 2006)`,
     );
   }
   if (meanSigma > 0 && mirror < MIN_MIRROR_REALISATIONS) {

@@ -7,6 +7,7 @@
  * the same double as the literal 2.5e-6.
  */
 import { UnitError } from "../errors.ts";
+import { integerPower } from "../math/index.ts";
 
 /** Accepted prefixes and their powers of ten. Micro may be written u, µ (U+00B5) or μ (U+03BC). */
 export const PREFIXES: Readonly<Record<string, number>> = { f: -15, p: -12, n: -9, u: -6, "µ": -6, "μ": -6, m: -3, "": 0, k: 3 };
@@ -61,7 +62,7 @@ export function parseUnit(text: string, quantity: QuantityKey, keyPath: string):
 /** value in the parsed unit → SI, correctly rounded (see the module comment). */
 export function toSI(value: number, unit: ParsedUnit | null): number {
   if (unit === null || unit.exponent === 0) return value;
-  return unit.exponent > 0 ? value * 10 ** unit.exponent : value / 10 ** -unit.exponent;
+  return unit.exponent > 0 ? value * integerPower(10, unit.exponent) : value / integerPower(10, -unit.exponent);
 }
 
 /** The SI unit text of a quantity, for reports. */

@@ -11,6 +11,7 @@
  * ln Γ comes from gamma.ts (Lanczos, g = 7).
  */
 import { logGamma } from "./gamma.ts";
+import { exp, log } from "../math/index.ts";
 
 /** ln B(a, b) = ln Γ(a) + ln Γ(b) − ln Γ(a + b), a, b > 0. */
 export function logBeta(a: number, b: number): number {
@@ -65,9 +66,9 @@ export function regularizedIncompleteBeta(x: number, a: number, b: number, y: nu
   if (x === 0) return 0;
   if (y === 0 || x === 1) return 1;
   // Prefactor x^a y^b / (a B(a, b)), in logs to avoid under- and overflow.
-  const logFront = a * Math.log(x) + b * Math.log(y) - logBeta(a, b);
-  if (x < (a + 1) / (a + b + 2)) return (Math.exp(logFront) * betaContinuedFraction(x, a, b)) / a;
-  return 1 - (Math.exp(logFront) * betaContinuedFraction(y, b, a)) / b;
+  const logFront = a * log(x) + b * log(y) - logBeta(a, b);
+  if (x < (a + 1) / (a + b + 2)) return (exp(logFront) * betaContinuedFraction(x, a, b)) / a;
+  return 1 - (exp(logFront) * betaContinuedFraction(y, b, a)) / b;
 }
 
 /** 1 − I_x(a, b) = I_y(b, a), computed directly so small upper tails keep their digits. */

@@ -1,6 +1,7 @@
 import type { Rng } from "./rng.ts";
 import { poissonDeviate, poissonFromTable, poissonInversionTable, ptrsConstants, ptrsDeviate, type PtrsConstants } from "./poissonDeviate.ts";
 import { normalCdf, normalQuantile } from "./normal.ts";
+import { exp } from "../math/index.ts";
 
 /**
  * Seeded, weighted bootstrap of a ratio of sums, R = Σ w_i u_i / Σ w_i v_i
@@ -41,7 +42,7 @@ export interface BootstrapOptions {
 // Cumulative Poisson(1) probabilities, for the common unit-weight draw by inversion.
 const POISSON_ONE_CDF = (() => {
   const cdf: number[] = [];
-  let p = Math.exp(-1);
+  let p = exp(-1);
   let c = 0;
   for (let k = 0; k < 30; k++) {
     c += p;
@@ -182,7 +183,7 @@ export function bootstrapRatio(
     m2 += w * l * l;
     m3 += w * l * l * l;
   }
-  const acceleration = m2 > 0 ? m3 / (6 * Math.pow(m2, 1.5)) : 0;
+  const acceleration = m2 > 0 ? m3 / (6 * (m2 * Math.sqrt(m2))) : 0;
 
   const exact = largestIndices(influence, options.exactCells ?? 1024);
   const isExact = new Uint8Array(n);

@@ -1,5 +1,6 @@
 import { logGamma, regularizedGammaP, regularizedGammaQ } from "./gamma.ts";
 import { normalQuantile } from "./normal.ts";
+import { exp, log } from "../math/index.ts";
 
 /**
  * The chi-square distribution with k degrees of freedom:
@@ -33,18 +34,19 @@ export function chiSquareQuantile(p: number, k: number): number {
   if (p === 1) return Infinity;
   const z = normalQuantile(p);
   const c = 2 / (9 * k);
-  let x = Math.max(k * (1 - c + z * Math.sqrt(c)) ** 3, 1e-8);
+  const w = 1 - c + z * Math.sqrt(c);
+  let x = Math.max(k * w * w * w, 1e-8);
   // Bracket the root, then Newton steps that fall back to bisection outside it.
   let lo = 0;
   let hi = Math.max(2 * x, 1);
   while (chiSquareCdf(hi, k) < p) hi *= 2;
-  const logNorm = (k / 2) * Math.log(2) + logGamma(k / 2);
+  const logNorm = (k / 2) * log(2) + logGamma(k / 2);
   for (let it = 0; it < 1000; it++) {
     const f = p < 0.5 ? chiSquareCdf(x, k) - p : 1 - p - chiSquareSf(x, k);
     if (f === 0) return x;
     if (f < 0) lo = x;
     else hi = x;
-    const density = Math.exp((k / 2 - 1) * Math.log(x) - x / 2 - logNorm);
+    const density = exp((k / 2 - 1) * log(x) - x / 2 - logNorm);
     let next = x - f / density;
     // Bisect (geometrically while the lower end is still 0, for tiny quantiles at small k).
     if (!(next > lo && next < hi) || !Number.isFinite(next)) next = lo > 0 ? (lo + hi) / 2 : hi / 16;

@@ -1,3 +1,4 @@
+import { exp, log, sinPi } from "../math/index.ts";
 /**
  * The gamma function's logarithm and the regularised incomplete gamma
  * functions P(a, x) and Q(a, x) = 1 − P(a, x), the building blocks of the
@@ -19,13 +20,13 @@ export function logGamma(x: number): number {
   if (!(x > 0)) throw new RangeError(`logGamma needs x > 0, got ${x}`);
   if (x < 0.5) {
     // Γ(x) Γ(1 − x) = π / sin(π x)
-    return Math.log(Math.PI / Math.sin(Math.PI * x)) - logGamma(1 - x);
+    return log(Math.PI / sinPi(x)) - logGamma(1 - x);
   }
   const z = x - 1;
   let sum = LANCZOS[0];
   for (let k = 1; k < LANCZOS.length; k++) sum += LANCZOS[k] / (z + k);
   const t = z + LANCZOS_G + 0.5;
-  return HALF_LOG_2PI + (z + 0.5) * Math.log(t) - t + Math.log(sum);
+  return HALF_LOG_2PI + (z + 0.5) * log(t) - t + log(sum);
 }
 
 const EPS = 1e-16;
@@ -44,7 +45,7 @@ function lowerSeries(a: number, x: number): number {
     sum += term;
     if (Math.abs(term) < Math.abs(sum) * EPS) break;
   }
-  return sum * Math.exp(-x + a * Math.log(x) - logGamma(a));
+  return sum * exp(-x + a * log(x) - logGamma(a));
 }
 
 /**
@@ -68,7 +69,7 @@ function upperFraction(a: number, x: number): number {
     h *= delta;
     if (Math.abs(delta - 1) < EPS) break;
   }
-  return Math.exp(-x + a * Math.log(x) - logGamma(a)) * h;
+  return exp(-x + a * log(x) - logGamma(a)) * h;
 }
 
 function checkArgs(a: number, x: number): void {

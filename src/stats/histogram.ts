@@ -1,3 +1,4 @@
+import { cbrt } from "../math/index.ts";
 /** Weighted histogram on fixed edges. */
 export interface Histogram {
   edges: number[]; // length bins + 1
@@ -17,7 +18,7 @@ export function freedmanDiaconisBins(sorted: ArrayLike<number>, n: number, minBi
   const iqr = q(0.75) - q(0.25);
   const range = sorted[len - 1] - sorted[0];
   if (!(iqr > 0) || !(range > 0)) return minBins;
-  const width = 2 * iqr * Math.cbrt(1 / n);
+  const width = 2 * iqr * cbrt(1 / n);
   return Math.max(minBins, Math.min(maxBins, Math.ceil(range / width)));
 }
 

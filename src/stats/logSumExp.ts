@@ -1,3 +1,4 @@
+import { exp, log } from "../math/index.ts";
 /**
  * Exponential averages without overflow: log Σ w_i exp(x_i) by shifting with
  * the largest exponent first (the "log-sum-exp trick", e.g. Press, Teukolsky,
@@ -17,9 +18,9 @@ export function logSumExp(x: ArrayLike<number>, weight: ArrayLike<number> | null
   for (let i = 0; i < x.length; i++) {
     const w = weight ? weight[i] : 1;
     if (w === 0) continue;
-    sum += w * Math.exp(scale * x[i] - max);
+    sum += w * exp(scale * x[i] - max);
   }
-  return max + Math.log(sum);
+  return max + log(sum);
 }
 
 /** log of the weighted mean of exp(scale·x_i): logSumExp minus log of the total weight. */
@@ -27,17 +28,17 @@ export function logMeanExp(x: ArrayLike<number>, weight: ArrayLike<number> | nul
   let total = 0;
   if (weight) for (let i = 0; i < weight.length; i++) total += weight[i];
   else total = x.length;
-  return logSumExp(x, weight, scale) - Math.log(total);
+  return logSumExp(x, weight, scale) - log(total);
 }
 
 /** log(1 + exp(x)) without overflow or loss of precision for large |x|. */
 export function log1pExp(x: number): number {
-  return x > 0 ? x + Math.log1p(Math.exp(-x)) : Math.log1p(Math.exp(x));
+  return x > 0 ? x + Math.log1p(exp(-x)) : Math.log1p(exp(x));
 }
 
 /** The logistic function 1/(1 + exp(−x)), evaluated on the side that cannot overflow. */
 export function logistic(x: number): number {
-  if (x >= 0) return 1 / (1 + Math.exp(-x));
-  const e = Math.exp(x);
+  if (x >= 0) return 1 / (1 + exp(-x));
+  const e = exp(x);
   return e / (1 + e);
 }

@@ -1,3 +1,4 @@
+import { exp, log } from "../math/index.ts";
 /**
  * Standard normal distribution.
  * cdf: via the complementary error function with W. J. Cody's rational
@@ -44,7 +45,7 @@ export function erfc(x: number): number {
     result = (num + C[7]) / (den + D[7]);
     const ysq = Math.trunc(y * 16) / 16;
     const del = (y - ysq) * (y + ysq);
-    result = Math.exp(-ysq * ysq) * Math.exp(-del) * result;
+    result = exp(-ysq * ysq) * exp(-del) * result;
   } else {
     if (y >= 26.6) result = 0;
     else {
@@ -59,7 +60,7 @@ export function erfc(x: number): number {
       result = (SQRPI - result) / y;
       const ysq2 = Math.trunc(y * 16) / 16;
       const del = (y - ysq2) * (y + ysq2);
-      result = Math.exp(-ysq2 * ysq2) * Math.exp(-del) * result;
+      result = exp(-ysq2 * ysq2) * exp(-del) * result;
     }
   }
   return x < 0 ? 2 - result : result;
@@ -111,7 +112,7 @@ export function normalQuantile(p: number): number {
     );
   }
   let r = q < 0 ? p : 1 - p;
-  r = Math.sqrt(-Math.log(r));
+  r = Math.sqrt(-log(r));
   let value: number;
   if (r <= 5) {
     r -= 1.6;

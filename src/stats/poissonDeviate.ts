@@ -1,5 +1,6 @@
 import type { Rng } from "./rng.ts";
 import { logGamma } from "./gamma.ts";
+import { exp, log } from "../math/index.ts";
 
 /**
  * An exact Poisson deviate with the given mean.
@@ -13,7 +14,7 @@ export function poissonDeviate(rng: Rng, mean: number): number {
   if (mean === 0) return 0;
   if (mean < 10) {
     let k = 0;
-    let p = Math.exp(-mean);
+    let p = exp(-mean);
     let cdf = p;
     const u = rng.uniform();
     while (u > cdf && k < INVERSION_LIMIT) {
@@ -42,7 +43,7 @@ export interface PtrsConstants {
 export function ptrsConstants(mean: number): PtrsConstants {
   const slam = Math.sqrt(mean);
   const b = 0.931 + 2.53 * slam;
-  return { mean, loglam: Math.log(mean), a: -0.059 + 0.02483 * b, b, invAlpha: 1.1239 + 1.1328 / (b - 3.4), vr: 0.9277 - 3.6224 / (b - 2) };
+  return { mean, loglam: log(mean), a: -0.059 + 0.02483 * b, b, invAlpha: 1.1239 + 1.1328 / (b - 3.4), vr: 0.9277 - 3.6224 / (b - 2) };
 }
 
 /** One PTRS deviate (Hörmann 1993, algorithm PTRS). */
@@ -55,7 +56,7 @@ export function ptrsDeviate(rng: Rng, c: PtrsConstants): number {
     const k = Math.floor(((2 * a) / us + b) * U + mean + 0.43);
     if (us >= 0.07 && V <= vr) return k;
     if (k < 0 || (us < 0.013 && V > us)) continue;
-    if (Math.log(V) + Math.log(invAlpha) - Math.log(a / (us * us) + b) <= -mean + k * loglam - logGamma(k + 1)) return k;
+    if (log(V) + log(invAlpha) - log(a / (us * us) + b) <= -mean + k * loglam - logGamma(k + 1)) return k;
   }
 }
 
@@ -69,7 +70,7 @@ export function ptrsDeviate(rng: Rng, c: PtrsConstants): number {
  */
 export function poissonInversionTable(mean: number): Float64Array {
   const cdf: number[] = [];
-  let p = Math.exp(-mean);
+  let p = exp(-mean);
   let sum = p;
   cdf.push(sum);
   for (let k = 1; k <= INVERSION_LIMIT; k++) {

@@ -1,4 +1,5 @@
 import { createHash } from "node:crypto";
+import { log } from "../math/index.ts";
 
 /**
  * A seeded pseudo-random generator. Every random step of an audit takes one of
@@ -56,7 +57,7 @@ export function xoshiro128ss(state: Uint32Array): Rng {
       const v = 2 * uniform() - 1;
       const r2 = u * u + v * v;
       if (r2 > 0 && r2 < 1) {
-        const f = Math.sqrt((-2 * Math.log(r2)) / r2);
+        const f = Math.sqrt((-2 * log(r2)) / r2);
         spare = v * f;
         return u * f;
       }

@@ -6,6 +6,7 @@
  */
 import { regularizedIncompleteBeta, logBeta } from "./beta.ts";
 import { normalCdf, normalQuantile, normalSf } from "./normal.ts";
+import { exp, log } from "../math/index.ts";
 
 function checkDf(df: number): void {
   if (!(df > 0)) throw new RangeError(`Student t needs degrees of freedom > 0, got ${df}`);
@@ -40,9 +41,9 @@ export function studentTSf(t: number, df: number): number {
 /** Probability density of T. */
 export function studentTPdf(t: number, df: number): number {
   checkDf(df);
-  if (df === Infinity) return Math.exp(-0.5 * t * t) / Math.sqrt(2 * Math.PI);
+  if (df === Infinity) return exp(-0.5 * t * t) / Math.sqrt(2 * Math.PI);
   // f(t) = (1 + t²/ν)^{−(ν+1)/2} / (√ν B(ν/2, ½))
-  return Math.exp(-((df + 1) / 2) * Math.log1p((t * t) / df) - 0.5 * Math.log(df) - logBeta(df / 2, 0.5));
+  return exp(-((df + 1) / 2) * Math.log1p((t * t) / df) - 0.5 * log(df) - logBeta(df / 2, 0.5));
 }
 
 /** Two-sided p-value P(|T| ≥ |t|). */

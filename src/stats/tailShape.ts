@@ -1,3 +1,4 @@
+import { log } from "../math/index.ts";
 /**
  * Shape ξ of the right tail of a positive sample, by Hill's estimator on the
  * largest M = min(N/5, 3√N) values (B. M. Hill, Ann. Stat. 3, 1163 (1975);
@@ -49,11 +50,11 @@ export function hillTailShape(x: ArrayLike<number>, weight: ArrayLike<number> | 
   let k = 0;
   for (; k < top.length && taken < M; k++) {
     const w = weight ? weight[top[k]] : 1;
-    sumLog += w * Math.log(x[top[k]]);
+    sumLog += w * log(x[top[k]]);
     taken += w;
   }
   if (k >= top.length) return Number.NaN;
-  const threshold = Math.log(x[top[k]]);
+  const threshold = log(x[top[k]]);
   return sumLog / taken - threshold;
 }
 
@@ -67,8 +68,8 @@ function hillUnweighted(x: ArrayLike<number>): number {
   values.sort();
   const M = Math.floor(Math.min(count / 5, 3 * Math.sqrt(count)));
   if (M < 5) return Number.NaN;
-  const threshold = Math.log(values[count - M - 1]);
+  const threshold = log(values[count - M - 1]);
   let sumLog = 0;
-  for (let j = count - M; j < count; j++) sumLog += Math.log(values[j]);
+  for (let j = count - M; j < count; j++) sumLog += log(values[j]);
   return sumLog / M - threshold;
 }

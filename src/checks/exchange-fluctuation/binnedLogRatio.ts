@@ -1,4 +1,5 @@
 import { chiSquareSf } from "../../stats/chiSquare.ts";
+import { exp, log } from "../../math/index.ts";
 
 /**
  * The binned log-ratio ln P(Σ)/P(−Σ) that a reader expects to see, and a
@@ -78,7 +79,7 @@ function finish(bins: (LogRatioBin & { varX: number })[], discrete: boolean, dro
   let chi = 0;
   for (const b of bins) {
     const n = b.nPositive + b.nNegative;
-    const p = 1 / (1 + Math.exp(-b.x));
+    const p = 1 / (1 + exp(-b.x));
     const binomial = n * p * (1 - p);
     const variance = binomial + binomial * binomial * b.varX;
     chi += (b.nPositive - n * p) ** 2 / variance;
@@ -115,7 +116,7 @@ export function binnedLogRatio(sigma: ArrayLike<number>, weight: ArrayLike<numbe
         dropped++;
         continue;
       }
-      bins.push({ x: c.s, y: Math.log(c.w / neg), yErr: Math.sqrt(1 / c.w + 1 / neg), nPositive: c.w, nNegative: neg, lower: c.s, upper: c.s, varX: 0 });
+      bins.push({ x: c.s, y: log(c.w / neg), yErr: Math.sqrt(1 / c.w + 1 / neg), nPositive: c.w, nNegative: neg, lower: c.s, upper: c.s, varX: 0 });
     }
     bins.sort((a, b) => a.x - b.x);
     return finish(bins, true, dropped);
@@ -224,7 +225,7 @@ function mirrorBins(
     const k = binIndex[i];
     if (k < 0 || !(sigma[i] < 0)) continue;
     const w = weight ? weight[i] : 1;
-    const e = Math.exp(-sigma[i] - maxAbs[k]);
+    const e = exp(-sigma[i] - maxAbs[k]);
     s1[k] += w * e;
     s2[k] += w * e * e;
   }
@@ -237,10 +238,10 @@ function mirrorBins(
     }
     const mean = s1[k] / nNeg[k];
     const variance = Math.max(s2[k] / nNeg[k] - mean * mean, 0);
-    const x = maxAbs[k] + Math.log(mean);
+    const x = maxAbs[k] + log(mean);
     bins.push({
       x,
-      y: Math.log(nPos[k] / nNeg[k]),
+      y: log(nPos[k] / nNeg[k]),
       yErr: Math.sqrt(1 / nPos[k] + 1 / nNeg[k]),
       nPositive: nPos[k],
       nNegative: nNeg[k],

@@ -4,6 +4,7 @@ import { sortedQuantile } from "../../stats/bootstrap.ts";
 import { fmt } from "../helpers.ts";
 import type { PlotSpec } from "../plotSpec.ts";
 import type { LogRatio } from "./binnedLogRatio.ts";
+import { exp } from "../../math/index.ts";
 
 /**
  * Histogram of Σ and of its mirror −Σ on a logarithmic scale, with the
@@ -25,7 +26,7 @@ export function mirrorHistogramPlot(d: SamplesDataset): PlotSpec {
   const keep = (ys: number[]) => centres.map((x, k) => [x, ys[k]] as const).filter(([, y]) => y > 0);
   const data = keep(density);
   const mirrored = keep(mirror);
-  const predicted = keep(mirror.map((m, k) => m * Math.exp(centres[k])));
+  const predicted = keep(mirror.map((m, k) => m * exp(centres[k])));
   return {
     id: "sigma-mirror",
     title: "Σ and its mirror image on a logarithmic scale",

@@ -2,6 +2,7 @@ import type { PlotSpec, Series } from "../plotSpec.ts";
 import { fmt } from "../helpers.ts";
 import type { EstimatedMatrix, EstimatedVector, ResponseFit } from "./responseFit.ts";
 import type { Channel } from "./sweep.ts";
+import { integerPower } from "../../math/index.ts";
 
 /**
  * A value with its standard uncertainty as TeX in the concise notation of the
@@ -14,10 +15,10 @@ export function texValue(value: number, se: number): string {
   if (size === 0 || !Number.isFinite(size)) return Number.isFinite(value) ? "0" : String(value);
   const e = Math.floor(Math.log10(size));
   const exp = Math.abs(e) <= 2 ? 0 : e;
-  const v = value / 10 ** exp;
-  const u = se / 10 ** exp;
+  const v = value / integerPower(10, exp);
+  const u = se / integerPower(10, exp);
   const decimals = u > 0 ? Math.min(8, Math.max(0, 1 - Math.floor(Math.log10(u)))) : 4;
-  const body = u > 0 ? `${v.toFixed(decimals)}(${Math.round(u * 10 ** decimals)})` : v.toFixed(decimals);
+  const body = u > 0 ? `${v.toFixed(decimals)}(${Math.round(u * integerPower(10, decimals))})` : v.toFixed(decimals);
   return exp === 0 ? body : `${body}\\times 10^{${exp}}`;
 }
 

@@ -4,6 +4,7 @@ import { chiSquareSf } from "../../stats/chiSquare.ts";
 import { inverse } from "../../linalg/solve.ts";
 import { AFFINITY_OF, type Channel, type Sweep } from "./sweep.ts";
 import { withinCellScatter } from "../helpers.ts";
+import { exp } from "../../math/index.ts";
 
 /**
  * The joint response fit of a sweep (physics: linear response from the exchange
@@ -82,7 +83,7 @@ export function sweepPoint(d: SamplesDataset, channels: Channel[], tau: number, 
     for (let c = 0; c < m; c++) f[lay.J[c]] = cols[c][i] / tau;
     for (let a = 0; a < m; a++) for (let b = a; b < m; b++) f[lay.M[a][b]] = (unbias * (cols[a][i] - xBar[a]) * (cols[b][i] - xBar[b])) / (2 * tau);
     if (lay.Jw) {
-      const factor = (1 + Math.exp(-bb * d.W[i])) / (2 * tau);
+      const factor = (1 + exp(-bb * d.W[i])) / (2 * tau);
       if (!Number.isFinite(factor)) {
         throw new WeightOverflowError(`${d.id}: exp(−β̄W) overflows at W = ${d.W[i]} J (β̄W = ${bb * d.W[i]}); the weighted flux cannot be formed in double precision`);
       }

@@ -73,19 +73,19 @@ function runningEstimatePlot(d: SamplesDataset, shift: number, z: number, confid
   // the last point is the full average anyway.
   const order = realisationOrder(d, rng, d.reduction ? 1 << 18 : 2_000_000);
   const marks: number[] = [];
-  for (let k = 0; k <= 120; k++) marks.push(Math.round(Math.exp(Math.log(Math.min(10, total)) + ((Math.log(total) - Math.log(Math.min(10, total))) * k) / 120)));
+  for (let k = 0; k <= 120; k++) marks.push(Math.round(exp(log(Math.min(10, total)) + ((log(total) - log(Math.min(10, total))) * k) / 120)));
   const xs: number[] = [];
   const ys: number[] = [];
   const lo: number[] = [];
   const hi: number[] = [];
-  const scale = Math.exp(shift);
+  const scale = exp(shift);
   let n = 0;
   let mean = 0;
   let m2 = 0;
   let next = 0;
   for (let k = 0; k < order.length && next < marks.length; k++) {
     const i = order[k];
-    const x = Math.exp(-sigma[i] - shift);
+    const x = exp(-sigma[i] - shift);
     n += 1;
     const delta = x - mean;
     mean += delta / n;
@@ -196,7 +196,7 @@ export function integralFluctuationForDataset(d: SamplesDataset, ctx: CheckConte
       mean,
       ci,
       p_value: pValue,
-      log_mean: Math.log(boot.estimate) + shift,
+      log_mean: log(boot.estimate) + shift,
       mean_sigma: conv.meanSigma,
       ln_N: conv.logN,
       mirror_realisations: conv.mirrorCount,
@@ -240,9 +240,9 @@ function overflowingAverage(
 ): CheckResult {
   const { alpha, confidence } = ctx.settings;
   const margin = numberOption(ctx, "margin", ctx.settings.margin, (v) => v > 0);
-  const logMean = Math.log(estimate) + shift;
+  const logMean = log(estimate) + shift;
   let lowest = Infinity;
-  for (let i = 0; i < replicates.length; i++) lowest = Math.min(lowest, Math.log(replicates[i]) + shift);
+  for (let i = 0; i < replicates.length; i++) lowest = Math.min(lowest, log(replicates[i]) + shift);
   const pFloor = 1 / (replicates.length + 1);
   const n = d.realisations;
   const decimal = `≈ 10^${fmt(logMean / Math.LN10)}`;

@@ -5,6 +5,7 @@
  */
 import type { CoefficientPoint, CoefficientsDataset } from "../../ingest/types.ts";
 import { fmt } from "../helpers.ts";
+import { integerPower } from "../../math/index.ts";
 
 /** "Vg = 0.12, B = +0.5 T (row 7)": how a person finds the row in the file. */
 export function pointLabel(d: CoefficientsDataset, p: CoefficientPoint, withRow = true): string {
@@ -38,7 +39,7 @@ export function engineeringScale(values: readonly number[]): { factor: number; p
   const finite = values.filter((v) => Number.isFinite(v) && v !== 0).map(Math.abs);
   if (finite.length === 0) return { factor: 1, prefix: "" };
   const power = Math.max(-18, Math.min(6, 3 * Math.floor(Math.log10(Math.max(...finite)) / 3)));
-  return { factor: 10 ** -power, prefix: PREFIX_BY_POWER[power] };
+  return { factor: integerPower(10, -power), prefix: PREFIX_BY_POWER[power] };
 }
 
 /** Sort the indices of a series by abscissa, for bands and lines. */

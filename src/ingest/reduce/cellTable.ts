@@ -1,3 +1,4 @@
+import { exp, integerPower } from "../../math/index.ts";
 /**
  * A mergeable summary of many realisations: realisations with the same key
  * (a cell of a grid over a few columns) are pooled into one cell that keeps
@@ -99,7 +100,7 @@ export function columnLevel(level: number, delay: number, max = Infinity): numbe
 /** Index at `toLevel` of the cell with index k at `fromLevel` (centred cells, factor 3 a level). */
 export function coarserIndex(k: number, fromLevel: number, toLevel: number): number {
   if (toLevel === fromLevel) return k;
-  const p = 3 ** (toLevel - fromLevel);
+  const p = integerPower(3, toLevel - fromLevel);
   return Math.floor((k + (p - 1) / 2) / p);
 }
 
@@ -270,7 +271,7 @@ export class CellTable {
 
   /** 3^(column level) of each column, after the level was set. */
   refreshFactors(): void {
-    for (let d = 0; d < this.spec.dims; d++) this.factor[d] = 3 ** columnLevel(this.level, this.spec.delay[d], this.spec.maxColumnLevel[d]);
+    for (let d = 0; d < this.spec.dims; d++) this.factor[d] = integerPower(3, columnLevel(this.level, this.spec.delay[d], this.spec.maxColumnLevel[d]));
   }
 
   /** No cells. */
@@ -382,7 +383,7 @@ export class CellTable {
       }
       if (sigma < data[base + oMin]) data[base + oMin] = sigma;
       if (sigma > data[base + oMax]) data[base + oMax] = sigma;
-      data[base + oExp] += weight * Math.exp(data[base + oRef] - sigma);
+      data[base + oExp] += weight * exp(data[base + oRef] - sigma);
     }
     this.size += store.size - before;
     this.pendingRows[p] = 0;
@@ -442,7 +443,7 @@ export class CellTable {
       for (let s = 0; s < stored; s++) own[base + this.oSums + s] += data.sums[c * stored + s];
       if (data.sigmaMin[c] < own[base + this.oMin]) own[base + this.oMin] = data.sigmaMin[c];
       if (data.sigmaMax[c] > own[base + this.oMax]) own[base + this.oMax] = data.sigmaMax[c];
-      own[base + this.oExp] += data.expSum[c] * Math.exp(own[base + this.oRef] - data.sigmaRef[c]);
+      own[base + this.oExp] += data.expSum[c] * exp(own[base + this.oRef] - data.sigmaRef[c]);
       if (store.size === before) continue;
       this.size++;
       if (autoCoarsen && this.size > this.spec.capacity) this.coarsen();
@@ -517,7 +518,7 @@ function mergeSorted(spec: GridSpec, a: CellTableData, b: CellTableData): CellTa
       for (let s = 0; s < stored; s++) out.sums[n * stored + s] += b.sums[j * stored + s];
       if (b.sigmaMin[j] < out.sigmaMin[n]) out.sigmaMin[n] = b.sigmaMin[j];
       if (b.sigmaMax[j] > out.sigmaMax[n]) out.sigmaMax[n] = b.sigmaMax[j];
-      out.expSum[n] += b.expSum[j] * Math.exp(out.sigmaRef[n] - b.sigmaRef[j]);
+      out.expSum[n] += b.expSum[j] * exp(out.sigmaRef[n] - b.sigmaRef[j]);
       j++;
     }
     n++;

@@ -10,6 +10,7 @@ import type { SamplesDataset, SamplesReduction } from "../types.ts";
 import { columnLevel, MAX_LEVEL, type CellTableData } from "./cellTable.ts";
 import { reduceInParts, workerBundle } from "./parallelReduce.ts";
 import { sigmaOfRows, type KeyColumn, type SampleColumn, type SamplesReductionSpec } from "./samplesSink.ts";
+import { integerPower, log } from "../../math/index.ts";
 
 /**
  * Files above this size are summarised while they are read instead of being
@@ -44,13 +45,13 @@ export const FAITHFUL_CELL_WIDTH = 0.06;
  * of any measured or simulated energy, so at the finest level distinct values
  * stay in distinct cells.
  */
-const FINEST_RELATIVE_STEP = 2 ** -24;
+const FINEST_RELATIVE_STEP = integerPower(2, -24);
 
 /**
  * Finest cell width of Σ and of β̄W, k_B: 2^-12 ≈ 2.4e-4, far below the
  * statistical resolution of any relation tested on them.
  */
-const SIGMA_STEP = 2 ** -12;
+const SIGMA_STEP = integerPower(2, -12);
 
 /**
  * Where Q is a key column of its own (a_Q = 0), it widens first, up to this
@@ -198,7 +199,7 @@ export function reductionSpec(input: ReduceInput, probe: RowChunk | null, slotOf
       delay[d] = transverse ? TRANSVERSE_MAX_LEVEL : 0;
     } else {
       const scale = maxAbs > 0 ? maxAbs : input.joules;
-      step0[d] = 2 ** Math.ceil(Math.log2(scale * FINEST_RELATIVE_STEP));
+      step0[d] = integerPower(2, Math.ceil(Math.log2(scale * FINEST_RELATIVE_STEP)));
       delay[d] = 0;
       maxLevel[d] = TRANSVERSE_MAX_LEVEL;
     }
@@ -236,7 +237,7 @@ function momentPairs(stored: SampleColumn[]): [number, number][] {
  */
 function probeCells(k0: Float64Array, dims: number, rows: number, delay: Float64Array, maxLevel: Float64Array, level: number, limit: number): number {
   // coarserIndex(k, 0, l) = ⌊(k + (p − 1)/2) / p⌋ with p = 3^l, its factors taken once per column.
-  const p = Float64Array.from(delay, (dl, d) => 3 ** columnLevel(level, dl, maxLevel[d]));
+  const p = Float64Array.from(delay, (dl, d) => integerPower(3, columnLevel(level, dl, maxLevel[d])));
   const half = p.map((f) => (f - 1) / 2);
   const seen = new HashSet53(limit + 1);
   for (let i = 0; i < rows && seen.size <= limit; i++) {
@@ -355,7 +356,7 @@ export function fieldsFromCells(
   const sigmaMean = entropyProduction(input.affinity, W, Q, dN);
   const sigma = new Float64Array(n);
   for (let i = 0; i < n; i++) {
-    const star = cells.sigmaRef[i] - Math.log(cells.expSum[i] / cells.count[i]);
+    const star = cells.sigmaRef[i] - log(cells.expSum[i] / cells.count[i]);
     // Σ* lies in the cell's range; keep the mean where the range is a single value (no rounding drift).
     sigma[i] = cells.sigmaMax[i] === cells.sigmaMin[i] ? sigmaMean[i] : Math.min(cells.sigmaMax[i], Math.max(cells.sigmaMin[i], star));
   }
@@ -371,7 +372,7 @@ export function fieldsFromCells(
   if (realisations === 0) throw new DataError(`${input.label}: every count in column "${input.roles.count}" is zero; there are no realisations`);
   const steps: Record<string, number> = {};
   spec.keyColumns.forEach((c, d) => {
-    steps[c] = spec.grid.step0[d] * 3 ** columnLevel(cells.level, spec.grid.delay[d], spec.grid.maxColumnLevel[d]);
+    steps[c] = spec.grid.step0[d] * integerPower(3, columnLevel(cells.level, spec.grid.delay[d], spec.grid.maxColumnLevel[d]));
   });
   // Within-cell scatter Σ_C Σ_{i∈C} w_i (x_i − x̄_C)(y_i − ȳ_C) of each pair of currents:
   // what second moments computed from the cells' means lack (src/checks/helpers.ts adds it back).
