@@ -24,6 +24,7 @@ import { inverse } from "../../linalg/solve.ts";
 import { smallestEigenvalue } from "../../linalg/symmetricEigenvalues.ts";
 import { chiSquareSf } from "../../stats/chiSquare.ts";
 import { fmt, fmtInterval } from "../helpers.ts";
+import { integerPower } from "../../math/index.ts";
 
 type ThetaKey = "beta_bar" | "a_Q" | "a_N";
 const THETA: ThetaKey[] = ["beta_bar", "a_Q", "a_N"];
@@ -214,7 +215,7 @@ function describeQuantities(d: SamplesDataset, c: Candidate, names: string[], es
     const value = est[ig] / beta;
     // Delta method: ∂μ/∂γ = 1/β, ∂μ/∂β = −γ/β².
     const varMu = bIndex >= 0
-      ? cov[ig][ig] / beta ** 2 + (est[ig] ** 2 / beta ** 4) * cov[bIndex][bIndex] - (2 * est[ig] / beta ** 3) * cov[ig][bIndex]
+      ? cov[ig][ig] / beta ** 2 + (est[ig] ** 2 / integerPower(beta, 4)) * cov[bIndex][bIndex] - (2 * est[ig] / integerPower(beta, 3)) * cov[ig][bIndex]
       : cov[ig][ig] / beta ** 2;
     const s = Math.sqrt(Math.max(varMu, 0));
     return { name: label, value, interval: [value - z * s, value + z * s], declared: declaredMu, unit: "J", method: bIndex >= 0 ? "delta method on (β, γ = βμ) from the fit's covariance" : "Wald interval on γ = βμ from the fit's covariance, divided by the declared β" };

@@ -9,6 +9,7 @@ import type { CheckContext, CheckDefinition, CheckResult, Status } from "../type
 import type { PlotSpec } from "../plotSpec.ts";
 import type { Rng } from "../../stats/rng.ts";
 import { countingAssumptions, countingSources, resamplingUnits } from "../resamplingUnits.ts";
+import { exp, log } from "../../math/index.ts";
 
 export const MIN_REALISATIONS = 30;
 
@@ -143,11 +144,11 @@ export function integralFluctuationForDataset(d: SamplesDataset, ctx: CheckConte
   for (let i = 0; i < sigma.length; i++) if (-sigma[i] > maxExp) maxExp = -sigma[i];
   const shift = maxExp > MAX_EXPONENT ? maxExp - MAX_EXPONENT : 0;
   const u = new Float64Array(sigma.length);
-  for (let i = 0; i < sigma.length; i++) u[i] = Math.exp(-sigma[i] - shift);
+  for (let i = 0; i < sigma.length; i++) u[i] = exp(-sigma[i] - shift);
   // With conductor states, u depends on p̂ through the boundary term: ∂u/∂b = −u.
   const units = resamplingUnits(d, u, d.states ? u.map((x) => -x) : null);
   const boot = bootstrapRatio(units.u, units.v, units.weight, ctx.rngFor(d.sha256, "exp-average"), { resamples: ctx.settings.resamples });
-  const scale = Math.exp(shift);
+  const scale = exp(shift);
   const mean = boot.estimate * scale;
   const ciScaled = bcaInterval(boot, confidence);
   const ci: [number, number] = [ciScaled[0] * scale, ciScaled[1] * scale];

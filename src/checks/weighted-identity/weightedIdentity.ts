@@ -7,6 +7,7 @@ import { resolveSentence } from "../../stats/sampleSize.ts";
 import { fmt, fmtInterval, numberOption, perDataset } from "../helpers.ts";
 import type { CheckContext, CheckDefinition, CheckResult, Status, TableSpec } from "../types.ts";
 import { countingAssumptions, countingSources, resamplingUnits } from "../resamplingUnits.ts";
+import { exp } from "../../math/index.ts";
 
 /**
  * The weighted identity ⟨x (e^{−β̄W} + e^{−a·x})⟩ = 0 for each current x in
@@ -100,7 +101,7 @@ export function weightedIdentityForDataset(d: SamplesDataset, ctx: CheckContext)
       u[i] = (c.x[i] / scaleX) * g[i];
       v[i] = Math.abs(u[i]);
       if (du && dv) {
-        du[i] = -(c.x[i] / scaleX) * Math.exp(ax[i] - shift);
+        du[i] = -(c.x[i] / scaleX) * exp(ax[i] - shift);
         dv[i] = Math.sign(u[i]) * du[i];
       }
     }

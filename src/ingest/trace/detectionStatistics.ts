@@ -1,3 +1,4 @@
+import { exp } from "../../math/index.ts";
 /**
  * Dwell times between detected jumps and the events a detector of finite
  * bandwidth misses: a stay shorter than about 1/bandwidth is not resolved, so
@@ -29,7 +30,7 @@ export function detectionStatistics(times: Float64Array, states: Int32Array, ban
   }
   const list = [...by].sort((a, b) => a[0] - b[0]).map(([label, s]) => {
     const meanDwell = s.sum / s.stays;
-    return { label, stays: s.stays, meanDwell, short: s.short, missedFraction: tMin !== null ? 1 - Math.exp(-tMin / meanDwell) : null };
+    return { label, stays: s.stays, meanDwell, short: s.short, missedFraction: tMin !== null ? 1 - exp(-tMin / meanDwell) : null };
   });
   const parts = list.map((s) => `state ${s.label}: ${s.stays} stays of mean ${Number(s.meanDwell.toPrecision(3))} s${s.missedFraction !== null ? `, ${s.short} shorter than 1/bandwidth, about ${Number((100 * s.missedFraction).toPrecision(2))} % of stays expected below it and missed` : ""}`);
   const sentence = `${origin}: ${parts.join("; ")}.${tMin === null ? " No detector bandwidth is declared, so missed short stays are not estimated." : ` Stays shorter than 1/bandwidth = ${Number(tMin.toPrecision(3))} s are not resolved by the detector; missed stays remove pairs of jumps and bias the counts.`}`;

@@ -1,4 +1,5 @@
 import type { RowProblems } from "../../parquet/rowProblems.ts";
+import { integerPower } from "../../../math/index.ts";
 
 /**
  * A fixed-size binary number as NumPy and HDF5 store them: IEEE 754 binary16, binary32
@@ -26,9 +27,9 @@ export function halfToDouble(bits: number): number {
   const sign = bits & 0x8000 ? -1 : 1;
   const exponent = (bits >> 10) & 0x1f;
   const fraction = bits & 0x3ff;
-  if (exponent === 0) return sign * fraction * 2 ** -24; // subnormal (or zero)
+  if (exponent === 0) return sign * fraction * integerPower(2, -24); // subnormal (or zero)
   if (exponent === 0x1f) return fraction === 0 ? sign * Infinity : Number.NaN;
-  return sign * (1024 + fraction) * 2 ** (exponent - 25);
+  return sign * (1024 + fraction) * integerPower(2, exponent - 25);
 }
 
 // Integers of magnitude up to 2^53 are exactly representable as IEEE 754 doubles; above
