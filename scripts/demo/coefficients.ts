@@ -41,8 +41,7 @@ export function abInterferometerSweep(): DemoAudit {
       const S = mott + (s1 * B) / (1 + x * x);
       const Pi = T * (mott - (s1 * B) / (1 + x * x));
       const K = 0.95 * LORENZ_SOMMERFELD * G * T + Kph;
-      // Precise enough for the ±B evenness of G and K to be shown within the 5 % margin (lock-in averaging).
-      const u = { G: 0.0015 * G + 0.005e-6, S: 0.5e-6, Pi: 0.6e-6, K: 0.004 * K + 0.002e-12 };
+      const u = { G: 0.004 * G + 0.02e-6, S: 0.5e-6, Pi: 0.6e-6, K: 0.02 * K + 0.005e-12 };
       const draw = (v: number, s: number) => v + s * rng.normal();
       rows.push([
         Vg,
