@@ -24,7 +24,10 @@ function defaultBase(quantity: Quantity, ctx: DisplayContext): string {
   const joules = ctx.energyUnit === "J";
   if (quantity === "energy" || quantity === "chemical_potential") return joules ? "J" : "eV";
   if (quantity === "affinity") return joules ? "1/J" : "1/eV";
-  if (quantity === "heat_current") return joules ? "W" : "eV/s";
+  // Heat currents follow a declared electronvolt unit (meV/s beside energies in meV); without a declared
+  // energy unit (coefficient tables are in SI) they stay in watts: a megaelectronvolt per second
+  // misleads more than it helps.
+  if (quantity === "heat_current") return ctx.energyUnit === undefined || joules ? "W" : "eV/s";
   return QUANTITY_BASES[quantity][0];
 }
 

@@ -91,6 +91,11 @@ describe("SI prefixes (SI Brochure 9th ed., Table 7)", () => {
     expect(plain(quantityText(2.572294585886787e-20, "heat_current", { energyUnit: "J" }))).toBe("25.72 zW");
   });
 
+  test("without a declared energy unit (coefficient tables are SI) a heat current stays in watts", () => {
+    // 1.6 fW = 10 keV/s; the electronvolt form would need a kilo- or mega- prefix that reads as a particle energy.
+    expect(plain(quantityText(1.602176634e-15, "heat_current"))).toBe("1.602 fW");
+  });
+
   test("display: choices override the automatic unit", () => {
     expect(plain(quantityText(0.12, "temperature", { overrides: { temperature: "K" } }))).toBe("0.12 K");
     expect(plain(quantityText(3.204e-24, "energy", { overrides: { energy: "meV" } }))).toBe("0.02 meV");
