@@ -250,7 +250,8 @@ export function exchangeFluctuationForDataset(d: SamplesDataset, ctx: CheckConte
     });
     if (est === null || p === null) return;
     tests.push({ name: m.label, p, describe: `fitted ${m.label} = ${fmt(est)}${unit} differs from the declared ${fmt(m.declared)}${unit}` });
-    coefficientRows.push({ coefficient: m.terms.length ? `${m.label} (coefficient of ${m.channel.variable})` : m.channel.label, declared: m.declared, fitted: est, se, z: zScore, p });
+    // Each row names its unit (1/J for the energy channels, 1 for ΔN), so the report can show it in 1/meV.
+    coefficientRows.push({ coefficient: m.terms.length ? `${m.label} (coefficient of ${m.channel.variable})` : m.channel.label, unit: m.channel.unit || "1", declared: m.declared, fitted: est, se, z: zScore, p });
   });
   // A χ² that is not a number (weights beyond double precision) is no test rather than a crash.
   if (ratio.dof > 0 && !Number.isNaN(ratio.chiSquare)) tests.push({ name: "binned", p: ratio.pValue, describe: `the binned log-ratio departs from the line y = Σ (χ² = ${Number.isFinite(ratio.chiSquare) ? fmt(ratio.chiSquare) : "beyond double precision"}, ${ratio.dof} bins)` });
@@ -367,6 +368,7 @@ export function exchangeFluctuationForDataset(d: SamplesDataset, ctx: CheckConte
         title: "Fitted coefficients of ln P(z)/P(−z) = θ·z next to the declared ones",
         columns: [
           { key: "coefficient", label: "Coefficient" },
+          { key: "unit", label: "Unit" },
           { key: "declared", label: "Declared" },
           { key: "fitted", label: "Fitted" },
           { key: "se", label: "Standard error" },
