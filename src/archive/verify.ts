@@ -131,7 +131,8 @@ function checkDataFiles(auditDir: string, v: FrozenVersion): DataFileProblem[] {
     try {
       now = datasetDigest(auditDir, input.file, "file");
     } catch (err) {
-      if (!(err instanceof InputError)) throw err;
+      const gone = (err as NodeJS.ErrnoException).code === "ENOENT";
+      if (!(err instanceof InputError) && !gone) throw err;
       now = null; // gone, outside the audit, or no longer readable
     }
     if (now !== input.sha256) out.push({ dataset: input.id, file: input.file, frozen: input.sha256, now });
