@@ -176,6 +176,8 @@ function evaluate(d: SamplesDataset, input: ExplanationInput, c: Candidate, alph
   // Identified when AᵀV⁻¹A is non-singular; judged on its diagonally normalised form (unit-free).
   if (G.some((row, a) => !(row[a] > 0))) return unidentified;
   const normalised = G.map((row, a) => row.map((g, b) => g / Math.sqrt(G[a][a] * G[b][b])));
+  // Entries beyond double precision (a covariance of degenerate data) identify nothing.
+  if (normalised.some((row) => row.some((g) => !Number.isFinite(g)))) return unidentified;
   if (!(smallestEigenvalue(normalised) > 1e-9)) return unidentified;
   const cov = inverse(G);
   const r = input.combinations.map((m, j) => m.estimate - phi0[j]);
