@@ -6,6 +6,7 @@ import { ingestDefinition } from "../ingest/loadAudit.ts";
 import { canonicalJson } from "../report/canonicalJson.ts";
 import type { ResultDocument } from "../report/resultDocument.ts";
 import { resultDocumentOf, runChecks } from "../report/runAudit.ts";
+import { validateResultDocument } from "./resultSchema.ts";
 import { sha256Of } from "./digest.ts";
 import { checkArchive } from "./integrity.ts";
 import { DEFINITION_FILE, LOCK_FILE, MANIFEST_FILE, RESULT_FILE, VERSIONS_DIR, refuseLinkedVersions, removeStaleVersionStaging, versionDir, versionsDir } from "./layout.ts";
@@ -90,6 +91,9 @@ export async function publishAudit(auditDir: string, options: PublishOptions = {
   const audit = await ingestDefinition(auditDir, parseAuditDefinition(definitionText));
   const result = resultDocumentOf(audit, runChecks(audit));
   const resultText = canonicalJson(result);
+  // What build and verify will demand of the frozen document, demanded before it is frozen: a version
+  // that could never verify is not published.
+  validateResultDocument(JSON.parse(resultText), "the result to publish");
 
   const publishedAt = now(); // the one clock reading: the publication date
   refuseLinkedVersions(auditDir);

@@ -81,7 +81,7 @@ export async function loadTrace(config: TraceDatasetConfig, filePath: string, ke
       throw new DataError(`${where}.windows[${k}]: ${length} ${config.time_unit} leaves ${n} whole window${n === 1 ? "" : "s"} in a trace of ${(times[times.length - 1] - times[0]) / scale} ${config.time_unit}; choose shorter windows`);
     }
     const samplesConfig: SamplesDatasetConfig = {
-      id: `${config.id} τ=${length} ${config.time_unit}`,
+      id: windowDatasetId(config.id, length, config.time_unit),
       kind: "samples",
       file: config.file,
       columns: { dE_A: "dE_A", dE_B: "dE_B", dN_A: "dN_A", dN_B: "dN_B", state_start: "state_start", state_end: "state_end" },
@@ -110,4 +110,14 @@ export async function loadTrace(config: TraceDatasetConfig, filePath: string, ke
     });
   }
   return out;
+}
+
+/**
+ * The id of the samples dataset cut at one window length: `<trace id>-tau-<length><unit>`
+ * (`dd3-trace-tau-2p5ns`), within the characters every dataset id uses (letters, digits,
+ * '-', '_'), so that result documents and published versions accept it.
+ */
+export function windowDatasetId(traceId: string, length: number, unit: string): string {
+  const digits = String(length).replace(".", "p").replace("e-", "em").replace("e+", "e");
+  return `${traceId}-tau-${digits}${unit === "µs" ? "us" : unit}`;
 }

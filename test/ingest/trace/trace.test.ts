@@ -71,7 +71,7 @@ describe("kind: trace", () => {
   it("builds one samples dataset per window length, with states, per-lead counts and blocks", async () => {
     const dir = tempAudit(TRACE_YAML, { "data/trace.csv": "t,s\n0,0\n0.3,1\n0.7,2\n1.2,0\n1.5,1\n2.5,2\n2.6,0\n3.1,0\n4.2,1\n" });
     const datasets = (await ingestAudit(dir)).datasets as SamplesDataset[];
-    expect(datasets.map((d) => d.id)).toEqual(["dd τ=1 ns", "dd τ=2 ns"]);
+    expect(datasets.map((d) => d.id)).toEqual(["dd-tau-1ns", "dd-tau-2ns"]);
     const one = datasets[0];
     expect(one.tau).toBe(1e-9);
     expect(one.config.series).toBe("dd");
