@@ -9,7 +9,7 @@ export type SampleRole = (typeof SAMPLE_ROLES)[number];
 export const ENERGY_UNITS = ["J", "eV", "meV", "ueV", "µeV", "kT"] as const;
 
 /** A reservoir is given by its temperature (K) or its inverse temperature (1/energy_unit). */
-const reservoirSchema = z
+export const reservoirSchema = z
   .object({
     T: positive("kelvin").optional(),
     beta: positive("inverse energy units").optional(),

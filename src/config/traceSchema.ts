@@ -1,6 +1,6 @@
 import { z } from "zod";
 import { datasetId, finite, positive, relativeFile, text } from "./common.ts";
-import { ENERGY_UNITS, stateDistributionSchema } from "./samplesSchema.ts";
+import { ENERGY_UNITS, reservoirSchema, stateDistributionSchema } from "./samplesSchema.ts";
 
 /**
  * A `trace` dataset: the conductor's state against time, from which windows of
@@ -12,14 +12,6 @@ import { ENERGY_UNITS, stateDistributionSchema } from "./samplesSchema.ts";
  */
 export const TIME_UNITS = ["s", "ms", "us", "µs", "ns", "ps"] as const;
 
-const reservoirSchema = z
-  .object({
-    T: positive("kelvin").optional(),
-    beta: positive("inverse energy units").optional(),
-    mu: finite("energy units").default(0),
-  })
-  .strict()
-  .refine((r) => (r.T === undefined) !== (r.beta === undefined), { message: "must give exactly one of T (kelvin) or beta (per energy unit)" });
 
 const stateLabel = z.number({ required_error: "is required", invalid_type_error: "must be an integer state label" }).int("must be an integer state label");
 
