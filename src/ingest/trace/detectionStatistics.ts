@@ -1,4 +1,4 @@
-import { exp } from "../../math/index.ts";
+import { exp, integerPower } from "../../math/index.ts";
 /**
  * Dwell times between detected jumps and the events a detector of finite
  * bandwidth misses: a stay shorter than about 1/bandwidth is not resolved, so
@@ -32,7 +32,16 @@ export function detectionStatistics(times: Float64Array, states: Int32Array, ban
     const meanDwell = s.sum / s.stays;
     return { label, stays: s.stays, meanDwell, short: s.short, missedFraction: tMin !== null ? 1 - exp(-tMin / meanDwell) : null };
   });
-  const parts = list.map((s) => `state ${s.label}: ${s.stays} stays of mean ${Number(s.meanDwell.toPrecision(3))} s${s.missedFraction !== null ? `, ${s.short} shorter than 1/bandwidth, about ${Number((100 * s.missedFraction).toPrecision(2))} % of stays expected below it and missed` : ""}`);
+  const parts = list.map((s) => `state ${s.label}: ${s.stays} stays of mean ${secondsText(s.meanDwell)}${s.missedFraction !== null ? `, ${s.short} shorter than 1/bandwidth, about ${Number((100 * s.missedFraction).toPrecision(2))} % of stays expected below it and missed` : ""}`);
   const sentence = `${origin}: ${parts.join("; ")}.${tMin === null ? " No detector bandwidth is declared, so missed short stays are not estimated." : ` Stays shorter than 1/bandwidth = ${Number(tMin.toPrecision(3))} s are not resolved by the detector; missed stays remove pairs of jumps and bias the counts.`}`;
   return { states: list, bandwidth, sentence };
+}
+
+const TIME_PREFIXES: [number, string][] = [[0, "s"], [-3, "ms"], [-6, "µs"], [-9, "ns"], [-12, "ps"], [-15, "fs"]];
+
+/** A duration in seconds with three significant digits and the SI prefix that keeps it at 1 or more (SI Brochure, 9th ed., Table 7). */
+export function secondsText(seconds: number): string {
+  if (!(seconds > 0) || !Number.isFinite(seconds)) return `${seconds} s`;
+  const [power, unit] = TIME_PREFIXES.find(([p]) => seconds >= integerPower(10, p)) ?? TIME_PREFIXES[TIME_PREFIXES.length - 1];
+  return `${Number((seconds / integerPower(10, power)).toPrecision(3))} ${unit}`;
 }
