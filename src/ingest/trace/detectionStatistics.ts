@@ -33,7 +33,7 @@ export function detectionStatistics(times: Float64Array, states: Int32Array, ban
     return { label, stays: s.stays, meanDwell, short: s.short, missedFraction: tMin !== null ? 1 - exp(-tMin / meanDwell) : null };
   });
   const parts = list.map((s) => `state ${s.label}: ${s.stays} stays of mean ${secondsText(s.meanDwell)}${s.missedFraction !== null ? `, ${s.short} shorter than 1/bandwidth, about ${Number((100 * s.missedFraction).toPrecision(2))} % of stays expected below it and missed` : ""}`);
-  const sentence = `${origin}: ${parts.join("; ")}.${tMin === null ? " No detector bandwidth is declared, so missed short stays are not estimated." : ` Stays shorter than 1/bandwidth = ${Number(tMin.toPrecision(3))} s are not resolved by the detector; missed stays remove pairs of jumps and bias the counts.`}`;
+  const sentence = `${origin}: ${parts.join("; ")}.${tMin === null ? " No detector bandwidth is declared, so missed short stays are not estimated." : ` Stays shorter than 1/bandwidth = ${secondsText(tMin)} are not resolved by the detector; missed stays remove pairs of jumps and bias the counts.`}`;
   return { states: list, bandwidth, sentence };
 }
 
