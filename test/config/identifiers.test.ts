@@ -10,23 +10,9 @@ import { describe, expect, it } from "vitest";
 import { parseAuditDefinition } from "../../src/config/loadAudit.ts";
 import { ConfigError } from "../../src/errors.ts";
 import { thrownBy } from "../helpers/thrown.ts";
+import { minimalAuditYaml } from "./minimalAudit.ts";
 
-const withDoi = (doi: string) => `id: demo-audit
-title: A demo
-doi: ${doi}
-authors:
-  - { name: "A. Person" }
-datasets:
-  - id: run-1
-    kind: samples
-    file: data/run.csv
-    columns: { Q: q, dN: n }
-    energy_unit: meV
-    reservoirs:
-      A: { T: 1.3, mu: 0 }
-      B: { T: 1.0, mu: 0 }
-    work: zero
-`;
+const withDoi = (doi: string) => minimalAuditYaml(`doi: ${doi}\n`);
 
 const EXPECTED =
   "must be a DOI written 10.<registrant>/<suffix>, such as 10.5281/zenodo.1234567 (registrant: digits and dots; suffix: printable characters other than white space, braces, backslash and double quote)";

@@ -10,17 +10,9 @@ import { describe, expect, it } from "vitest";
 import { loadAuditDefinition, parseAuditDefinition } from "../../src/config/loadAudit.ts";
 import { ConfigError } from "../../src/errors.ts";
 import { thrownBy } from "../helpers/thrown.ts";
+import { samplesDatasetYaml } from "./minimalAudit.ts";
 
-const dataset = (i: number) => `  - id: run-${i}
-    kind: samples
-    file: data/run.csv
-    columns: { Q: q, dN: n }
-    energy_unit: meV
-    reservoirs:
-      A: { T: 1.3, mu: 0 }
-      B: { T: 1.0, mu: 0 }
-    work: zero
-`;
+const dataset = (i: number) => samplesDatasetYaml(`run-${i}`);
 
 const audit = (settings = "", extra = "", datasets = 1) =>
   `id: demo-audit

@@ -2,22 +2,9 @@ import { describe, expect, it } from "vitest";
 import { parseAuditDefinition } from "../../src/config/loadAudit.ts";
 import { ConfigError } from "../../src/errors.ts";
 import { thrownBy } from "../helpers/thrown.ts";
+import { minimalAuditYaml } from "./minimalAudit.ts";
 
-const valid = `id: demo-audit
-title: A demo
-authors:
-  - { name: "A. Person" }
-datasets:
-  - id: run-1
-    kind: samples
-    file: data/run.csv
-    columns: { Q: q, dN: n }
-    energy_unit: meV
-    reservoirs:
-      A: { T: 1.3, mu: 0 }
-      B: { T: 1.0, mu: 0 }
-    work: zero
-`;
+const valid = minimalAuditYaml();
 
 function messageOf(source: string): string {
   return thrownBy(ConfigError, () => parseAuditDefinition(source)).message;
