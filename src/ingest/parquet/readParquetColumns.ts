@@ -33,9 +33,11 @@ export async function* readOpenParquetColumns(
   options: { batchRows?: number } = {},
 ): AsyncGenerator<ParquetColumnBatch> {
   const batchRows = options.batchRows ?? DEFAULT_BATCH_ROWS;
-  if (!Number.isSafeInteger(batchRows) || batchRows < 1) throw new RangeError(`batchRows must be a positive integer, got ${batchRows}`);
   const wanted = [...new Set(columns)];
+  // Everything that can refuse sits inside the try: a refused call must close the file
+  // it was handed (Node 26 ends the process when a FileHandle is left to the collector).
   try {
+    if (!Number.isSafeInteger(batchRows) || batchRows < 1) throw new RangeError(`batchRows must be a positive integer, got ${batchRows}`);
     requireNumericColumns(open.metadata, label, wanted);
     const problems = new RowProblems(label);
     for (const range of planReads(open.metadata, wanted, batchRows)) {
