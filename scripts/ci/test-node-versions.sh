@@ -33,9 +33,10 @@ subset=(
 status=0
 for version in "${versions[@]}"; do
   dir=".ci-node/$version"
+  mkdir -p .ci-node
   if [ ! -x "$dir/node_modules/.bin/node" ]; then
     npm install --prefix "$dir" --no-audit --no-fund --no-save "node@$version" >"$dir.install.log" 2>&1 || {
-      mkdir -p "$dir"; echo "could not install node@$version (see $dir.install.log)"; status=1; continue; }
+      echo "could not install node@$version (see $dir.install.log)"; status=1; continue; }
   fi
   bin="$(cd "$(dirname "$(readlink -f "$dir/node_modules/.bin/node")")" && pwd)"
   echo "== Node $("$bin/node" --version) ($dir)"
