@@ -1,8 +1,8 @@
-import type { Dataset, IngestedAudit, SamplesDataset, CoefficientsDataset, CumulantsDataset } from "../ingest/types.ts";
+import type { Dataset, IngestedAudit, SamplesDataset, CoefficientsDataset, CumulantsDataset, TraceDataset } from "../ingest/types.ts";
 import type { CheckContext, CheckId, CheckResult } from "./types.ts";
 import { weightedMoments, type Moments } from "../stats/weightedMoments.ts";
 
-type KindMap = { samples: SamplesDataset; coefficients: CoefficientsDataset; cumulants: CumulantsDataset };
+type KindMap = { samples: SamplesDataset; coefficients: CoefficientsDataset; cumulants: CumulantsDataset; trace: TraceDataset };
 
 /** The audit's datasets of one kind, in definition order. */
 export function datasetsOfKind<K extends keyof KindMap>(audit: IngestedAudit, kind: K): KindMap[K][] {
@@ -88,4 +88,33 @@ export function currentMoments(d: SamplesDataset, x: Float64Array, name: "Q" | "
   if (extra === 0 || !(m.n > 1)) return m;
   const variance = m.variance + extra / (m.n - 1);
   return { ...m, variance, standardError: Math.sqrt(variance / m.n) };
+}
+
+// ── Traces whose lead is unresolved (src/ingest/types.ts TraceDataset) ─────────────────────────────────
+// Such a trace never reaches a check as samples: no window's per-lead transfers are known. Every check
+// that needs them reports the trace as not applicable, naming what is missing (called by runChecks).
+
+/** Checks that need what each lead gained in a realisation (Σ, Q, ΔN or W, or the count into one lead). */
+const NEEDS_LEAD_TRANSFERS: ReadonlySet<CheckId> = new Set<CheckId>([
+  "exchange-fluctuation",
+  "integral-fluctuation",
+  "second-law",
+  "work",
+  "weighted-identity",
+  "uncertainty-relation",
+  "linear-growth",
+  "steady-state-counting",
+]);
+
+/** Why a check of exchanged quantities cannot run on a trace whose lead is unresolved. */
+export function unresolvedLeadReason(d: TraceDataset): string {
+  return `the detector does not show which lead each electron used (audit.yaml declares lead: unresolved for ${d.unresolved.join(", ")}), so the particles and energy each lead gained, and with them the entropy production, are not in the data; a detector that resolves the direction of each transfer would supply them, for example a charge sensor on a serial double dot, whose states show from which side each electron entered. What the trace does determine (occupations, tunnelling rates, dwell times, missed events) is reported by tunnelling-rates.`;
+}
+
+/** Not-applicable results of one check for every trace whose lead is unresolved (none for checks that do not need per-lead transfers). */
+export function unresolvedLeadResults(audit: IngestedAudit, check: CheckId): CheckResult[] {
+  if (!NEEDS_LEAD_TRANSFERS.has(check)) return [];
+  return audit.datasets
+    .filter((d): d is TraceDataset => d.kind === "trace")
+    .map((d) => notApplicableResult({ check, dataset: d.id, reason: unresolvedLeadReason(d), values: { lead_resolved: false, unresolved_jumps: d.unresolved } }));
 }

@@ -12,6 +12,7 @@ import { uncertaintyRelation } from "./uncertainty-relation/uncertaintyRelation.
 import { fluctuationDissipation } from "./fluctuation-dissipation/fluctuationDissipation.ts";
 import { linearGrowth } from "./linear-growth/linearGrowth.ts";
 import { steadyStateCounting } from "./steady-state-counting/steadyStateCounting.ts";
+import { tunnellingRates } from "./tunnelling-rates/tunnellingRates.ts";
 
 /** Every check the tool knows, in the order the report lists them. Adding a check: one module, one line here. */
 export const CHECKS: readonly CheckDefinition[] = [
@@ -28,6 +29,7 @@ export const CHECKS: readonly CheckDefinition[] = [
   fluctuationDissipation,
   linearGrowth,
   steadyStateCounting,
+  tunnellingRates,
 ];
 
 export * from "./types.ts";

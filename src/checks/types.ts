@@ -18,6 +18,7 @@ export const CHECK_IDS = [
   "fluctuation-dissipation",
   "linear-growth",
   "steady-state-counting",
+  "tunnelling-rates",
 ] as const;
 export type CheckId = (typeof CHECK_IDS)[number];
 

@@ -15,16 +15,31 @@ export const TIME_UNITS = ["s", "ms", "us", "µs", "ns", "ps"] as const;
 
 const stateLabel = z.number({ required_error: "is required", invalid_type_error: "must be an integer state label" }).int("must be an integer state label");
 
+/**
+ * What one jump moves into each lead (absent amounts are zero), or `lead: unresolved`: the jump moves a
+ * particle between the conductor and a lead, but the detector cannot tell which lead (a charge sensor beside
+ * a single dot sees the occupation change, not the side it came from). No amounts may be given then: the
+ * tool does not guess them.
+ */
 const transitionSchema = z
   .object({
     from: stateLabel,
     to: stateLabel,
-    dN_A: finite("particles").default(0),
-    dN_B: finite("particles").default(0),
-    dE_A: finite("energy units").default(0),
-    dE_B: finite("energy units").default(0),
+    lead: z.literal("unresolved", { errorMap: () => ({ message: "must be unresolved (the detector cannot tell which lead the particle used), or left out" }) }).optional(),
+    dN_A: finite("particles").optional(),
+    dN_B: finite("particles").optional(),
+    dE_A: finite("energy units").optional(),
+    dE_B: finite("energy units").optional(),
   })
-  .strict();
+  .strict()
+  .superRefine((t, ctx) => {
+    if (t.lead !== "unresolved") return;
+    for (const key of ["dN_A", "dN_B", "dE_A", "dE_B"] as const) {
+      if (t[key] !== undefined) {
+        ctx.addIssue({ code: "custom", path: [key], message: "must not be given with lead: unresolved (which lead gains it is what the trace does not show); remove it, or remove lead: unresolved" });
+      }
+    }
+  });
 
 const thresholdsSchema = z
   .object({
@@ -45,8 +60,8 @@ export const traceDatasetSchema = z
     signal: z.enum(["transitions", "level"], { errorMap: () => ({ message: "must be transitions (time, state after each jump) or level (a sampled detector signal)" }) }),
     columns: z.object({ time: text("a column name"), state: text("a column name").optional(), level: text("a column name").optional() }).strict(),
     time_unit: z.enum(TIME_UNITS, { errorMap: () => ({ message: `must be one of ${TIME_UNITS.join(", ")}` }) }),
-    /** Window lengths in time_unit. */
-    windows: z.array(positive("time units")).min(1, "must list at least one window length"),
+    /** Window lengths in time_unit; required unless a transition's lead is unresolved (then nothing per window is known). */
+    windows: z.array(positive("time units")).min(1, "must list at least one window length").optional(),
     thresholds: thresholdsSchema.optional(),
     /** Detector bandwidth in Hz: dwell times shorter than 1/bandwidth are at risk of being missed. */
     bandwidth: positive("hertz").optional(),

@@ -1,4 +1,6 @@
-import type { AuditDefinition, CoefficientsDatasetConfig, CumulantsDatasetConfig, SamplesDatasetConfig } from "../config/types.ts";
+import type { AuditDefinition, CoefficientsDatasetConfig, CumulantsDatasetConfig, SamplesDatasetConfig, TraceDatasetConfig } from "../config/types.ts";
+import type { DetectionStatistics } from "./trace/detectionStatistics.ts";
+import type { StateOccupancy } from "./trace/traceOccupancy.ts";
 import type { Affinities, ReservoirState } from "../physics/affinities.ts";
 
 /** What the provenance table and the result document list for each input file. */
@@ -184,7 +186,26 @@ export interface CumulantsDataset extends DatasetRecord {
   u_dN: Float64Array | null;
 }
 
-export type Dataset = SamplesDataset | CoefficientsDataset | CumulantsDataset;
+/**
+ * A detector trace whose jumps do not say which lead each particle used (a jump declared `lead: unresolved`,
+ * as a charge sensor beside a single dot records it). The particles and energy each lead gained are not in
+ * the data, so no window samples are built and no check of the exchanged quantities sees this dataset (each
+ * reports it not applicable, naming what is missing); what the trace does determine is kept: the time spent
+ * in each state, the jumps out of it and its complete stays, and the detector's missed-event statistics.
+ */
+export interface TraceDataset extends DatasetRecord {
+  kind: "trace";
+  config: TraceDatasetConfig;
+  /** The jumps declared with an unresolved lead, written "0 → 1". */
+  unresolved: string[];
+  /** Length of the record, s. */
+  duration: number;
+  /** Per state: time spent, jumps out by destination, complete stays (s). */
+  states: StateOccupancy[];
+  detection: DetectionStatistics;
+}
+
+export type Dataset = SamplesDataset | CoefficientsDataset | CumulantsDataset | TraceDataset;
 
 export interface IngestedAudit {
   dir: string;

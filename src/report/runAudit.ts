@@ -1,5 +1,5 @@
 import { CHECKS } from "../checks/index.ts";
-import { notApplicableResult } from "../checks/helpers.ts";
+import { notApplicableResult, unresolvedLeadResults } from "../checks/helpers.ts";
 import type { CheckContext, CheckDefinition, CheckOptions, CheckResult } from "../checks/types.ts";
 import type { AuditDefinition } from "../config/types.ts";
 import { ingestAudit, type IngestOptions } from "../ingest/loadAudit.ts";
@@ -82,7 +82,7 @@ export function runChecks(audit: IngestedAudit, registry: readonly CheckDefiniti
   for (const selected of selectChecks(audit.definition, registry)) {
     const ctx = contextFor(audit.definition, selected.options, selected.definition.id);
     const { included, skipped } = restrictDatasets(audit, selected);
-    const out = selected.definition.run(included, ctx);
+    const out = [...selected.definition.run(included, ctx), ...unresolvedLeadResults(included, selected.definition.id)];
     if (out.length === 0 && selected.explicit && skipped.length === 0) {
       results.push(notApplicableResult({ check: selected.definition.id, dataset: "—", reason: `no dataset in this audit is of a kind that ${selected.definition.id} examines` }));
     }

@@ -1,4 +1,5 @@
 import { exp, integerPower } from "../../math/index.ts";
+import { traceOccupancy } from "./traceOccupancy.ts";
 /**
  * Dwell times between detected jumps and the events a detector of finite
  * bandwidth misses: a stay shorter than about 1/bandwidth is not resolved, so
@@ -18,20 +19,18 @@ export interface DetectionStatistics {
 
 export function detectionStatistics(times: Float64Array, states: Int32Array, bandwidth: number | null, origin: string): DetectionStatistics {
   const tMin = bandwidth ? 1 / bandwidth : null;
-  const by = new Map<number, { stays: number; sum: number; short: number }>();
-  for (let i = 1; i + 1 < times.length; i++) {
-    if (states[i] === states[i - 1]) continue;
-    const dwell = times[i + 1] - times[i];
-    const s = by.get(states[i]) ?? { stays: 0, sum: 0, short: 0 };
-    s.stays++;
-    s.sum += dwell;
-    if (tMin !== null && dwell < tMin) s.short++;
-    by.set(states[i], s);
-  }
-  const list = [...by].sort((a, b) => a[0] - b[0]).map(([label, s]) => {
-    const meanDwell = s.sum / s.stays;
-    return { label, stays: s.stays, meanDwell, short: s.short, missedFraction: tMin !== null ? 1 - exp(-tMin / meanDwell) : null };
-  });
+  const list = traceOccupancy(times, states)
+    .states.filter((s) => s.dwells.length > 0)
+    .map(({ label, dwells }) => {
+      let sum = 0;
+      let short = 0;
+      for (const dwell of dwells) {
+        sum += dwell;
+        if (tMin !== null && dwell < tMin) short++;
+      }
+      const meanDwell = sum / dwells.length;
+      return { label, stays: dwells.length, meanDwell, short, missedFraction: tMin !== null ? 1 - exp(-tMin / meanDwell) : null };
+    });
   const parts = list.map((s) => `state ${s.label}: ${s.stays} stays of mean ${secondsText(s.meanDwell)}${s.missedFraction !== null ? `, ${s.short} shorter than 1/bandwidth, about ${Number((100 * s.missedFraction).toPrecision(2))} % of stays expected below it and missed` : ""}`);
   const sentence = `${origin}: ${parts.join("; ")}.${tMin === null ? " No detector bandwidth is declared, so missed short stays are not estimated." : ` Stays shorter than 1/bandwidth = ${secondsText(tMin)} are not resolved by the detector; missed stays remove pairs of jumps and bias the counts.`}`;
   return { states: list, bandwidth, sentence };

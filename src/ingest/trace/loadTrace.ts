@@ -1,14 +1,15 @@
-import { DataError } from "../../errors.ts";
+import { ConfigError, DataError } from "../../errors.ts";
 import type { SamplesDatasetConfig, TraceDatasetConfig } from "../../config/types.ts";
 import { readSourceTable } from "../sources/readSourceTable.ts";
 import { layoutSettings } from "../sources/layoutSettings.ts";
 import { samplesFromColumns } from "../samples.ts";
-import type { SamplesDataset } from "../types.ts";
+import type { SamplesDataset, TraceDataset } from "../types.ts";
 import { blockLengthFor } from "./blockLength.ts";
 import { cutWindows } from "./cutWindows.ts";
 import { detectionStatistics } from "./detectionStatistics.ts";
 import { detectTransitions } from "./hysteresis.ts";
-import { mapJumps } from "./transitionMap.ts";
+import { mapJumps, unresolvedJumps } from "./transitionMap.ts";
+import { traceOccupancy } from "./traceOccupancy.ts";
 
 const SECONDS: Record<TraceDatasetConfig["time_unit"], number> = { s: 1, ms: 1e-3, us: 1e-6, "µs": 1e-6, ns: 1e-9, ps: 1e-12 };
 
@@ -16,10 +17,16 @@ const SECONDS: Record<TraceDatasetConfig["time_unit"], number> = { s: 1, ms: 1e-
  * A `trace` dataset: the conductor's state against time, cut into windows of
  * each declared length; one samples dataset per length (sharing the series
  * named by `series`, or the trace's id), with the states at both ends of every
- * window and blocks of consecutive windows for the block bootstrap.
+ * window and blocks of consecutive windows for the block bootstrap. When a
+ * jump's lead is declared unresolved, one TraceDataset instead: the time in
+ * each state and the jumps out of it, and nothing per lead.
  */
-export async function loadTrace(config: TraceDatasetConfig, filePath: string, keyPath: string, auditDir: string): Promise<SamplesDataset[]> {
+export async function loadTrace(config: TraceDatasetConfig, filePath: string, keyPath: string, auditDir: string): Promise<(SamplesDataset | TraceDataset)[]> {
   const where = `audit.yaml ${keyPath}`;
+  const unresolved = unresolvedJumps(config);
+  if (config.windows === undefined && unresolved.length === 0) {
+    throw new ConfigError(`${where}.windows: is required: list the window lengths (in ${config.time_unit}) to cut the trace into, e.g. windows: [3, 8]`);
+  }
   const valueColumn = config.signal === "transitions" ? config.columns.state : config.columns.level;
   if (valueColumn === undefined) {
     throw new DataError(`${where}.columns: signal ${config.signal} needs the ${config.signal === "transitions" ? "state" : "level"} column mapped`);
@@ -71,9 +78,15 @@ export async function loadTrace(config: TraceDatasetConfig, filePath: string, ke
   if (times.length < 2) throw new DataError(`${config.file}: the trace holds ${times.length} known state${times.length === 1 ? "" : "s"}; at least a start and one more row are needed to cut windows`);
   const jumps = mapJumps(config, states, rowOf, where);
   const detection = detectionStatistics(times, states, config.bandwidth ?? null, origin);
+  if (unresolved.length > 0) {
+    // Which lead each particle used is not in the data: no window samples (they would need invented
+    // per-lead amounts), only what the trace determines.
+    const occupancy = traceOccupancy(times, states);
+    return [{ kind: "trace", id: config.id, file: config.file, sha256: table.sha256, rows: table.rows, format: table.format, config, unresolved, ...occupancy, detection }];
+  }
   const series = config.series ?? config.id;
   const out: SamplesDataset[] = [];
-  for (const [k, length] of config.windows.entries()) {
+  for (const [k, length] of config.windows!.entries()) {
     const tau = length * scale;
     const w = cutWindows(times, states, jumps, tau);
     const n = w.start.length;

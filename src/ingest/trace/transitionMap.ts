@@ -16,7 +16,7 @@ export interface TraceTransition {
  */
 export function mapJumps(config: TraceDatasetConfig, states: Int32Array, rowOf: (i: number) => string, where: string): (TraceTransition | null)[] {
   const map = new Map<string, TraceTransition>();
-  for (const t of config.transitions) map.set(`${t.from}>${t.to}`, t);
+  for (const t of config.transitions) map.set(`${t.from}>${t.to}`, { dN_A: t.dN_A ?? 0, dN_B: t.dN_B ?? 0, dE_A: t.dE_A ?? 0, dE_B: t.dE_B ?? 0 });
   const out: (TraceTransition | null)[] = [null];
   const unknown = new Map<string, string>();
   for (let i = 1; i < states.length; i++) {
@@ -34,4 +34,9 @@ export function mapJumps(config: TraceDatasetConfig, states: Int32Array, rowOf: 
     throw new DataError(`${config.file}: the trace jumps ${list}, which ${where}.transitions does not map; add what each such jump moves into lead A and lead B (dN_A, dN_B, dE_A, dE_B)`);
   }
   return out;
+}
+
+/** The jumps audit.yaml declares with `lead: unresolved`, written `0 → 1`; empty when every jump's lead is known. */
+export function unresolvedJumps(config: TraceDatasetConfig): string[] {
+  return config.transitions.filter((t) => t.lead === "unresolved").map((t) => `${t.from} → ${t.to}`);
 }
