@@ -1,19 +1,18 @@
 import fs from "node:fs";
 import path from "node:path";
-import { ConfigError, DataError, newProblemLog, type ProblemLog } from "../errors.ts";
+import { ConfigError, DataError, newProblemLog } from "../errors.ts";
 import type { SamplesDatasetConfig } from "../config/types.ts";
 import { joulesPerEnergyUnit, type EnergyUnit } from "../physics/energyUnits.ts";
-import { affinities, reservoirFromBeta, reservoirFromTemperature, type Affinities, type ReservoirState } from "../physics/affinities.ts";
-import { conductorStates, stateLabels } from "./conductorStates.ts";
+import { affinities, reservoirFromBeta, reservoirFromTemperature, type ReservoirState } from "../physics/affinities.ts";
+import { conductorStates } from "./conductorStates.ts";
 import { entropyProduction } from "../physics/entropyProduction.ts";
-import { REDUCE_ABOVE_BYTES, type ReducedFields, type ReduceInput } from "./reduce/reduceSamples.ts";
+import type { ReducedFields, ReduceInput } from "./reduce/reduceSamples.ts";
 import { readSamplesSource, type SamplesReadOptions, type SamplesRows } from "./reduce/samplesSource.ts";
 import { listParts } from "./sources/parts.ts";
 import { confinePath } from "../config/confinePath.ts";
 import { layoutSettings } from "./sources/layoutSettings.ts";
-import { formatRowProblems } from "./samplesRows.ts";
-import { logSigmaOverflow, sampleRowsOf, type SampleRole, type SampleRoles } from "./samplesRows.ts";
-import type { ConductorStates, SamplesDataset } from "./types.ts";
+import { conductorRowsOf, formatRowProblems, logSigmaOverflow, sampleRowsOf, subtractHeldParticles, type SampleRole, type SampleRoles } from "./samplesRows.ts";
+import type { SamplesDataset } from "./types.ts";
 
 function reservoirState(r: SamplesDatasetConfig["reservoirs"]["A"], joules: number): ReservoirState {
   const mu = r.mu * joules;
@@ -60,41 +59,20 @@ export async function loadSamples(
   const request = (file: string, label: string) => ({ filePath: file, label, auditDir, keyPath, columns, settings });
   const requests = parts ? parts.map((p) => request(confinePath(auditDir, p, `${keyPath}.file`), p)) : [request(filePath, config.file)];
   const partBytes = parts ? requests.map((r) => fs.statSync(r.filePath).size) : undefined;
-  const input = { label: config.file, joules, affinity, workZero: config.work === "zero" };
-  const conductor: ConductorInput = { roles, A, B, declared: config.state_distribution, file: config.file, where };
-  if (conductorHeld(roles)) {
-    const bytes = partBytes ? partBytes.reduce((a, b) => a + b, 0) : fileSize(filePath);
-    const limit = options.reduceAboveBytes ?? REDUCE_ABOVE_BYTES;
-    // Summarising into cells would pool realisations with different end states; several parts would be
-    // concatenated without their states. Neither is supported yet.
-    if (bytes > limit || parts) {
-      throw new ConfigError(
-        `${where}.columns: ${config.file} is ${parts ? "a multi-part dataset" : `larger than ${Math.round(limit / 2 ** 20)} MB and would be summarised while read`}, which does not yet keep the conductor's states or per-lead particle counts (state_start, state_end, dN_A, dN_B); give the windows as one histogram file with a count column`,
-      );
-    }
-  }
-  const exact = (part: ReduceInput, rows: RawSamples) => exactFields(part, rows, rows.located, conductorHeld(roles) ? conductor : undefined);
+  const input = { label: config.file, joules, affinity, workZero: config.work === "zero", meanBetaMu: meanBetaMuOf(A, B) };
+  const exact = (part: ReduceInput, rows: RawSamples) => exactFields(part, rows, rows.located);
   const { fields, format } = await readSamplesSource(requests, input, exact, { ...options, partBytes });
   const stated = parts ? `${parts.length} part(s) of ${format}` : format;
-  return { kind: "samples" as const, id: config.id, file: config.file, format: stated, ...base, ...fields };
+  const finished = withConductorStates(fields, { declared: config.state_distribution, file: config.file, where, startColumn: String(roles.state_start) });
+  return { kind: "samples" as const, id: config.id, file: config.file, format: stated, ...base, ...finished };
 }
 
 /** Raw columns of a whole file (declared units), with each row's line (text) or 1-based row number (binary). */
 type RawSamples = SamplesRows;
 
-/** What the conductor-state roles need besides the rows. */
-interface ConductorInput {
-  roles: SampleRoles;
-  A: ReservoirState;
-  B: ReservoirState;
-  declared: Record<string, number> | undefined;
-  file: string;
-  where: string;
-}
-
-/** Whether the data describe a conductor that holds particles (state or per-lead particle columns). */
-function conductorHeld(roles: SampleRoles): boolean {
-  return roles.state_start !== undefined || roles.state_end !== undefined || roles.dN_A !== undefined || roles.dN_B !== undefined;
+/** (β_Aμ_A + β_Bμ_B)/2: what each particle the leads gained together adds to −Σ_res (physics.md §4b). */
+function meanBetaMuOf(A: ReservoirState, B: ReservoirState): number {
+  return (A.beta * A.mu + B.beta * B.mu) / 2;
 }
 
 /** The state and per-lead particle roles go in pairs, and replace dN. */
@@ -113,73 +91,45 @@ function checkStateRoles(roles: SampleRoles, config: SamplesDatasetConfig, where
   }
 }
 
-/**
- * Per-lead particle counts and the conductor's states: the particle current becomes the symmetric split
- * (dN_B − dN_A)/2 (as Q is for energy), the particles the conductor keeps, −(dN_A + dN_B), add
- * −(β_Aμ_A + β_Bμ_B)/2 · (dN_A + dN_B) to Σ_res = Σ_X β_X (ΔE_X − μ_X ΔN_X) (physics.md §4b), and with
- * states Σ becomes Σ_tot = Σ_res + ln p(x₀) − ln p(x_τ) (Seifert, PRL 95, 040602 (2005)).
- */
-function conductorFields(
-  c: ConductorInput,
-  raw: Partial<Record<SampleRole, Float64Array>>,
-  table: RawSamples,
-  affinity: Affinities,
-  W: Float64Array,
-  Q: Float64Array,
-  weight: Float64Array | null,
-  problems: ProblemLog,
-): { dN: Float64Array | null; sigma: Float64Array | null; states: ConductorStates | null; leadParticles: { A: Float64Array; B: Float64Array } | null } {
-  const n = table.rows;
-  let dN: Float64Array | null = null;
-  let held: Float64Array | null = null;
-  if (raw.dN_A && raw.dN_B) {
-    dN = new Float64Array(n);
-    held = new Float64Array(n);
-    for (let i = 0; i < n; i++) {
-      dN[i] = (raw.dN_B[i] - raw.dN_A[i]) / 2;
-      held[i] = raw.dN_A[i] + raw.dN_B[i];
-    }
-  }
-  if (raw.state_start && raw.state_end) {
-    stateLabels(raw.state_start, n, table.lines, c.roles.state_start!, problems);
-    stateLabels(raw.state_end, n, table.lines, c.roles.state_end!, problems);
-  }
-  const leadParticles = raw.dN_A && raw.dN_B ? { A: Float64Array.from(raw.dN_A.subarray(0, n)), B: Float64Array.from(raw.dN_B.subarray(0, n)) } : null;
-  if (!held && !raw.state_start) return { dN: null, sigma: null, states: null, leadParticles };
-  const sigmaRes = entropyProduction(affinity, W, Q, dN ?? Float64Array.from(raw.dN ?? new Float64Array(n)));
-  if (held) {
-    const meanBetaMu = (c.A.beta * c.A.mu + c.B.beta * c.B.mu) / 2;
-    for (let i = 0; i < n; i++) sigmaRes[i] -= meanBetaMu * held[i];
-  }
-  if (!raw.state_start || problems.count > 0) return { dN, sigma: sigmaRes, states: null, leadParticles };
-  const states = conductorStates({
-    start: raw.state_start,
-    end: raw.state_end!,
-    weight,
-    sigmaReservoirs: sigmaRes,
-    declared: c.declared,
-    file: c.file,
-    where: c.where,
-    startColumn: c.roles.state_start!,
-  });
-  const sigma = new Float64Array(n);
-  for (let i = 0; i < n; i++) sigma[i] = sigmaRes[i] + states.boundary[i];
-  return { dN, sigma, states, leadParticles };
+/** Where the stationary distribution comes from, and the names messages use. */
+interface StateSettings {
+  declared: Record<string, number> | undefined;
+  file: string;
+  where: string;
+  startColumn: string;
 }
 
-/** Every row kept as read: the dataset's arrays straight from the rows. */
-function exactFields(input: ReduceInput, table: RawSamples, located: RawSamples["located"], conductor?: ConductorInput): ReducedFields & Pick<SamplesDataset, "states" | "leadParticles"> {
+/**
+ * The conductor's states of the whole dataset (every part, every row or cell): the stationary distribution
+ * estimated from all start states (or declared), and Σ = Σ_tot = Σ_res + ln p(x₀) − ln p(x_τ) (Seifert,
+ * PRL 95, 040602 (2005)). The rows' or cells' Σ_res come in `stateRows`; without states the fields are
+ * returned as they are. Done once, after the parts are joined, so that p is that of the whole dataset.
+ */
+function withConductorStates(fields: ReducedFields, s: StateSettings): Omit<ReducedFields, "stateRows"> & Pick<SamplesDataset, "states"> {
+  const { stateRows, ...rest } = fields;
+  if (!stateRows) return { ...rest, states: null };
+  const states = conductorStates({ ...stateRows, weight: fields.weight, ...s });
+  const sigma = new Float64Array(states.boundary.length);
+  for (let i = 0; i < sigma.length; i++) sigma[i] = stateRows.sigmaReservoirs[i] + states.boundary[i];
+  return { ...rest, sigma, states };
+}
+
+/**
+ * Every row kept as read: the dataset's arrays straight from the rows. With per-lead particle columns the
+ * particle current is their symmetric split and Σ the reservoirs' part Σ_res; with states, the start and end
+ * labels wait in `stateRows` for withConductorStates.
+ */
+function exactFields(input: ReduceInput, table: RawSamples, located: RawSamples["located"]): ReducedFields {
   const problems = newProblemLog();
   const rows = sampleRowsOf(table.raw, input.roles, input.joules, table.rows, table.lines, problems);
+  const conductor = conductorRowsOf(table.raw, input.roles, table.rows, table.lines, problems);
   if (problems.count > 0) throw new DataError(formatRowProblems(input.label, problems, located));
   const W_data = rows.W_data;
   const W = input.workZero ? new Float64Array(table.rows) : W_data!;
   const realisations = rows.weight ? rows.weight.reduce((a, c) => a + c, 0) : table.rows;
   if (rows.weight && realisations === 0) throw new DataError(`${input.label}: every count in column "${input.roles.count}" is zero; there are no realisations`);
-  const held = conductor ? conductorFields(conductor, table.raw, table, input.affinity, W, rows.Q, rows.weight, problems) : { dN: null, sigma: null, states: null, leadParticles: null };
-  if (problems.count > 0) throw new DataError(formatRowProblems(input.label, problems, located));
-  const dN = held.dN ?? rows.dN ?? new Float64Array(table.rows);
-  const sigma = held.sigma ?? entropyProduction(input.affinity, W, rows.Q, dN);
+  const dN = conductor?.dN ?? rows.dN ?? new Float64Array(table.rows);
+  const sigma = subtractHeldParticles(entropyProduction(input.affinity, W, rows.Q, dN), conductor?.held ?? null, input.meanBetaMu ?? 0);
   logSigmaOverflow(sigma, table.lines, input.roles.Q ?? input.roles.dE_B!, problems);
   if (problems.count > 0) throw new DataError(formatRowProblems(input.label, problems, located));
   return {
@@ -195,12 +145,10 @@ function exactFields(input: ReduceInput, table: RawSamples, located: RawSamples[
     realisations,
     sigma,
     reduction: null,
-    states: held.states,
-    leadParticles: held.leadParticles,
+    leadParticles: conductor?.dN_A ? { A: conductor.dN_A, B: conductor.dN_B! } : null,
+    stateRows: conductor?.start ? { start: conductor.start, end: conductor.end!, sigmaReservoirs: sigma } : null,
   };
 }
-
-
 
 /** Units, reservoirs and affinities of a samples dataset: what it needs before its rows. */
 function samplesHead(config: SamplesDatasetConfig, where: string) {
@@ -236,16 +184,8 @@ export function samplesFromColumns(
   const roles = config.columns as SampleRoles;
   checkStateRoles(roles, config, where);
   const { base, A, B, joules, affinity } = samplesHead(config, where);
-  const input: ReduceInput = { label: config.file, roles, joules, affinity, workZero: config.work === "zero" } as ReduceInput;
-  const conductor: ConductorInput = { roles, A, B, declared: config.state_distribution, file: config.file, where };
-  const fields = exactFields(input, { raw, rows, lines, sha256, located: "row" } as RawSamples, "row", conductor);
-  return { kind: "samples" as const, id: config.id, file: config.file, format: "trace windows", ...base, ...fields };
-}
-
-function fileSize(filePath: string): number {
-  try {
-    return fs.statSync(filePath).size;
-  } catch {
-    return 0; // the reader words the problem
-  }
+  const input: ReduceInput = { label: config.file, roles, joules, affinity, workZero: config.work === "zero", meanBetaMu: meanBetaMuOf(A, B) };
+  const fields = exactFields(input, { raw, rows, lines, sha256, located: "row" }, "row");
+  const finished = withConductorStates(fields, { declared: config.state_distribution, file: config.file, where, startColumn: String(roles.state_start) });
+  return { kind: "samples" as const, id: config.id, file: config.file, format: "trace windows", ...base, ...finished };
 }

@@ -1,6 +1,7 @@
 import { formatCellProblems, formatRowNumberedProblems, MAX_REPORTED_PROBLEMS, recordProblem, type ProblemLog } from "../errors.ts";
 import { describeStoredNumber } from "../messageText.ts";
 import { logNonWholeParticleNumbers } from "./wholeNumber.ts";
+import { stateLabels } from "./conductorStates.ts";
 
 /**
  * Row rules of a `samples` dataset, shared by the whole-table reader and the
@@ -125,4 +126,57 @@ export const SIGMA_OVERFLOW = "the entropy production of this row is beyond doub
 /** Log every row whose Σ is not finite (energies so large, or temperatures so small, that it overflows). */
 export function logSigmaOverflow(sigma: ArrayLike<number>, lines: ArrayLike<number>, column: string, problems: ProblemLog): void {
   for (let i = 0; i < sigma.length; i++) if (!Number.isFinite(sigma[i])) recordProblem(problems, lines[i], column, SIGMA_OVERFLOW);
+}
+
+/**
+ * The columns of a conductor that holds particles (physics.md §4b), for a chunk of rows: each lead's
+ * particles (roles dN_A, dN_B, whole numbers), their symmetric split dN = (dN_B − dN_A)/2 (as Q is for
+ * energy) and their sum held = dN_A + dN_B (minus the particles the conductor kept), and the conductor's
+ * state at both ends (roles state_start, state_end, integer labels). Shared by the whole-table reader and
+ * the streaming reduction, so both form the same numbers. Null when no such role is mapped.
+ */
+export interface ConductorRows {
+  dN: Float64Array | null;
+  held: Float64Array | null;
+  dN_A: Float64Array | null;
+  dN_B: Float64Array | null;
+  start: Float64Array | null;
+  end: Float64Array | null;
+}
+
+export function conductorRowsOf(
+  raw: Partial<Record<SampleRole, Float64Array>>,
+  roles: SampleRoles,
+  rows: number,
+  lines: ArrayLike<number>,
+  problems: ProblemLog,
+): ConductorRows | null {
+  if (!raw.dN_A && !raw.state_start) return null;
+  const copy = (v: Float64Array | undefined) => (v ? Float64Array.from(v.subarray(0, rows)) : null);
+  const out: ConductorRows = { dN: null, held: null, dN_A: copy(raw.dN_A), dN_B: copy(raw.dN_B), start: copy(raw.state_start), end: copy(raw.state_end) };
+  if (out.dN_A && out.dN_B) {
+    logNonWholeParticleNumbers(out.dN_A, rows, lines, roles.dN_A!, problems);
+    logNonWholeParticleNumbers(out.dN_B, rows, lines, roles.dN_B!, problems);
+    out.dN = new Float64Array(rows);
+    out.held = new Float64Array(rows);
+    for (let i = 0; i < rows; i++) {
+      out.dN[i] = (out.dN_B[i] - out.dN_A[i]) / 2;
+      out.held[i] = out.dN_A[i] + out.dN_B[i];
+    }
+  }
+  if (out.start && out.end) {
+    stateLabels(out.start, rows, lines, roles.state_start!, problems);
+    stateLabels(out.end, rows, lines, roles.state_end!, problems);
+  }
+  return out;
+}
+
+/**
+ * The reservoirs' entropy production Σ_res = Σ_X β_X (ΔE_X − μ_X ΔN_X) of each row from Σ = β̄W + a_Q Q + a_N dN
+ * (`sigma`, changed in place) and the particles the leads gained together: with dN the symmetric split,
+ * Σ_res = Σ − (β_Aμ_A + β_Bμ_B)/2 · (dN_A + dN_B) (physics.md §4b). `meanBetaMu` is (β_Aμ_A + β_Bμ_B)/2.
+ */
+export function subtractHeldParticles(sigma: Float64Array, held: Float64Array | null, meanBetaMu: number): Float64Array {
+  if (held) for (let i = 0; i < sigma.length; i++) sigma[i] -= meanBetaMu * held[i];
+  return sigma;
 }

@@ -16,6 +16,9 @@ export function describeReduction(d: SamplesDataset): string | null {
     if (column === "sigma") continue;
     if (column === "betaW") widths.push(`β̄W in cells ${sig(step)} k_B wide`);
     else if (column === "dN") widths.push(step === 1 ? "equal ΔN" : `ΔN in cells of ${step} counts`);
+    else if (column === "dN_A" || column === "dN_B") widths.push(step === 1 ? `equal ${column}` : `${column} in cells of ${step} counts`);
+    else if (column === "state_end") continue;
+    else if (column === "state_start") widths.push("equal start and end states of the conductor (so Σ_tot and Σ_res differ by one number per cell)");
     else widths.push(`${column} in cells ${sig(step / d.energyUnit.joules)} ${unit} wide`);
   }
   const pooled = r.pooledFraction > 0

@@ -5,11 +5,11 @@ import type { Affinities } from "../../physics/affinities.ts";
 import { entropyProduction } from "../../physics/entropyProduction.ts";
 import type { RowChunk, ScanLayout } from "../fast/scanLines.ts";
 import { scanFileRange } from "../fast/scanRange.ts";
-import { sampleRowsOf, type SampleRole, type SampleRoles } from "../samplesRows.ts";
+import type { SampleRole, SampleRoles } from "../samplesRows.ts";
 import type { SamplesDataset, SamplesReduction } from "../types.ts";
 import { columnLevel, MAX_LEVEL, type CellTableData } from "./cellTable.ts";
 import { reduceInParts, workerBundle } from "./parallelReduce.ts";
-import { sigmaOfRows, type KeyColumn, type SampleColumn, type SamplesReductionSpec } from "./samplesSink.ts";
+import { reducedColumns, type KeyColumn, type SampleColumn, type SamplesReductionSpec } from "./samplesSink.ts";
 import { integerPower, log } from "../../math/index.ts";
 
 /**
@@ -85,12 +85,30 @@ export interface ReduceInput {
   joules: number;
   affinity: Affinities;
   workZero: boolean;
+  /**
+   * (β_Aμ_A + β_Bμ_B)/2, for data with per-lead particle columns: Σ_res = β̄W + a_Q Q + a_N dN − this ·
+   * (dN_A + dN_B) (samplesRows.ts subtractHeldParticles). Absent: 0.
+   */
+  meanBetaMu?: number;
 }
 
+/**
+ * The dataset's arrays as read (every row, or one entry a cell), before the conductor's states are joined:
+ * with state columns, `sigma` is the reservoirs' part Σ_res and `stateRows` holds each row's or cell's start
+ * and end labels (and the same Σ_res), from which src/ingest/samples.ts forms p and Σ_tot once for the whole
+ * dataset.
+ */
 export type ReducedFields = Pick<
   SamplesDataset,
-  "sha256" | "rows" | "W" | "W_data" | "Q" | "dN" | "dE_A" | "dE_B" | "weight" | "realisations" | "sigma" | "reduction"
->;
+  "sha256" | "rows" | "W" | "W_data" | "Q" | "dN" | "dE_A" | "dE_B" | "weight" | "realisations" | "sigma" | "reduction" | "leadParticles"
+> & { stateRows?: StateRows | null };
+
+/** Start and end state labels (as written) and Σ_res of each row or cell. */
+export interface StateRows {
+  start: Float64Array;
+  end: Float64Array;
+  sigmaReservoirs: Float64Array;
+}
 
 /** The spec of a summary from the first rows of a plain text file's byte ranges. */
 export function byteRangeSpec(input: ReduceInput, plan: ByteRangePlan, slotOfRole: Partial<Record<SampleRole, number>>, capacity = DEFAULT_CELL_CAPACITY): SamplesReductionSpec {
@@ -146,32 +164,39 @@ export function reductionSpec(input: ReduceInput, probe: RowChunk | null, slotOf
   const hasE = roles.dE_A !== undefined && roles.dE_B !== undefined;
   const hasW = roles.W !== undefined || hasE;
   const a = input.affinity;
-  const sigma = { cW: input.workZero ? 0 : a.beta_bar, cQ: a.a_Q, cN: a.a_N };
+  const sigma = { cW: input.workZero ? 0 : a.beta_bar, cQ: a.a_Q, cN: a.a_N, cHeld: input.meanBetaMu ?? 0 };
+  const perLead = roles.dN_A !== undefined;
+  const states = roles.state_start !== undefined;
   // The key resolves, on the same fine grid in units of k_B, the two quantities the
   // checks use inside exponentials: Σ and β̄W (e^−Σ, and e^−β̄W in the weighted
-  // currents and fluxes); the counts exactly; and Q only when those do not already
-  // fix it (equal temperatures, a_Q = 0), on a relative grid. Pooling then only
-  // mixes realisations whose Σ and β̄W agree to within a cell.
+  // currents and fluxes); the counts exactly (each lead's, where given); the
+  // conductor's states exactly (a cell holds one pair of end states, so the boundary
+  // term ln p(x₀) − ln p(x_τ) is one number per cell and Σ_tot = Σ_res + it); and Q
+  // only when those do not already fix it (equal temperatures, a_Q = 0), on a
+  // relative grid. Pooling then only mixes realisations whose Σ and β̄W agree to
+  // within a cell.
   const keyColumns: KeyColumn[] = ["sigma"];
   if (hasW) keyColumns.push("betaW");
   if (roles.dN !== undefined) keyColumns.push("dN");
+  if (perLead) keyColumns.push("dN_A", "dN_B");
+  if (states) keyColumns.push("state_start", "state_end");
   const transverse: SampleColumn | null = sigma.cQ === 0 ? "Q" : null;
   if (transverse) keyColumns.push(transverse);
   const storedColumns: SampleColumn[] = ["Q"];
   if (hasW) storedColumns.push("W");
-  if (roles.dN !== undefined) storedColumns.push("dN");
+  if (roles.dN !== undefined || perLead) storedColumns.push("dN");
   if (hasE) storedColumns.push("dE_A", "dE_B");
+  if (perLead) storedColumns.push("dN_A", "dN_B");
 
-  // The probe's rows in J.
+  // The probe's rows in J, as the sink forms them.
   const first = probe;
   const raw: Partial<Record<SampleRole, Float64Array>> = {};
   for (const [role, slot] of Object.entries(slotOfRole)) if (first) raw[role as SampleRole] = first.values[slot!];
-  const sample = first ? sampleRowsOf(raw, roles, input.joules, first.rows, first.lines, newProblemLog()) : null;
+  const sample = first ? reducedColumns(raw, { roles, joules: input.joules, sigma }, first.rows, first.lines, newProblemLog()) : null;
   const columnOf = (c: KeyColumn): Float64Array | null => {
     if (sample === null) return null;
-    if (c === "betaW") return sample.W_data ? sample.W_data.map((w) => a.beta_bar * w) : null;
-    if (c !== "sigma") return { Q: sample.Q, W: sample.W_data, dN: sample.dN, dE_A: sample.dE_A, dE_B: sample.dE_B }[c];
-    return sigmaOfRows(sample, sigma);
+    if (c === "betaW") return sample.rows.W_data ? sample.rows.W_data.map((w) => a.beta_bar * w) : null;
+    return c === "sigma" ? sample.sigma : sample.columns[c];
   };
 
   const step0 = new Float64Array(keyColumns.length);
@@ -180,7 +205,9 @@ export function reductionSpec(input: ReduceInput, probe: RowChunk | null, slotOf
   keyColumns.forEach((c, d) => {
     const values = columnOf(c);
     let maxAbs = 0;
-    let whole = c === "dN";
+    const counted = c === "dN" || c === "dN_A" || c === "dN_B";
+    const label = c === "state_start" || c === "state_end";
+    let whole = counted || label;
     if (values) {
       for (let i = 0; i < values.length; i++) {
         const v = values[i];
@@ -188,7 +215,12 @@ export function reductionSpec(input: ReduceInput, probe: RowChunk | null, slotOf
         if (!Number.isInteger(v)) whole = false;
       }
     }
-    if (whole) {
+    if (label) {
+      // A state label is never pooled with another (up to MAX_LEVEL; fieldsFromCells refuses a table that went past it).
+      step0[d] = 1;
+      delay[d] = Infinity;
+      maxLevel[d] = 0;
+    } else if (whole) {
       step0[d] = 1;
       // Counts stay apart at every level, unless the start of the file already shows so many
       // distinct counts that they alone could fill the table: then they widen with Σ, and Σ's
@@ -206,7 +238,7 @@ export function reductionSpec(input: ReduceInput, probe: RowChunk | null, slotOf
   });
   const keyValues = keyColumns.map((c) => columnOf(c));
   const startLevel =
-    sample === null || keyValues.some((v) => v === null) ? 0 : levelForProbe(keyValues as Float64Array[], sample.rows, step0, delay, maxLevel, capacity / 8);
+    sample === null || keyValues.some((v) => v === null) ? 0 : levelForProbe(keyValues as Float64Array[], sample.rows.rows, step0, delay, maxLevel, capacity / 8);
   return {
     label: input.label,
     roles,
@@ -354,11 +386,16 @@ export function fieldsFromCells(
   // of the cell's column means) exceeds Σ*_C by at most the cell's Σ range
   // (Jensen), which `maxSigmaSpread` reports.
   const sigmaMean = entropyProduction(input.affinity, W, Q, dN);
+  const perLead = spec.storedColumns.includes("dN_A");
+  const stateKeys = spec.keyColumns.includes("state_start");
   const sigma = new Float64Array(n);
   for (let i = 0; i < n; i++) {
     const star = cells.sigmaRef[i] - log(cells.expSum[i] / cells.count[i]);
-    // Σ* lies in the cell's range; keep the mean where the range is a single value (no rounding drift).
-    sigma[i] = cells.sigmaMax[i] === cells.sigmaMin[i] ? sigmaMean[i] : Math.min(cells.sigmaMax[i], Math.max(cells.sigmaMin[i], star));
+    // Σ* lies in the cell's range; where the range is a single value, every realisation in the cell has that Σ:
+    // keep it (no rounding drift). Two-point data keep the Σ of the cell's means there, as they always have;
+    // data of a conductor keep the realisations' own Σ_res (the means would need the held particles again).
+    const single = perLead || stateKeys ? cells.sigmaMin[i] : sigmaMean[i];
+    sigma[i] = cells.sigmaMax[i] === cells.sigmaMin[i] ? single : Math.min(cells.sigmaMax[i], Math.max(cells.sigmaMin[i], star));
   }
   let realisations = 0;
   let pooled = 0;
@@ -408,6 +445,28 @@ export function fieldsFromCells(
     realisations,
     sigma,
     reduction,
+    leadParticles: perLead ? { A: mean("dN_A")!, B: mean("dN_B")! } : null,
+    stateRows: stateKeys ? { ...stateLabelsOfCells(input, spec, cells), sigmaReservoirs: sigma } : null,
   };
+}
+
+/**
+ * Each cell's start and end state (the key's index at level 0, which is the label: states are keyed on a
+ * step of 1 and never widen up to MAX_LEVEL). A table that had to go past MAX_LEVEL widened every column,
+ * states included: it is refused rather than pool realisations with different states.
+ */
+function stateLabelsOfCells(input: ReduceInput, spec: SamplesReductionSpec, cells: CellTableData): { start: Float64Array; end: Float64Array } {
+  const dims = spec.keyColumns.length;
+  const at = (c: KeyColumn) => spec.keyColumns.indexOf(c);
+  for (const c of ["state_start", "state_end"] as const) {
+    const d = at(c);
+    if (columnLevel(cells.level, spec.grid.delay[d], spec.grid.maxColumnLevel[d]) !== 0) {
+      throw new DataError(
+        `${input.label}: holds more distinct combinations of particle counts and conductor states than a summary of ${spec.grid.capacity} cells can keep apart, so states would be pooled; give the windows as a histogram (a count column), or audit fewer windows`,
+      );
+    }
+  }
+  const labels = (d: number) => Float64Array.from({ length: cells.cells }, (_, i) => cells.keys[i * dims + d]);
+  return { start: labels(at("state_start")), end: labels(at("state_end")) };
 }
 

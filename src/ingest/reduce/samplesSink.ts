@@ -1,7 +1,7 @@
 import { entropyProduction } from "../../physics/entropyProduction.ts";
 import { newProblemLog, type ProblemLog } from "../../errors.ts";
 import { CellTable, type CellTableData, type GridSpec, type RowBlock } from "./cellTable.ts";
-import { logSigmaOverflow, sampleRowsOf, type SampleRole, type SampleRoles, type SampleRows } from "../samplesRows.ts";
+import { conductorRowsOf, logSigmaOverflow, sampleRowsOf, subtractHeldParticles, type SampleRole, type SampleRoles, type SampleRows } from "../samplesRows.ts";
 import type { RowChunk, ScanLayout, ScanState } from "../fast/scanLines.ts";
 import { scanFileRange } from "../fast/scanRange.ts";
 
@@ -12,8 +12,11 @@ export interface SamplesReductionSpec {
   /** Slot of each mapped role in the scanner's output. */
   slotOfRole: Partial<Record<SampleRole, number>>;
   joules: number;
-  /** Σ = cW W + cQ Q + cN ΔN per realisation (cW = 0 when work: zero is declared). */
-  sigma: { cW: number; cQ: number; cN: number };
+  /**
+   * Σ = cW W + cQ Q + cN ΔN per realisation (cW = 0 when work: zero is declared), less cHeld (dN_A + dN_B)
+   * with per-lead particle columns (Σ_res, samplesRows.ts subtractHeldParticles); cHeld absent: 0.
+   */
+  sigma: { cW: number; cQ: number; cN: number; cHeld?: number };
   /** β̄ (1/J), for the β̄W key column. */
   betaBar: number;
   /** Columns forming the grid key, and columns whose sums are kept. */
@@ -22,8 +25,11 @@ export interface SamplesReductionSpec {
   grid: GridSpec;
 }
 
-/** Columns of the reduced rows (J; ΔN as counted). */
-export type SampleColumn = "Q" | "W" | "dN" | "dE_A" | "dE_B";
+/**
+ * Columns of the reduced rows (J; particles as counted; state labels as written). With per-lead columns
+ * ΔN is their symmetric split (dN_B − dN_A)/2.
+ */
+export type SampleColumn = "Q" | "W" | "dN" | "dE_A" | "dE_B" | "dN_A" | "dN_B" | "state_start" | "state_end";
 /** Columns a cell key may use: the stored ones, Σ and β̄W (k_B). */
 export type KeyColumn = SampleColumn | "sigma" | "betaW";
 
@@ -56,16 +62,13 @@ export class SamplesReducer {
   accept(chunk: RowChunk): void {
     const { spec } = this;
     const r = spec.roles;
-    if (r.dE_A === undefined && r.count === undefined && r.Q !== undefined) return this.acceptPlain(chunk);
+    if (r.dE_A === undefined && r.count === undefined && r.Q !== undefined && r.dN_A === undefined && r.state_start === undefined) return this.acceptPlain(chunk);
     const raw: Partial<Record<SampleRole, Float64Array>> = {};
     for (const [role, slot] of Object.entries(spec.slotOfRole)) raw[role as SampleRole] = chunk.values[slot!];
-    const rows = sampleRowsOf(raw, spec.roles, spec.joules, chunk.rows, chunk.lines, this.rowProblems);
-    if (this.rowProblems.count > 0) return; // the file is refused; only the problems matter now
-    const columns: Record<SampleColumn, Float64Array | null> = { Q: rows.Q, W: rows.W_data, dN: rows.dN, dE_A: rows.dE_A, dE_B: rows.dE_B };
+    const read = reducedColumns(raw, spec, chunk.rows, chunk.lines, this.rowProblems);
+    if (read === null) return; // the file is refused; only the problems matter now
+    const { rows, columns, sigma } = read;
     const W = rows.W_data;
-    const sigma = sigmaOfRows(rows, spec.sigma);
-    logSigmaOverflow(sigma, chunk.lines, spec.roles.Q ?? spec.roles.dE_B!, this.rowProblems);
-    if (this.rowProblems.count > 0) return;
     const betaW = W ? W.map((w) => spec.betaBar * w) : null;
     const key = spec.keyColumns.map((c) => (c === "sigma" ? sigma : c === "betaW" ? betaW! : columns[c]!));
     const stored = spec.storedColumns.map((c) => columns[c]!);
@@ -149,6 +152,38 @@ export class SamplesReducer {
     block.rows = n;
     this.table.addRows(block);
   }
+}
+
+/**
+ * The rows of a chunk as the summary keys and stores them: the row rules (samplesRows.ts), the conductor's
+ * columns where mapped, and Σ (Σ_res with per-lead particle columns) with overflowing rows logged; null when
+ * the chunk has a problem (the file is then refused). Also what the grid is chosen from (reductionSpec).
+ */
+export function reducedColumns(
+  raw: Partial<Record<SampleRole, Float64Array>>,
+  spec: Pick<SamplesReductionSpec, "roles" | "joules" | "sigma">,
+  count: number,
+  lines: ArrayLike<number>,
+  problems: ProblemLog,
+): { rows: SampleRows; columns: Record<SampleColumn, Float64Array | null>; sigma: Float64Array } | null {
+  const rows = sampleRowsOf(raw, spec.roles, spec.joules, count, lines, problems);
+  const conductor = conductorRowsOf(raw, spec.roles, count, lines, problems);
+  if (problems.count > 0) return null;
+  const dN = conductor?.dN ?? rows.dN;
+  const columns: Record<SampleColumn, Float64Array | null> = {
+    Q: rows.Q,
+    W: rows.W_data,
+    dN,
+    dE_A: rows.dE_A,
+    dE_B: rows.dE_B,
+    dN_A: conductor?.dN_A ?? null,
+    dN_B: conductor?.dN_B ?? null,
+    state_start: conductor?.start ?? null,
+    state_end: conductor?.end ?? null,
+  };
+  const sigma = subtractHeldParticles(sigmaOfRows({ ...rows, dN }, spec.sigma), conductor?.held ?? null, spec.sigma.cHeld ?? 0);
+  logSigmaOverflow(sigma, lines, spec.roles.Q ?? spec.roles.dE_B!, problems);
+  return problems.count > 0 ? null : { rows, columns, sigma };
 }
 
 /**

@@ -192,5 +192,10 @@ function concatFields(parts: ReducedFields[]): ReducedFields {
     realisations: parts.reduce((a, p) => a + p.realisations, 0),
     sigma: cat((p) => p.sigma)!,
     reduction: null,
+    leadParticles: parts.every((p) => p.leadParticles) ? { A: cat((p) => p.leadParticles!.A)!, B: cat((p) => p.leadParticles!.B)! } : null,
+    // Σ_res and the labels of every part: the states (p from all start states) are formed on the whole.
+    stateRows: parts.every((p) => p.stateRows)
+      ? { start: cat((p) => p.stateRows!.start)!, end: cat((p) => p.stateRows!.end)!, sigmaReservoirs: cat((p) => p.stateRows!.sigmaReservoirs)! }
+      : null,
   };
 }
