@@ -243,7 +243,7 @@ describe("check ids", () => {
     expect(r.code).toBe(2);
     expect(r.stdout).toBe("");
     expect(r.stderr).toBe(
-      'error: audit.yaml:16 checks[1]: must be a check id (did you mean reciprocity?): one of reciprocity, positivity, figures-of-merit, lorenz-ratio, exchange-fluctuation, integral-fluctuation, second-law, work, weighted-identity, uncertainty-relation, fluctuation-dissipation, linear-growth, steady-state-counting, found "reciprocty"\n',
+      'error: audit.yaml:16 checks[1]: must be a check id (did you mean reciprocity?): one of reciprocity, positivity, figures-of-merit, lorenz-ratio, exchange-fluctuation, integral-fluctuation, second-law, work, weighted-identity, uncertainty-relation, fluctuation-dissipation, linear-growth, steady-state-counting, tunnelling-rates, found "reciprocty"\n',
     );
   });
 
@@ -251,7 +251,7 @@ describe("check ids", () => {
     // parseAuditDefinition reads no data: the id is judged with the rest of audit.yaml, at its line.
     const yaml = `${VALID_YAML}checks:\n  - second-law\n  - weighted-identitty: { margin: 0.1 }\n`;
     expect(configMessage(yaml)).toBe(
-      "audit.yaml:18 checks[1].weighted-identitty: is not a check id (did you mean weighted-identity?): one of reciprocity, positivity, figures-of-merit, lorenz-ratio, exchange-fluctuation, integral-fluctuation, second-law, work, weighted-identity, uncertainty-relation, fluctuation-dissipation, linear-growth, steady-state-counting",
+      "audit.yaml:18 checks[1].weighted-identitty: is not a check id (did you mean weighted-identity?): one of reciprocity, positivity, figures-of-merit, lorenz-ratio, exchange-fluctuation, integral-fluctuation, second-law, work, weighted-identity, uncertainty-relation, fluctuation-dissipation, linear-growth, steady-state-counting, tunnelling-rates",
     );
   });
 
