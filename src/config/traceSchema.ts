@@ -39,7 +39,10 @@ const transitionSchema = z
         ctx.addIssue({ code: "custom", path: [key], message: "must not be given with lead: unresolved (which lead gains it is what the trace does not show); remove it, or remove lead: unresolved" });
       }
     }
-  });
+  })
+  // A jump whose lead is declared moves nothing it does not list (the normalised definition, and so the
+  // fingerprint, reads as before lead: unresolved existed); one whose lead is unresolved carries no amounts.
+  .transform((t) => (t.lead === "unresolved" ? t : { ...t, dN_A: t.dN_A ?? 0, dN_B: t.dN_B ?? 0, dE_A: t.dE_A ?? 0, dE_B: t.dE_B ?? 0 }));
 
 const thresholdsSchema = z
   .object({
