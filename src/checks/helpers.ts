@@ -108,7 +108,7 @@ const NEEDS_LEAD_TRANSFERS: ReadonlySet<CheckId> = new Set<CheckId>([
 
 /** Why a check of exchanged quantities cannot run on a trace whose lead is unresolved. */
 export function unresolvedLeadReason(d: TraceDataset): string {
-  return `the detector does not show which lead each electron used (audit.yaml declares lead: unresolved for ${d.unresolved.join(", ")}), so the particles and energy each lead gained, and with them the entropy production, are not in the data; a detector that resolves the direction of each transfer would supply them, for example a charge sensor on a serial double dot, whose states show from which side each electron entered. What the trace does determine (occupations, tunnelling rates, dwell times, missed events) is reported by tunnelling-rates.`;
+  return `the detector does not show which lead each electron used (audit.yaml declares lead: unresolved for ${d.unresolved.join(", ")}), so the particles and energy each lead gained, and with them the entropy production, are not in the data; a detector that resolves the direction of each transfer would supply them, for example a charge sensor on a serial double dot, whose states show from which side each electron entered. What the trace does determine (occupations, tunnelling rates, dwell times, missed events) is what the check tunnelling-rates reports.`;
 }
 
 /** Not-applicable results of one check for every trace whose lead is unresolved (none for checks that do not need per-lead transfers). */

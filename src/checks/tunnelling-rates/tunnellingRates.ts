@@ -49,8 +49,9 @@ export interface JumpRate {
 /** Rate of each observed jump with its exact Poisson interval at `confidence`. */
 export function jumpRates(d: Pick<TraceDataset, "states">, confidence: number): JumpRate[] {
   const tail = (1 - confidence) / 2;
+  // A state never held for a measurable time (a record whose time stamps coincide) gives no rate.
   return d.states.flatMap((s) =>
-    s.exits.map(({ to, count }) => ({
+    !(s.time > 0) ? [] : s.exits.map(({ to, count }) => ({
       from: s.label,
       to,
       jumps: count,
@@ -152,6 +153,7 @@ export function tunnellingRatesForTrace(d: TraceDataset, ctx: CheckContext): Che
       "The detector records every jump; a missed short stay removes two jumps and lowers the rates out of the states around it.",
       "The occupation from the rates is the stationary one; the time fraction equals it for a record long against the dwell times.",
       d.detection.sentence,
+      ...(d.config.windows ? [`The declared windows (${d.config.windows.join(", ")} ${d.config.time_unit}) were not cut: no window's per-lead transfers are known.`] : []),
     ],
     references: REFERENCES,
     equations: EQUATIONS,
