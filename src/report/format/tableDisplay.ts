@@ -91,8 +91,7 @@ export function tableDisplay(t: TableSpec, ctx: DisplayContext): TableDisplay {
       if (v === null || v === undefined) return "—";
       if (typeof v === "boolean") return v ? "yes" : "no";
       if (typeof v === "string") return notationHtml(v, ctx);
-      // The row's unit is that of its quantities, not of a column with a unit of its own or of its statistics.
-      // In the row's own unit, or in the column's.
+      // In the row's own unit where it applies (its quantities, not its statistics), else in the column's.
       const rowScaled = rowUnit && rowDisplay && inRowUnit(i) ? { display: rowDisplay, si: rowUnit.si } : undefined;
       const unit = rowScaled?.display ?? units[i];
       const si = rowScaled?.si ?? siOf(c);
