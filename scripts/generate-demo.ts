@@ -7,11 +7,11 @@ import { qdHeatExchange, nwSwitchingWork, ddCountingBackaction } from "./demo/ex
 import { abInterferometerSweep } from "./demo/coefficients.ts";
 import { vq5BiasSweep, lc60Series } from "./demo/sweep.ts";
 import { lr40SimulatedExchange, qd9SimulatedCounting } from "./demo/simulated.ts";
-import { dd3CountingTrace, dd8DetectorBackaction } from "./demo/counting.ts";
+import { dd3CountingTrace, dd8DetectorBackaction, sd4UnresolvedDot } from "./demo/counting.ts";
 import type { DemoAudit } from "./demo/types.ts";
 import { writeAuditFolder } from "../src/synth/auditFolder.ts";
 
-const GENERATORS: (() => DemoAudit)[] = [qdHeatExchange, nwSwitchingWork, ddCountingBackaction, abInterferometerSweep, vq5BiasSweep, lc60Series, lr40SimulatedExchange, qd9SimulatedCounting, dd3CountingTrace, dd8DetectorBackaction];
+const GENERATORS: (() => DemoAudit)[] = [qdHeatExchange, nwSwitchingWork, ddCountingBackaction, abInterferometerSweep, vq5BiasSweep, lc60Series, lr40SimulatedExchange, qd9SimulatedCounting, dd3CountingTrace, dd8DetectorBackaction, sd4UnresolvedDot];
 
 const root = path.resolve(process.argv[2] ?? "audits");
 for (const generate of GENERATORS) {

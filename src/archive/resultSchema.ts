@@ -1,6 +1,7 @@
 import { z } from "zod";
 import { ArchiveError, MAX_REPORTED_PROBLEMS } from "../errors.ts";
 import type { ResultDocument } from "../report/resultDocument.ts";
+import { isUnitText, type UnitSpec } from "../checks/valueUnits.ts";
 
 /**
  * The shape every result document has, fresh from a run or frozen in
@@ -32,6 +33,20 @@ const STAMPS = ["pass", "fail", "inconclusive"] as const;
 const listOf = <T extends z.ZodTypeAny>(item: T) => z.array(item, { invalid_type_error: "must be a list" });
 const objectOf = <T extends z.ZodRawShape>(shape: T) => z.object(shape, { invalid_type_error: "must be an object" }).passthrough();
 
+/**
+ * A value's unit specification (src/checks/valueUnits.ts): a unit written as
+ * SI symbols with powers ("J^-1", "W K^-1", "1"), null for a value that holds
+ * no number, or a list or object of such specifications mirroring the value.
+ */
+const unitSpec: z.ZodType<UnitSpec> = z.lazy(() =>
+  z.union([
+    z.string().refine(isUnitText, 'must be a unit written as SI symbols with integer powers separated by spaces ("J^-1", "W K^-1"), "1" or "as written"'),
+    z.null(),
+    z.array(unitSpec),
+    z.record(unitSpec),
+  ], { errorMap: () => ({ message: "must be a unit, null, or a list or object of units" }) }),
+);
+
 const checkSchema = objectOf({
   check: slug,
   dataset: text.min(1, "must not be empty"),
@@ -39,6 +54,8 @@ const checkSchema = objectOf({
   summary: text,
   reason: text.optional(),
   values: z.record(z.unknown(), { invalid_type_error: "must be an object" }),
+  // Absent from the results of earlier tool versions, which stay valid.
+  units: z.record(unitSpec, { invalid_type_error: "must be an object" }).optional(),
   criteria: z.record(z.unknown(), { invalid_type_error: "must be an object" }),
   assumptions: listOf(text),
   references: listOf(text),

@@ -3,6 +3,7 @@ import type { IngestedAudit } from "../ingest/types.ts";
 import type { Settings } from "../config/types.ts";
 import type { Rng } from "../stats/rng.ts";
 import type { OptionSchemas } from "./options.ts";
+import type { UnitSpec, ValueUnits } from "./valueUnits.ts";
 
 export const CHECK_IDS = [
   "reciprocity",
@@ -43,6 +44,8 @@ export interface CheckResult {
   reason?: string;
   /** Numbers in SI units (dimensionless where stated), uncertainties beside their values. */
   values: Record<string, unknown>;
+  /** The SI unit of each value key (see valueUnits.ts); added from the check's registry when the result document is made. */
+  units?: Record<string, UnitSpec>;
   criteria: { alpha?: number; margin?: number; confidence?: number };
   /** Conditions under which the law holds; printed beside the verdict. */
   assumptions: string[];
@@ -75,4 +78,9 @@ export interface CheckDefinition {
   run(audit: IngestedAudit, ctx: CheckContext): CheckResult[];
 }
 
-export type { PlotSpec };
+/** A check as the registry lists it: its definition and the units of its values (src/checks/<id>/units.ts). */
+export interface RegisteredCheck extends CheckDefinition {
+  units: ValueUnits;
+}
+
+export type { PlotSpec, UnitSpec, ValueUnits };

@@ -2,6 +2,8 @@ import type { Author, Settings } from "../config/types.ts";
 import type { DisplayChoices } from "../config/displaySchema.ts";
 import type { DatasetRecord } from "../ingest/types.ts";
 import type { CheckResult, Status } from "../checks/types.ts";
+import { CHECKS } from "../checks/index.ts";
+import { valueUnitsOf } from "../checks/valueUnits.ts";
 
 /** The audit's verdict in one word (contract: fail > inconclusive > pass). */
 export type Stamp = "pass" | "fail" | "inconclusive";
@@ -25,6 +27,18 @@ export interface ResultDocument {
   /** Each input file; `energy_unit` is the unit its energies were written in, which the report shows energies in. */
   datasets: (DatasetRecord & { energy_unit?: string })[];
   checks: CheckResult[];
+}
+
+const UNITS = new Map(CHECKS.map((c) => [c.id as string, c.units]));
+
+/**
+ * A check's result with `units` beside `values`: the SI unit of every value
+ * key, from the check's registry (src/checks/<id>/units.ts). The values
+ * themselves are not touched.
+ */
+export function withValueUnits(result: CheckResult): CheckResult {
+  const registry = UNITS.get(result.check) ?? {};
+  return { ...result, units: valueUnitsOf(result.values, registry) };
 }
 
 /**

@@ -10,7 +10,7 @@ import type { IngestedAudit } from "../ingest/types.ts";
 import { rngFromText } from "../stats/rng.ts";
 import { TOOL } from "../version.ts";
 import { canonicalDigest } from "./canonicalJson.ts";
-import { stampOf, type ResultDocument } from "./resultDocument.ts";
+import { stampOf, withValueUnits, type ResultDocument } from "./resultDocument.ts";
 
 export interface SelectedCheck {
   definition: CheckDefinition;
@@ -161,7 +161,7 @@ export function resultDocumentOf(audit: IngestedAudit, checks: CheckResult[]): R
     settings: d.settings,
     ...(d.display !== undefined ? { display: d.display } : {}),
     datasets: audit.datasets.map((x) => ({ id: x.id, file: x.file, sha256: x.sha256, rows: x.rows, ...("energyUnit" in x ? { energy_unit: x.energyUnit.name } : {}), ...(x.format ? { format: x.format } : {}) })),
-    checks,
+    checks: checks.map(withValueUnits),
   };
 }
 

@@ -95,6 +95,56 @@ describe("numbers on the report pages", () => {
     expect(seen).toBeGreaterThan(5);
   });
 
+  test("an interval in a summary is in its value's unit and prefix, stated after the bracket", async () => {
+    // "824 mK [743, 924] mK", not "824 mK [0.7432, 0.9244]" (bounds a thousand times off as read).
+    const interval = /(?<=\d|\)) ([^\s\d[\](),;]+)(?: \(\d+ % interval)? \[([^\]∞)]+)\]( [^\s,;)]+)?/gu;
+    let seen = 0;
+    for (const url of reportUrls()) {
+      const sentences = await withPage(url, 1100, (p) => p.evaluate(`[...document.querySelectorAll(".verdict, .reason")].map((e) => e.innerText)`) as Promise<string[]>);
+      for (const s of sentences) {
+        const text = s.replaceAll("\u202f", " ");
+        for (const m of text.matchAll(interval)) {
+          seen++;
+          expect(m[3], `${url}: "${m[0]}"`).toBe(` ${m[1]}`);
+        }
+      }
+    }
+    expect(seen).toBeGreaterThan(5);
+  });
+
+  test("a table row's own unit never rescales its z-score or p-values", async () => {
+    // The exchange relation's coefficient table names a unit per row (1/J or 1); z and p are pure numbers
+    // (a z-score beyond 10³ or a p-value outside [0, 1] is a unit factor applied by mistake).
+    let seen = 0;
+    for (const url of reportUrls()) {
+      const cells = await withPage(
+        url,
+        1100,
+        (p) =>
+          p.evaluate(`(() => {
+            const out = [];
+            for (const table of document.querySelectorAll("table.numbers")) {
+              const heads = [...table.querySelectorAll("thead th")].map((th) => (th.childNodes[0]?.textContent ?? "").trim());
+              if (!heads.includes("Unit")) continue;
+              heads.forEach((h, i) => {
+                if (!/^(z|p|p \(Holm\)|Holm-adjusted p)$/.test(h)) return;
+                for (const tr of table.querySelectorAll("tbody tr")) out.push({ head: h, text: tr.children[i]?.textContent ?? "" });
+              });
+            }
+            return out;
+          })()`) as Promise<{ head: string; text: string }[]>,
+      );
+      for (const c of cells) {
+        if (c.text === "—") continue;
+        seen++;
+        expect(c.text, `${url}: ${c.head}`).not.toMatch(/×/);
+        const v = Math.abs(Number(c.text.replaceAll("\u202f", "").replace("−", "-")));
+        expect(c.head === "z" ? v < 1e3 : v <= 1, `${url}: ${c.head} = ${c.text}`).toBe(true);
+      }
+    }
+    expect(seen).toBeGreaterThan(5);
+  });
+
   test("every numeric table column and every plot axis states its unit", async () => {
     for (const url of reportUrls()) {
       const { missing, axes } = await withPage(

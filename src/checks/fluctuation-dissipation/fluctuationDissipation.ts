@@ -83,17 +83,18 @@ function comparisonsOf(sweep: Sweep, r: ResponseFit, L: EstimatedMatrix, Lw: Est
         estimate: diff.value[i][j],
         se: diff.se[i][j],
         scale: entryScale(i, j),
+        unit: entryUnit(ch[i], ch[j]),
       });
     }
   }
   if (!field && m === 2) {
     const anti = symmetrised(r, R, -1);
-    out.push({ relation: "reciprocity", label: `${entry(Rname, ch[0], ch[1])} − ${entry(Rname, ch[1], ch[0])}`, estimate: 2 * anti.value[0][1], se: 2 * anti.se[0][1], scale: entryScale(0, 1) });
+    out.push({ relation: "reciprocity", label: `${entry(Rname, ch[0], ch[1])} − ${entry(Rname, ch[1], ch[0])}`, estimate: 2 * anti.value[0][1], se: 2 * anti.se[0][1], scale: entryScale(0, 1), unit: entryUnit(ch[0], ch[1]) });
   }
   if (!field) {
     const v = sweep.work ? sw : s;
     for (let i = 0; i < m; i++) {
-      out.push({ relation: "no-spontaneous-flux", label: `${sweep.work ? "s~" : "s"}[${CH[ch[i]]}]`, estimate: v.value[i], se: v.se[i], scale: fluxScale(i) });
+      out.push({ relation: "no-spontaneous-flux", label: `${sweep.work ? "s~" : "s"}[${CH[ch[i]]}]`, estimate: v.value[i], se: v.se[i], scale: fluxScale(i), unit: fluxUnit(ch[i]) });
     }
   }
   return out;
@@ -262,7 +263,7 @@ function sweepResult(sweep: Sweep, ctx: CheckContext): CheckResult {
     fit: { chi_square: r.fit.chiSquare, dof: r.fit.dof, p_value: fitP },
     relations: decision.relations.map((rel) => ({ relation: rel.relation, verdict: rel.verdict, statement: rel.statement })),
     comparisons: decision.relations.flatMap((rel) =>
-      rel.comparisons.map((c) => ({ relation: c.relation, label: c.label, estimate: c.estimate, se: c.se, scale: c.scale, z: c.z, p: c.p, p_holm: c.pHolm, interval: c.interval, equivalent: c.equivalent, violated: c.violated })),
+      rel.comparisons.map((c) => ({ relation: c.relation, label: c.label, estimate: c.estimate, se: c.se, scale: c.scale, unit: c.unit, z: c.z, p: c.p, p_holm: c.pHolm, interval: c.interval, equivalent: c.equivalent, violated: c.violated })),
     ),
   };
 
@@ -292,6 +293,7 @@ function sweepResult(sweep: Sweep, ctx: CheckContext): CheckResult {
       columns: [
         { key: "relation", label: "Relation" },
         { key: "label", label: "Difference" },
+        { key: "unit", label: "Unit" },
         { key: "estimate", label: "Estimate" },
         { key: "se", label: "Standard error" },
         { key: "bound", label: "Margin ±" },
@@ -302,6 +304,7 @@ function sweepResult(sweep: Sweep, ctx: CheckContext): CheckResult {
         rel.comparisons.map((c) => ({
           relation: rel.relation,
           label: c.label,
+          unit: c.unit,
           estimate: c.estimate,
           se: c.se,
           bound: margin * c.scale,

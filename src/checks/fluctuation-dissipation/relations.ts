@@ -23,6 +23,8 @@ export interface Comparison {
   se: number;
   /** Size against which the margin is set (same unit as the estimate). */
   scale: number;
+  /** SI unit of the estimate, its standard error and its scale, as the report writes it ("J²/s", "W"). */
+  unit: string;
 }
 
 export interface ComparisonOutcome extends Comparison {

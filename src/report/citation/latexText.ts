@@ -56,6 +56,7 @@ function unitTex(t: NumberToken): string {
   if (symbol === "k_B") return "\\,$k_\\mathrm{B}$";
   if (symbol === "k_B K") return "\\,$k_\\mathrm{B}$\\,\\si{\\kelvin}";
   if (symbol === "e²/h") return "\\,$e^2/h$";
+  if (symbol === "g₀") return "\\,$g_0$";
   if (symbol === "1/k_B") return "\\,$k_\\mathrm{B}^{-1}$";
   return t.unit?.siunitx ? `\\,\\si{${t.unit.siunitx}}` : "";
 }

@@ -17,6 +17,8 @@ export interface DisplayContext {
   energyUnit?: string;
   /** Per-quantity choices from audit.yaml's `display:` block, as written there (`µeV`, `e2/h`, `auto`). */
   overrides?: Partial<Record<Quantity, string>>;
+  /** The one temperature (K) of the numbers shown, when they share one: what g₀ = π² k_B² T/(3h) is taken at. */
+  temperature?: number;
 }
 
 /** The base an energy-like quantity defaults to, following the dataset's energy unit: J stays J, the eV family gives eV. */
@@ -31,7 +33,7 @@ function defaultBase(quantity: Quantity, ctx: DisplayContext): string {
   return QUANTITY_BASES[quantity][0];
 }
 
-function build(quantity: Quantity, baseName: string, exponent: number): DisplayUnit {
+function build(quantity: Quantity, baseName: string, exponent: number, temperature = 1): DisplayUnit {
   const base: UnitBase = BASES[baseName];
   const p = prefixByExponent(exponent);
   const symbol =
@@ -39,7 +41,8 @@ function build(quantity: Quantity, baseName: string, exponent: number): DisplayU
   const siunitx = base.siunitx.replace("<p>", p.name ? `${p.name}\\` : "").replace("\\\\", "\\");
   // A prefix in the denominator: 1/meV = 10³/eV, so shown = SI / base.si / 10^(−exponent).
   const scale = base.prefix === "denominator" ? 10 ** -exponent : 10 ** exponent;
-  return { quantity, symbol, siunitx, perSI: 1 / (base.si * scale) };
+  const si = base.timesTemperature ? base.si * temperature : base.si;
+  return { quantity, symbol, siunitx, perSI: 1 / (si * scale) };
 }
 
 /**
@@ -84,10 +87,13 @@ export function displayChoices(quantity: Quantity): string[] {
 export function displayUnitFor(quantity: Quantity, magnitude: number, ctx: DisplayContext = {}): DisplayUnit {
   const chosen = ctx.overrides?.[quantity];
   const parsed = chosen && chosen !== "auto" ? parseDisplayChoice(quantity, chosen) : undefined;
-  const baseName = parsed?.base ?? defaultBase(quantity, ctx);
+  // A unit that scales with the temperature (g₀) needs the one temperature of the numbers; without it the default base.
+  const usable = parsed && (!BASES[parsed.base].timesTemperature || (ctx.temperature !== undefined && ctx.temperature > 0 && Number.isFinite(ctx.temperature)));
+  const baseName = usable ? parsed.base : defaultBase(quantity, ctx);
   const base = BASES[baseName];
-  if (parsed && parsed.exponent !== 0) return build(quantity, baseName, parsed.exponent);
-  if (base.prefix === "none" || (parsed && chosen === baseName)) return build(quantity, baseName, 0);
+  if (base.timesTemperature) return build(quantity, baseName, 0, ctx.temperature);
+  if (usable && parsed.exponent !== 0) return build(quantity, baseName, parsed.exponent);
+  if (base.prefix === "none" || (usable && chosen === baseName)) return build(quantity, baseName, 0);
   const [lo, hi] = base.range ?? [-24, 24];
   const inBase = magnitude / base.si;
   // In the denominator the prefix works the other way: 1/meV is 10³ per eV, so 7.7 per eV would be 0.0077 per meV.

@@ -37,11 +37,21 @@ export interface UnitBase {
   siunitx: string;
   /** Prefix exponents allowed, lowest and highest (temperatures stop at kelvin: no kK). */
   range?: [number, number];
+  /** One of it is `si` × T SI units, T the temperature of the numbers shown (the thermal conductance quantum). */
+  timesTemperature?: boolean;
 }
 
 const e = ELEMENTARY_CHARGE;
 /** Conductance quantum without spin, e²/h (exact from the defining constants, SI Brochure 9th ed.). */
 export const CONDUCTANCE_QUANTUM = (e * e) / PLANCK;
+/**
+ * The thermal conductance quantum per kelvin, g₀/T = π² k_B²/(3h) in W/K²: the
+ * thermal conductance of one ballistic channel (Pendry, J. Phys. A 16, 2161
+ * (1983); measured by Schwab, Henriksen, Worlock & Roukes, Nature 404, 974
+ * (2000)). Exact k_B and h (CODATA 2018: Tiesinga et al., Rev. Mod. Phys. 93,
+ * 025010 (2021)) give 9.464 311 516 × 10⁻¹³ W/K².
+ */
+export const THERMAL_CONDUCTANCE_QUANTUM_PER_KELVIN = (Math.PI * Math.PI * BOLTZMANN * BOLTZMANN) / (3 * PLANCK);
 
 /** Display bases by name. The first of each quantity's list is its default; the rest may be chosen in `display:`. */
 export const BASES: Record<string, UnitBase> = {
@@ -59,6 +69,8 @@ export const BASES: Record<string, UnitBase> = {
   S: { symbol: "S", si: 1, prefix: "numerator", siunitx: "\\<p>siemens" },
   "e2/h": { symbol: "e²/h", si: CONDUCTANCE_QUANTUM, prefix: "none", siunitx: "\\elementarycharge\\squared\\per\\planckconstant" },
   "W/K": { symbol: "W/K", si: 1, prefix: "numerator", siunitx: "\\<p>watt\\per\\kelvin" },
+  // g₀ at the temperature of the numbers shown; siunitx has no such unit, so the LaTeX writer sets it as math.
+  g0: { symbol: "g₀", si: THERMAL_CONDUCTANCE_QUANTUM_PER_KELVIN, prefix: "none", siunitx: "", timesTemperature: true },
   V: { symbol: "V", si: 1, prefix: "numerator", siunitx: "\\<p>volt" },
   "V/K": { symbol: "V/K", si: 1, prefix: "numerator", siunitx: "\\<p>volt\\per\\kelvin" },
   "W/K2": { symbol: "W/K²", si: 1, prefix: "numerator", siunitx: "\\<p>watt\\per\\kelvin\\squared" },
@@ -79,7 +91,7 @@ export const QUANTITY_BASES: Record<Quantity, string[]> = {
   temperature: ["K"],
   chemical_potential: ["eV", "J"],
   conductance: ["S", "e2/h"],
-  thermal_conductance: ["W/K"],
+  thermal_conductance: ["W/K", "g0"],
   voltage: ["V"],
   thermopower: ["V/K"],
   power_factor: ["W/K2"],

@@ -32,6 +32,14 @@ function partnerOf(columns: readonly Column[], i: number): number | undefined {
   return undefined;
 }
 
+/**
+ * A column of test statistics (z, p-values, χ², degrees of freedom) holds pure
+ * numbers in every row: a row's own unit (a `unit` column) never applies to it.
+ */
+function isStatisticColumn(c: Column): boolean {
+  return /^(z|p|p_holm|p_value|chi_square|dof)$/.test(c.key) || /^(z|p)$|^p \(Holm\)$|Holm|χ²|degrees of freedom/i.test(c.label);
+}
+
 function isNumberColumn(t: TableSpec, key: string): boolean {
   let any = false;
   for (const r of t.rows) {
@@ -63,16 +71,19 @@ export function tableDisplay(t: TableSpec, ctx: DisplayContext): TableDisplay {
   partner.forEach((p, i) => {
     if (p !== undefined && units[p] && cols[i].unit === cols[p].unit) units[i] = units[p];
   });
+  /** Whether a row's own unit (a `unit` column) applies to column i: not to a column with a unit of its own, nor to statistics. */
+  const inRowUnit = (i: number) => numeric[i] && !units[i] && !isStatisticColumn(cols[i]);
   const siOf = (c: Column) => (c.unit ? parseWrittenUnit(c.unit)?.si ?? 1 : 1);
   const headers = cols.map((c, i) => {
-    const unitText = units[i]?.symbol ?? c.unit ?? (numeric[i] ? (perRowUnit ? PER_ROW : DIMENSIONLESS) : "");
+    const unitText = units[i]?.symbol ?? c.unit ?? (numeric[i] ? (perRowUnit && !isStatisticColumn(c) ? PER_ROW : DIMENSIONLESS) : "");
     const unit = unitText === "1" ? DIMENSIONLESS : unitText === PER_ROW ? PER_ROW : unitText ? labelHtml(unitText) : "";
     return { label: labelHtml(c.label), unit, numeric: numeric[i] };
   });
   const rows = t.rows.map((r) => {
     const rowUnit = perRowUnit && typeof r.unit === "string" ? parseWrittenUnit(r.unit) : undefined;
+    // The prefix follows the row's own quantities only: its p-values and z-scores are no guide to it.
     const rowDisplay = rowUnit
-      ? displayUnitFor(rowUnit.quantity, representativeMagnitude(cols.map((c) => (typeof r[c.key] === "number" ? (r[c.key] as number) * rowUnit.si : Number.NaN))), ctx)
+      ? displayUnitFor(rowUnit.quantity, representativeMagnitude(cols.map((c, i) => (typeof r[c.key] === "number" && inRowUnit(i) ? (r[c.key] as number) * rowUnit.si : Number.NaN))), ctx)
       : undefined;
     return cols.map((c, i) => {
       const v = r[c.key];
@@ -80,9 +91,10 @@ export function tableDisplay(t: TableSpec, ctx: DisplayContext): TableDisplay {
       if (v === null || v === undefined) return "—";
       if (typeof v === "boolean") return v ? "yes" : "no";
       if (typeof v === "string") return notationHtml(v, ctx);
-      if (rowUnit && rowDisplay) return escapeHtml(numberIn(rowDisplay, v * rowUnit.si));
-      const unit = units[i];
-      const si = siOf(c);
+      // In the row's own unit where it applies (its quantities, not its statistics), else in the column's.
+      const rowScaled = rowUnit && rowDisplay && inRowUnit(i) ? { display: rowDisplay, si: rowUnit.si } : undefined;
+      const unit = rowScaled?.display ?? units[i];
+      const si = rowScaled?.si ?? siOf(c);
       // A value with an uncertainty beside it: both rounded together (GUM §7.2.6), each in its own cell.
       const uCol = partner.indexOf(i);
       const u = uCol >= 0 ? r[cols[uCol].key] : undefined;

@@ -21,6 +21,8 @@ const FORMS: { pattern: RegExp; quantity: Quantity; si: number }[] = [
   { pattern: /^1\/(?<p>[yzafpnµum]?)J$/, quantity: "affinity", si: 1 },
   { pattern: /^(?<p>[yzafpnµumk]?)eV\/s$/, quantity: "heat_current", si: ELEMENTARY_CHARGE },
   { pattern: /^(?<p>[yzafpnµumk]?)W$/, quantity: "heat_current", si: 1 },
+  // An energy per second: the cross entries of an Onsager matrix of heat and particles (fluctuation-dissipation).
+  { pattern: /^(?<p>[yzafpnµum]?)J\/s$/, quantity: "heat_current", si: 1 },
   { pattern: /^1\/s$|^s⁻¹$/, quantity: "particle_current", si: 1 },
   { pattern: /^(?<p>[nµum]?)K$/, quantity: "temperature", si: 1 },
   { pattern: /^(?<p>[pnµum]?)S$/, quantity: "conductance", si: 1 },

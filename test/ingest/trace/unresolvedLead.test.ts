@@ -98,6 +98,11 @@ describe("a single-dot trace whose lead is unresolved", () => {
     // No other result speaks of this trace, and nothing passed: the stamp is inconclusive.
     expect(result.checks.filter((c) => c.dataset === "dot-trace").map((c) => c.check).sort()).toEqual([...needing, "tunnelling-rates"].sort());
     expect(result.stamp).toBe("inconclusive");
+    // Every value of these results has its unit in the result document (src/checks/valueUnits.ts): a key the
+    // registry lacks would be left out of `units`.
+    for (const c of result.checks.filter((c) => c.dataset === "dot-trace")) {
+      expect(Object.keys(c.units ?? {}).sort(), c.check).toEqual(Object.keys(c.values).sort());
+    }
   });
 
   it("accepts no per-lead amounts beside lead: unresolved", async () => {

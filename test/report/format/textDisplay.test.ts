@@ -127,6 +127,66 @@ describe("tables and plots in display units", () => {
     expect(t.rows[1][3]).toBe("µeV");
   });
 
+  test("a row's unit applies to its quantities, never to its z-score, p-values or a column with its own unit", () => {
+    // The exchange relation's coefficient table: a_Q per joule shown per meV, with z and p beside it. Before
+    // this, z = −0.3847 and p = 0.7005 were multiplied by e/10³ like a_Q and printed as −6.163 × 10⁻²³ and
+    // 1.122 × 10⁻²² (values from the vq3-heat-exchange demo; 1/J → 1/meV is × 1.602 176 634 × 10⁻²², exact).
+    const t = tableDisplay(
+      {
+        id: "coefficients",
+        title: "c",
+        columns: [
+          { key: "coefficient", label: "Coefficient" },
+          { key: "unit", label: "Unit" },
+          { key: "declared", label: "Declared" },
+          { key: "fitted", label: "Fitted" },
+          { key: "se", label: "Standard error" },
+          { key: "z", label: "z" },
+          { key: "p", label: "p" },
+          { key: "p_holm", label: "p (Holm)" },
+          { key: "ratio", label: "Ratio", unit: "1" },
+        ],
+        rows: [{ coefficient: "a_Q", unit: "1/J", declared: 4.828e22, fitted: 4.8053e22, se: 6.031e20, z: -0.3847, p: 0.7005, p_holm: 1, ratio: 0.9953 }],
+      },
+      { energyUnit: "meV" },
+    );
+    // Fitted and its standard error rounded together (GUM §7.2.6): 7.699 ± 0.097 per meV.
+    expect(t.rows[0].slice(2).map(plain)).toEqual(["7.735", "7.699", "0.097", "−0.3847", "0.7005", "1", "0.9953"]);
+    expect(t.headers.map((h) => h.unit).slice(2)).toEqual(["unit as in each row", "unit as in each row", "unit as in each row", "dimensionless", "dimensionless", "dimensionless", "dimensionless"]);
+  });
+
+  test("fluctuation-dissipation's comparisons: every row in its own unit, its prefix from its own numbers", () => {
+    // Rows of the vq5-response-sweep demo (energies in meV): an energy per second is shown in eV/s like a heat
+    // current (1 eV/s = 1.602 176 634 × 10⁻¹⁹ J/s, exact), a particle rate in 1/s; J²/s has no display unit and
+    // stays in SI. The p column would otherwise have picked the prefix (EeV/s for a 10⁻¹⁸ J/s estimate).
+    const t = tableDisplay(
+      {
+        id: "comparisons",
+        title: "Comparisons behind the verdict (each should be zero)",
+        columns: [
+          { key: "label", label: "Difference" },
+          { key: "unit", label: "Unit" },
+          { key: "estimate", label: "Estimate" },
+          { key: "se", label: "Standard error" },
+          { key: "bound", label: "Margin ±" },
+          { key: "p", label: "Holm-adjusted p" },
+        ],
+        rows: [
+          { label: "L[Q,Q] − L_fluct[Q,Q]", unit: "J²/s", estimate: 6.72e-43, se: 1.6e-42, bound: 9.756e-42, p: 1 },
+          { label: "L[Q,dN] − L_fluct[Q,dN]", unit: "J/s", estimate: -2.676e-19, se: 1.802e-19, bound: 1.3973e-18, p: 0.9604 },
+          { label: "s[N]", unit: "1/s", estimate: 107.7, se: 1863, bound: 20070, p: 1 },
+        ],
+      },
+      { energyUnit: "meV" },
+    );
+    expect(t.rows.map((r) => r.slice(2).map(plain))).toEqual([
+      ["0.7 × 10⁻⁴²", "1.6 × 10⁻⁴²", "9.756 × 10⁻⁴²", "1"],
+      ["−1.7", "1.1", "8.721", "0.9604"],
+      ["100", "1900", "20 070", "1"],
+    ]);
+    expect(t.rows.map((r) => r[1])).toEqual(["J²/s", "eV/s", "1/s"]);
+  });
+
   test("a plot axis in W of an eV dataset is redrawn in eV/s with a prefix, like the tables beside it", () => {
     const spec = displayPlotSpec(
       { id: "p", title: "t", alt: "slope 3.17e-12 W", x: { label: "Time", unit: "s" }, y: { label: "Heat flux J_Q", unit: "W" }, series: [{ type: "line", name: "l", x: [0, 2e-6], y: [0, 1.602176634e-20] }] },
