@@ -19,7 +19,10 @@ import { resultDocumentOf, runChecks } from "../../report/runAudit.ts";
  */
 
 export interface RerunProgress {
-  /** ingest: bytes of the file `label` read; checks: checks finished (`label` the last); done: finished. */
+  /**
+   * ingest: bytes read, of all files given (first and last event) or of the data file `label`
+   * (while a file above the reduction threshold, 64 MB, is summarised); checks: checks finished (`label` the last one's id); done: finished.
+   */
   phase: "ingest" | "checks" | "done";
   done: number;
   total: number;
@@ -68,7 +71,7 @@ function writeAuditFolder(files: ReadonlyMap<string, Uint8Array>): string {
 /** The error with the private folder's path taken out of its message: messages name files as the audit folder holds them. */
 function withoutFolder(err: unknown, dir: string): unknown {
   if (err instanceof Error && err.message.includes(dir)) {
-    err.message = err.message.split(`${dir}/`).join("").split(dir).join("the audit folder");
+    err.message = err.message.split(`${dir}/`).join("").split(dir).join("<audit folder>");
   }
   return err;
 }
@@ -84,7 +87,11 @@ export async function runAuditFromFiles(files: ReadonlyMap<string, Uint8Array>, 
   signal?.throwIfAborted();
   const dir = writeAuditFolder(files);
   try {
+    // Reading: bytes of each data file as its reader reports them (large files), between a start and an end over all files given.
+    const bytes = [...files.values()].reduce((sum, b) => sum + b.length, 0);
+    onProgress?.({ phase: "ingest", done: 0, total: bytes });
     const audit = await ingestAudit(dir, { onProgress: onProgress && ((file, done, total) => onProgress({ phase: "ingest", done, total, label: file })) });
+    onProgress?.({ phase: "ingest", done: bytes, total: bytes });
     signal?.throwIfAborted();
     const checks = runChecks(audit, CHECKS, (done, total, check) => {
       onProgress?.({ phase: "checks", done, total, label: check });
