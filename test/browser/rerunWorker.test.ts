@@ -44,34 +44,32 @@ afterAll(async () => {
 type Reply = { type: string; json?: string; message?: string; kind?: string; phase?: string };
 
 /**
- * In the page: fetch the named files of audits/<id>/ (or take none for names
- * given as null), start the worker, post the run and gather its replies to the
- * last one (result, error or cancelled).
+ * Runs in the page (source text: the project's types have no DOM): fetch the
+ * named files of audits/<id>/, start the worker, post the run (after a cancel
+ * when asked) and gather its replies to the last one (result, error or cancelled).
  */
+const PAGE_RUN = `async ({ id, names, cancelFirst }) => {
+  const files = await Promise.all(names.map(async (name) => [name, await (await fetch("audits/" + id + "/" + name)).arrayBuffer()]));
+  const worker = new Worker("rerun-worker.js", { type: "module" });
+  const replies = [];
+  try {
+    return await new Promise((resolve, reject) => {
+      worker.onerror = (e) => reject(new Error("worker error: " + e.message));
+      worker.onmessage = (e) => {
+        replies.push(e.data);
+        const answeredCancel = cancelFirst && e.data.type === "cancelled" && replies.length === 1;
+        if (e.data.type !== "progress" && !answeredCancel) resolve(replies);
+      };
+      if (cancelFirst) worker.postMessage({ type: "cancel" });
+      worker.postMessage({ type: "run", files }, files.map(([, bytes]) => bytes));
+    });
+  } finally {
+    worker.terminate();
+  }
+}`;
+
 function runInWorker(id: string, names: string[], cancelFirst = false): Promise<Reply[]> {
-  return page.evaluate(
-    async ({ id, names, cancelFirst }) => {
-      const files: [string, ArrayBuffer][] = await Promise.all(
-        names.map(async (name): Promise<[string, ArrayBuffer]> => [name, await (await fetch(`audits/${id}/${name}`)).arrayBuffer()]),
-      );
-      const worker = new Worker("rerun-worker.js", { type: "module" });
-      const replies: Reply[] = [];
-      try {
-        return await new Promise<Reply[]>((resolve, reject) => {
-          worker.onerror = (e) => reject(new Error(`worker error: ${e.message}`));
-          worker.onmessage = (e: MessageEvent<Reply>) => {
-            replies.push(e.data);
-            if (e.data.type !== "progress" && !(cancelFirst && e.data.type === "cancelled" && replies.length === 1)) resolve(replies);
-          };
-          if (cancelFirst) worker.postMessage({ type: "cancel" });
-          worker.postMessage({ type: "run", files }, files.map(([, bytes]) => bytes));
-        });
-      } finally {
-        worker.terminate();
-      }
-    },
-    { id, names, cancelFirst },
-  );
+  return page.evaluate(`(${PAGE_RUN})(${JSON.stringify({ id, names, cancelFirst })})`) as Promise<Reply[]>;
 }
 
 describe.each(DEMO_AUDITS)("demo audit %s in a Chromium worker", (id) => {
