@@ -16,7 +16,7 @@ import { pathToFileURL } from "node:url";
 import zlib from "node:zlib";
 import { afterAll, beforeAll, describe, expect, test } from "vitest";
 import { buildBrowserBundle } from "../../scripts/build/browserBundle.ts";
-import type { runAuditFromFiles } from "../../src/browser/engine/engine.ts";
+import { runAuditFromFiles } from "../../src/browser/engine/engine.ts";
 import { readNumericCsv } from "../../src/ingest/readCsv.ts";
 import { canonicalJson } from "../../src/report/canonicalJson.ts";
 import { runAudit } from "../../src/report/runAudit.ts";
@@ -82,6 +82,17 @@ test("gzip of two members (RFC 1952 §2.2: concatenated members are one text): t
   );
   const expected = canonicalJson((await runAudit(dir)).result);
   expect((await bundle.runAuditFromFiles(auditFiles(dir))).json).toBe(expected);
+});
+
+test.each([
+  ["compound.h5", ["dataset: /runs/exchange", ...NAMED]],
+  ["columns.h5", ["columns: { Q: /runs/Q, dN: /runs/n }"]],
+])("HDF5 (%s) is refused in the browser build with a message naming the file; engine.ts in Node reads it as run does", async (file, keys) => {
+  const dir = await formatsAudit(work, file, keys);
+  const err = (await bundle.runAuditFromFiles(auditFiles(dir)).catch((e: unknown) => e)) as Error;
+  expect(err.name).toBe("DataError");
+  expect(err.message).toBe(`data/${file}: HDF5 files are not read in the browser (the HDF5 library is not part of this page's re-run); re-run this audit with the command line: transport-audit run <folder>`);
+  expect((await runAuditFromFiles(auditFiles(dir))).json).toBe(canonicalJson((await runAudit(dir)).result));
 });
 
 test("a gzip file with one byte of its data changed: the message run gives", async () => {

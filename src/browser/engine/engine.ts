@@ -3,8 +3,11 @@ import os from "node:os";
 import path from "node:path";
 import { compareResultTexts, type ResultProblem } from "../../archive/resultDifferences.ts";
 import { CHECKS } from "../../checks/index.ts";
-import { PathError } from "../../errors.ts";
-import { ingestAudit } from "../../ingest/loadAudit.ts";
+import { DataError, PathError } from "../../errors.ts";
+import { ingestDefinition } from "../../ingest/loadAudit.ts";
+import { chooseSource } from "../../ingest/sources/index.ts";
+import { loadAuditDefinition } from "../../config/loadAudit.ts";
+import type { AuditDefinition } from "../../config/types.ts";
 import { canonicalJson } from "../../report/canonicalJson.ts";
 import type { ResultDocument } from "../../report/resultDocument.ts";
 import { resultDocumentOf, runChecks } from "../../report/runAudit.ts";
@@ -77,6 +80,29 @@ function withoutFolder(err: unknown, dir: string): unknown {
 }
 
 /**
+ * True in the browser bundle, where the HDF5 library is absent (its Node
+ * build reads the host's files in place); scripts/build/browserBundle.ts
+ * defines it. In Node every format is read.
+ */
+declare const __TRANSPORT_AUDIT_BROWSER__: boolean | undefined;
+const BROWSER_BUILD = typeof __TRANSPORT_AUDIT_BROWSER__ !== "undefined" && __TRANSPORT_AUDIT_BROWSER__;
+
+/** Refuse, naming the dataset's file, an audit with an HDF5 dataset (its format as the reader would choose it). */
+function refuseHdf5(definition: AuditDefinition): void {
+  for (const [i, config] of definition.datasets.entries()) {
+    let format: string;
+    try {
+      ({ format } = chooseSource(config.file, (config as { format?: string }).format, `datasets[${i}]`));
+    } catch {
+      continue; // a folder or glob of parts, or no known extension: the reader decides, and words any refusal
+    }
+    if (format === "hdf5") {
+      throw new DataError(`${config.file}: HDF5 files are not read in the browser (the HDF5 library is not part of this page's re-run); re-run this audit with the command line: transport-audit run <folder>`);
+    }
+  }
+}
+
+/**
  * Run an audit given as its files (keys: paths relative to the audit folder,
  * "audit.yaml", "data/x.csv") and return its result document. Errors are the
  * project's typed errors (ConfigError, DataError, …) with the messages the
@@ -90,7 +116,9 @@ export async function runAuditFromFiles(files: ReadonlyMap<string, Uint8Array>, 
     // Reading: bytes of each data file as its reader reports them (large files), between a start and an end over all files given.
     const bytes = [...files.values()].reduce((sum, b) => sum + b.length, 0);
     onProgress?.({ phase: "ingest", done: 0, total: bytes });
-    const audit = await ingestAudit(dir, { onProgress: onProgress && ((file, done, total) => onProgress({ phase: "ingest", done, total, label: file })) });
+    const definition = loadAuditDefinition(dir);
+    if (BROWSER_BUILD) refuseHdf5(definition);
+    const audit = await ingestDefinition(dir, definition, { onProgress: onProgress && ((file, done, total) => onProgress({ phase: "ingest", done, total, label: file })) });
     onProgress?.({ phase: "ingest", done: bytes, total: bytes });
     signal?.throwIfAborted();
     const checks = runChecks(audit, CHECKS, (done, total, check) => {
