@@ -50,25 +50,21 @@ export interface RerunResult {
   document: ResultDocument;
 }
 
-/** A path of the audit folder as given ("data/x.csv"), checked to stay inside it. */
-function checkedRelativePath(name: string): string {
+/** Refuse a path of the audit folder as given ("data/x.csv") that could leave it or names no file. */
+function checkRelativePath(name: string): void {
   const parts = name.split("/");
   if (name === "" || name.startsWith("/") || name.includes("\\") || parts.some((p) => p === "" || p === "." || p === "..") || name.includes("\0")) {
     throw new PathError(`${JSON.stringify(name)}: expected a path inside the audit folder with "/" between names (like "data/run-1.csv"), without "..", "." or empty names`);
   }
-  return name;
 }
 
-/** Write the files into a new private folder; the folder's path. */
-function writeAuditFolder(files: ReadonlyMap<string, Uint8Array>): string {
-  const names = [...files.keys()].map(checkedRelativePath);
-  const dir = fs.mkdtempSync(path.join(os.tmpdir(), "transport-audit-rerun-"));
-  for (const name of names) {
+/** Write the files (their names checked already) into the folder `dir`. */
+function writeAuditFolder(dir: string, files: ReadonlyMap<string, Uint8Array>): void {
+  for (const [name, bytes] of files) {
     const target = path.join(dir, ...name.split("/"));
     fs.mkdirSync(path.dirname(target), { recursive: true });
-    fs.writeFileSync(target, files.get(name)!);
+    fs.writeFileSync(target, bytes);
   }
-  return dir;
 }
 
 /** The error with the private folder's path taken out of its message: messages name files as the audit folder holds them. */
@@ -111,8 +107,10 @@ function refuseHdf5(definition: AuditDefinition): void {
 export async function runAuditFromFiles(files: ReadonlyMap<string, Uint8Array>, options: RerunOptions = {}): Promise<RerunResult> {
   const { signal, onProgress } = options;
   signal?.throwIfAborted();
-  const dir = writeAuditFolder(files);
+  for (const name of files.keys()) checkRelativePath(name);
+  const dir = fs.mkdtempSync(path.join(os.tmpdir(), "transport-audit-rerun-"));
   try {
+    writeAuditFolder(dir, files);
     // Reading: bytes of each data file as its reader reports them (large files), between a start and an end over all files given.
     const bytes = [...files.values()].reduce((sum, b) => sum + b.length, 0);
     onProgress?.({ phase: "ingest", done: 0, total: bytes });
