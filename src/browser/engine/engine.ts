@@ -1,7 +1,6 @@
 import fs from "node:fs";
 import os from "node:os";
 import path from "node:path";
-import { compareResultTexts, type ResultProblem } from "../../archive/resultDifferences.ts";
 import { CHECKS } from "../../checks/index.ts";
 import { DataError, PathError } from "../../errors.ts";
 import { ingestDefinition } from "../../ingest/loadAudit.ts";
@@ -134,17 +133,5 @@ export async function runAuditFromFiles(files: ReadonlyMap<string, Uint8Array>, 
   }
 }
 
-export interface ResultJsonComparison {
-  reproduced: boolean;
-  differences: ResultProblem[];
-  more: number;
-}
-
-/**
- * A frozen result document's text against a re-run's (`json` above): the
- * comparison `verify` makes (src/archive/resultDifferences.ts), every
- * difference named by check and value, at most `maxDifferences` (default 40) listed.
- */
-export function compareResultJson(frozenJson: string, freshJson: string, maxDifferences?: number): ResultJsonComparison {
-  return compareResultTexts(frozenJson, freshJson, { maxDifferences });
-}
+// The comparison has no Node dependencies: a page may bundle ./compare.ts alone.
+export { compareResultJson, type ResultJsonComparison } from "./compare.ts";
