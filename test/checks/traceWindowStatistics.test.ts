@@ -22,10 +22,10 @@ import { expectClose } from "../helpers/expectClose.ts";
  * twice the integrated autocorrelation time of such runs (1 + 2 Σ_{k<c} (c − k)/c = c), as a trace's rule
  * gives them (blockLength.ts; its estimate scatters about this value), here fixed so that a block holds whole runs.
  */
-function repeatedWindows(copies: number, n: number): SamplesDataset {
-  const g = exactExchangeData({ seed: "repeated windows", n, TA: 1.5, TB: 1, muA: 0.3, withWork: false, heat: "laplace", sQ: 0.8, lN: 1.2 });
+function repeatedWindows(copies: number, n: number, leads = { TA: 1.5, TB: 1, muA: 0.3 }): SamplesDataset {
+  const g = exactExchangeData({ seed: "repeated windows", n, ...leads, withWork: false, heat: "laplace", sQ: 0.8, lN: 1.2 });
   const repeat = (x: Float64Array | null) => (x ? Float64Array.from({ length: x.length * copies }, (_, i) => x[Math.floor(i / copies)]) : null);
-  const d = fixtureDataset({ id: "repeated", TA: 1.5, TB: 1, muA: 0.3, work: "zero", W: null, Q: repeat(g.Q)!, dN: repeat(g.dN) });
+  const d = fixtureDataset({ id: "repeated", ...leads, work: "zero", W: null, Q: repeat(g.Q)!, dN: repeat(g.dN) });
   const length = 2 * copies;
   const rows = d.sigma.length;
   return {
@@ -58,7 +58,8 @@ describe("exchange-fluctuation on correlated windows", () => {
     const fit = withCountingCovariance(d, fitExchangeLogistic([d.sigma], null), [d.sigma], "features");
     const model = logisticScoreTest(fit, [d.sigma], [d.sigma.map((s) => s * s * s)], null).statistic;
     expectClose(model / v2.cubic_score_test.statistic, 10, { rtol: 0.3, source: "runs of ten identical windows" });
-    expect(r.assumptions.some((a) => a.includes("blocks of 20 windows"))).toBe(true);
+    expect(r.assumptions.some((a) => a.includes("every interval and every test takes its spread from 1500 non-overlapping blocks of 20 windows"))).toBe(true);
+    expect(r.references).toContain("H. Hotelling, Ann. Math. Stat. 2, 360 (1931)");
   });
 
   it("finds the same χ² from block sums as from the realisations when every window repeats once per block", () => {
@@ -73,6 +74,25 @@ describe("exchange-fluctuation on correlated windows", () => {
     expect(v.binned_chi_square.dof).toBe(pearson.dof);
     // Two statistics of one sample, each χ²_K with K ≈ 30: they agree to within a few standard deviations √(2K).
     expectClose(v.binned_chi_square.statistic, pearson.chiSquare, { atol: 3 * Math.sqrt(2 * pearson.dof), source: "both χ²_K under the relation" });
+  });
+
+  it("tests the mirror symmetry at zero affinity with signs summed over blocks: runs of ten count as one window", () => {
+    // Σ ≡ 0 (equal leads): the relation is P(z) = P(−z), tested by the signs and means of Q and ΔN. Blocks of
+    // 20 windows holding runs of ten copies give every block sum ten times that of 2 windows without copies,
+    // so the asymmetry, its null spread and each p-value are those of the data without copies (exact algebra).
+    const equal = { TA: 1, TB: 1, muA: 0 };
+    const runs = exchangeFluctuationForDataset(repeatedWindows(10, 3000, equal), testContext());
+    const single = exchangeFluctuationForDataset(repeatedWindows(1, 3000, equal), testContext());
+    type Symmetry = { symmetry: { current: string; sign_test_p: number; mean_z: number }[] };
+    const a = (runs.values as Symmetry).symmetry;
+    const b = (single.values as Symmetry).symmetry;
+    expect(a.map((x) => x.current)).toEqual(["Q", "dN"]);
+    a.forEach((x, k) => {
+      expectClose(x.sign_test_p, b[k].sign_test_p, { rtol: 1e-9, source: "block sums of ten copies = ten times block sums of one" });
+      expectClose(x.mean_z, b[k].mean_z, { rtol: 1e-9, source: "block sums of ten copies = ten times block sums of one" });
+    });
+    expect(runs.status, runs.summary).not.toBe("fail");
+    expect(runs.summary + JSON.stringify(runs.values)).not.toContain("exact sign test");
   });
 
   it("puts every realisation of a bin pair into its bin, for exact and for binned values", () => {

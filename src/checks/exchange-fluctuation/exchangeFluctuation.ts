@@ -155,8 +155,11 @@ function cubed(x: Float64Array): Float64Array {
   return out;
 }
 
+/** The binned test on windows of one trajectory: Hotelling's T² of block sums (blockBinnedTest.ts). */
+const HOTELLING_1931 = "H. Hotelling, Ann. Math. Stat. 2, 360 (1931)";
+
 function base(d: SamplesDataset): Pick<CheckResult, "check" | "dataset" | "references" | "equations"> {
-  return { check: "exchange-fluctuation", dataset: d.id, ...countingSources(d, EQUATIONS, REFERENCES) };
+  return { check: "exchange-fluctuation", dataset: d.id, ...countingSources(d, EQUATIONS, d.windows ? [...REFERENCES, HOTELLING_1931] : REFERENCES) };
 }
 
 export function assumptionsFor(d: SamplesDataset): string[] {

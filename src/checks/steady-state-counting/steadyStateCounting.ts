@@ -5,7 +5,7 @@ import { normalQuantile, normalTwoSidedP } from "../../stats/normal.ts";
 import { chiSquareSf } from "../../stats/chiSquare.ts";
 import { datasetsOfKind, fmt, fmtInterval, notApplicableResult, numberOption } from "../helpers.ts";
 import { withCountingCovariance } from "../countingCovariance.ts";
-import { countingAssumptions } from "../resamplingUnits.ts";
+import { CARLSTEIN_1986, countingAssumptions, KUNSCH_1989 } from "../resamplingUnits.ts";
 import type { CheckContext, CheckDefinition, CheckResult, Status, TableSpec } from "../types.ts";
 import type { PlotSpec } from "../plotSpec.ts";
 import { effectiveLead, perElectron, type PerElectron } from "./perElectron.ts";
@@ -41,8 +41,8 @@ const REFERENCES = [
 ];
 
 const BOOTSTRAP_REFERENCES = [
-  "E. Carlstein, Ann. Stat. 14, 1171 (1986)",
-  "H. R. Künsch, Ann. Stat. 17, 1217 (1989)",
+  CARLSTEIN_1986,
+  KUNSCH_1989,
   "S. N. Lahiri, Resampling Methods for Dependent Data (Springer, 2003)",
   "A. C. Aitken, Proc. R. Soc. Edinb. 55, 42 (1935)",
 ];
