@@ -70,7 +70,7 @@ function testChannel(d: SamplesDataset, c: CurrentChannel, margin: number, equiv
   const m = d.windows ? { ...plain, standardError: unitMean(d, c.x, null).standardError } : plain;
   const meanZ = m.standardError > 0 ? m.mean / m.standardError : 0;
   // Windows of one trajectory: their signs are not independent, so no exact binomial law.
-  const sign = d.windows ? blockSignTest(d, c.x, margin, equivalenceAlpha) : signTest(positive, negative, margin, equivalenceAlpha);
+  const sign = d.windows ? blockSignTest(d, c.x, positive, negative, margin, equivalenceAlpha) : signTest(positive, negative, margin, equivalenceAlpha);
   return { channel: c, sign, mean: m.mean, meanSe: m.standardError, meanZ, meanP: normalTwoSidedP(meanZ) };
 }
 
@@ -81,16 +81,9 @@ function testChannel(d: SamplesDataset, c: CurrentChannel, margin: number, equiv
  * the signs), and two one-sided normal tests of |A| < margin (Schuirmann 1987) in place of the exact
  * binomial tails, which need independent signs.
  */
-function blockSignTest(d: SamplesDataset, x: Float64Array, margin: number, alpha: number): SignTest {
+function blockSignTest(d: SamplesDataset, x: Float64Array, positive: number, negative: number, margin: number, alpha: number): SignTest {
   const s = Float64Array.from(x, (v) => Math.sign(v));
   const units = resamplingUnits(d, s, null, Float64Array.from(s, Math.abs), null);
-  let positive = 0;
-  let negative = 0;
-  for (let i = 0; i < x.length; i++) {
-    const w = d.weight ? d.weight[i] : 1;
-    if (s[i] > 0) positive += w;
-    else if (s[i] < 0) negative += w;
-  }
   const m = positive + negative;
   if (!(m > 0)) return { positive, negative, asymmetry: Number.NaN, p: 1, equivalenceP: 1, margin, equivalent: false };
   const asymmetry = (positive - negative) / m;
