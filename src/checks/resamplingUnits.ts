@@ -93,7 +93,7 @@ export function countingAssumptions(d: SamplesDataset, assumptions: string[]): s
   if (d.traceNotes) out.push(...d.traceNotes);
   if (d.windows) {
     out.push(
-      `Realisations are consecutive windows of one trajectory: intervals resample ${d.windows.blocks} blocks of ${d.windows.blockLength} windows (${d.windows.rule}), never single windows.`,
+      `Realisations are consecutive windows of one trajectory: every interval and every test takes its spread from ${d.windows.blocks} non-overlapping blocks of ${d.windows.blockLength} windows (${d.windows.rule}; Carlstein 1986, Künsch 1989), never from single windows.`,
     );
   }
   return out;
@@ -107,12 +107,13 @@ function stateAssumptionsOf(d: SamplesDataset): string[] {
 export const TOTAL_ENTROPY_EQUATION = String.raw`\Sigma = \Sigma_{\text{res}} + \ln p(x_0) - \ln p(x_\tau), \qquad \Sigma_{\text{res}} = \sum_{X=A,B} \beta_X\,(\Delta E_X - \mu_X \Delta N_X)`;
 export const SEIFERT_2005 = "U. Seifert, Phys. Rev. Lett. 95, 040602 (2005)";
 export const KUNSCH_1989 = "H. R. Künsch, Ann. Stat. 17, 1217 (1989)";
+export const CARLSTEIN_1986 = "E. Carlstein, Ann. Stat. 14, 1171 (1986)";
 
 /** Equations and references of a check, extended for counted data (states, windows) and unchanged otherwise. */
 export function countingSources(d: SamplesDataset, equations: string[], references: string[]): { equations: string[]; references: string[] } {
   return {
     equations: d.states ? [...equations, TOTAL_ENTROPY_EQUATION] : equations,
-    references: [...references, ...(d.states ? [SEIFERT_2005] : []), ...(d.windows ? [KUNSCH_1989] : [])],
+    references: [...references, ...(d.states ? [SEIFERT_2005] : []), ...(d.windows ? [CARLSTEIN_1986, KUNSCH_1989] : [])],
   };
 }
 

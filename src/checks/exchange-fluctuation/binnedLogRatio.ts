@@ -252,3 +252,38 @@ function mirrorBins(
   }
   return finish(bins, false, dropped);
 }
+
+/**
+ * The bin of each row in a binned log-ratio (index into `ratio.bins`, −1 for rows in no bin or with zero
+ * weight): the same pairing of s with −s as the bins were built with (the rounding key for exact values,
+ * the |Σ| edges otherwise), whichever sign the row's Σ has.
+ */
+export function binOfEachRow(sigma: ArrayLike<number>, weight: ArrayLike<number> | null, ratio: LogRatio): Int32Array {
+  const out = new Int32Array(sigma.length).fill(-1);
+  if (ratio.bins.length === 0) return out;
+  if (ratio.discrete) {
+    let maxAbs = 0;
+    for (let i = 0; i < sigma.length; i++) maxAbs = Math.max(maxAbs, Math.abs(sigma[i]));
+    const unit = maxAbs * 1e-9; // as discreteValues keys them
+    const index = new Map(ratio.bins.map((b, k) => [keyOf(b.x, unit), k]));
+    for (let i = 0; i < sigma.length; i++) {
+      if ((weight ? weight[i] : 1) > 0 && sigma[i] !== 0) out[i] = index.get(Math.abs(keyOf(sigma[i], unit))) ?? -1;
+    }
+    return out;
+  }
+  for (let i = 0; i < sigma.length; i++) {
+    const a = Math.abs(sigma[i]);
+    if (!((weight ? weight[i] : 1) > 0) || !(a > 0)) continue;
+    // Bins are disjoint and sorted by |Σ|: a binary search over their lower edges.
+    let lo = 0;
+    let hi = ratio.bins.length;
+    while (hi - lo > 1) {
+      const mid = (lo + hi) >> 1;
+      if (a >= ratio.bins[mid].lower) lo = mid;
+      else hi = mid;
+    }
+    const b = ratio.bins[lo];
+    if (a >= b.lower && a < b.upper) out[i] = lo;
+  }
+  return out;
+}

@@ -13,7 +13,8 @@ import { jointHistogramPlot, logRatioPlot, mirrorHistogramPlot } from "./plots.t
 import { mirrorSymmetryResult } from "./mirrorSymmetry.ts";
 import { marginOption, countOption } from "../options.ts";
 import { countingAssumptions, countingOffset, countingSources } from "../resamplingUnits.ts";
-import { withCountingCovariance } from "../countingCovariance.ts";
+import { countingScoreTest, withCountingCovariance } from "../countingCovariance.ts";
+import { blockBinnedTest } from "./blockBinnedTest.ts";
 
 /** Fewer negative-Σ realisations than this cannot pin the slope (the rare side carries the information). */
 export const MIN_NEGATIVE = 20;
@@ -154,8 +155,11 @@ function cubed(x: Float64Array): Float64Array {
   return out;
 }
 
+/** The binned test on windows of one trajectory: Hotelling's T² of block sums (blockBinnedTest.ts). */
+const HOTELLING_1931 = "H. Hotelling, Ann. Math. Stat. 2, 360 (1931)";
+
 function base(d: SamplesDataset): Pick<CheckResult, "check" | "dataset" | "references" | "equations"> {
-  return { check: "exchange-fluctuation", dataset: d.id, ...countingSources(d, EQUATIONS, REFERENCES) };
+  return { check: "exchange-fluctuation", dataset: d.id, ...countingSources(d, EQUATIONS, d.windows ? [...REFERENCES, HOTELLING_1931] : REFERENCES) };
 }
 
 export function assumptionsFor(d: SamplesDataset): string[] {
@@ -212,8 +216,14 @@ export function exchangeFluctuationForDataset(d: SamplesDataset, ctx: CheckConte
   const slope = slopeOk ? contracted.coefficients[0] : Number.NaN;
   const slopeSe = slopeOk ? contracted.standardErrors[0] : Number.NaN;
   const slopeCi: [number, number] = [slope - z * slopeSe, slope + z * slopeSe];
-  const cubic = slopeOk ? logisticScoreTest(contracted!, [sigma], [cubed(sigma)], weight) : null;
-  const ratio: LogRatio = binnedLogRatio(sigma, weight, minBinCount, d.reduction?.steps.sigma ?? null);
+  // Windows of one trajectory: the score's variance from block sums (and the estimated p), not the model's information.
+  const cubic = !slopeOk ? null : d.windows ? countingScoreTest(d, contracted, [sigma], [cubed(sigma)], [Float64Array.from(sigma, (s) => 3 * s * s)]) : logisticScoreTest(contracted!, [sigma], [cubed(sigma)], weight);
+  const plainRatio: LogRatio = binnedLogRatio(sigma, weight, minBinCount, d.reduction?.steps.sigma ?? null);
+  // Windows of one trajectory: the binned test and the bins' error bars from block sums (blockBinnedTest.ts).
+  const blocked = blockBinnedTest(d, plainRatio);
+  const ratio: LogRatio = blocked
+    ? { ...plainRatio, chiSquare: blocked.statistic, dof: blocked.groups, pValue: blocked.pValue, bins: plainRatio.bins.map((b, k) => ({ ...b, yErr: blocked.yErr[k] })) }
+    : plainRatio;
 
   // (2) Joint relation: the coefficients of (W, Q, ΔN), or the combinations of them the data identify.
   const channels = channelsOf(d);
@@ -254,7 +264,9 @@ export function exchangeFluctuationForDataset(d: SamplesDataset, ctx: CheckConte
     coefficientRows.push({ coefficient: m.terms.length ? `${m.label} (coefficient of ${m.channel.variable})` : m.channel.label, unit: m.channel.unit || "1", declared: m.declared, fitted: est, se, z: zScore, p });
   });
   // A χ² that is not a number (weights beyond double precision) is no test rather than a crash.
-  if (ratio.dof > 0 && !Number.isNaN(ratio.chiSquare)) tests.push({ name: "binned", p: ratio.pValue, describe: `the binned log-ratio departs from the line y = Σ (χ² = ${Number.isFinite(ratio.chiSquare) ? fmt(ratio.chiSquare) : "beyond double precision"}, ${ratio.dof} bins)` });
+  if (blocked) {
+    if (Number.isFinite(blocked.pValue)) tests.push({ name: "binned", p: blocked.pValue, describe: `the binned log-ratio departs from the line y = Σ (Hotelling T² = ${fmt(blocked.statistic)} over ${blocked.groups} ${blocked.groups < blocked.bins ? `groups of ${blocked.bins} bins` : "bins"} from ${blocked.blocks} blocks of ${d.windows!.blockLength} windows, F(${blocked.dof}, ${blocked.denominatorDof}) = ${fmt(blocked.f)})` });
+  } else if (ratio.dof > 0 && !Number.isNaN(ratio.chiSquare)) tests.push({ name: "binned", p: ratio.pValue, describe: `the binned log-ratio departs from the line y = Σ (χ² = ${Number.isFinite(ratio.chiSquare) ? fmt(ratio.chiSquare) : "beyond double precision"}, ${ratio.dof} bins)` });
   if (cubic && Number.isFinite(cubic.pValue)) tests.push({ name: "cubic", p: cubic.pValue, describe: "a cubic term in ln P(Σ)/P(−Σ) is significant (the ratio is not exponential in Σ)" });
   const family = holm(tests.map((t) => t.p), alpha);
   ident.combinations.forEach((m, j) => {
@@ -351,11 +363,17 @@ export function exchangeFluctuationForDataset(d: SamplesDataset, ctx: CheckConte
         p_value: e.p,
         quantities: e.quantities.map((q) => ({ name: q.name, value: q.value, interval: q.interval, declared: q.declared, unit: q.unit, interval_method: q.method })),
       })),
-      interval_method: "Wald intervals from the logistic fit's inverse Fisher information (delta method), temperatures mapped from β through T = 1/(k_B β)",
+      interval_method: d.windows
+        ? `Wald intervals from a sandwich covariance whose middle sums each fit's scores over ${d.windows.blocks} non-overlapping blocks of ${d.windows.blockLength} consecutive windows (block length ${d.windows.rule}; Carlstein 1986, Künsch 1989), temperatures mapped from β through T = 1/(k_B β)`
+        : "Wald intervals from the logistic fit's inverse Fisher information (delta method), temperatures mapped from β through T = 1/(k_B β)",
       declared_reservoirs: declaredTemps,
       bins_used: ratio.bins.length,
-      binned_chi_square: ratio.dof > 0 ? { statistic: ratio.chiSquare, dof: ratio.dof, p_value: ratio.pValue, exact_values: ratio.discrete } : null,
-      cubic_score_test: cubic && Number.isFinite(cubic.pValue) ? { statistic: cubic.statistic, dof: cubic.dof, p_value: cubic.pValue } : null,
+      binned_chi_square: blocked
+        ? { statistic: blocked.statistic, dof: blocked.dof, p_value: blocked.pValue, exact_values: ratio.discrete, method: "Hotelling T² of the bins' moment residuals summed over blocks of windows, referred to F(dof, denominator_dof)", f_statistic: blocked.f, denominator_dof: blocked.denominatorDof, blocks: blocked.blocks, block_length: d.windows!.blockLength, bins: blocked.bins }
+        : ratio.dof > 0
+          ? { statistic: ratio.chiSquare, dof: ratio.dof, p_value: ratio.pValue, exact_values: ratio.discrete }
+          : null,
+      cubic_score_test: cubic && Number.isFinite(cubic.pValue) ? { statistic: cubic.statistic, dof: cubic.dof, p_value: cubic.pValue, ...(d.windows ? { method: "score variance from block sums (robust score test)" } : {}) } : null,
       tests: tests.map((t, k) => ({ test: t.name, p_value: t.p, p_holm: family.adjusted[k], rejected: family.rejected[k] })),
       realisations: n,
       negative_sigma: negative,

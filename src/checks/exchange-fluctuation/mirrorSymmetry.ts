@@ -9,11 +9,12 @@
  */
 import type { SamplesDataset } from "../../ingest/types.ts";
 import { holm } from "../../stats/holm.ts";
-import { normalQuantile, normalTwoSidedP } from "../../stats/normal.ts";
+import { normalCdf, normalQuantile, normalSf, normalTwoSidedP } from "../../stats/normal.ts";
 import { signTest, type SignTest } from "../../stats/signTest.ts";
 import { resolveSentence } from "../../stats/sampleSize.ts";
 import { histogram, linearEdges } from "../../stats/histogram.ts";
 import { currentMoments, fmt, notApplicableResult } from "../helpers.ts";
+import { resamplingUnits, unitMean } from "../resamplingUnits.ts";
 import type { CheckResult, Status, TableSpec } from "../types.ts";
 import type { PlotSpec, Series } from "../plotSpec.ts";
 
@@ -64,9 +65,40 @@ function testChannel(d: SamplesDataset, c: CurrentChannel, margin: number, equiv
     if (c.x[i] > 0) positive += w;
     else if (c.x[i] < 0) negative += w;
   }
-  const m = currentMoments(d, c.x, c.key);
+  const plain = currentMoments(d, c.x, c.key);
+  // Windows of one trajectory: the mean's standard error from blocks of windows.
+  const m = d.windows ? { ...plain, standardError: unitMean(d, c.x, null).standardError } : plain;
   const meanZ = m.standardError > 0 ? m.mean / m.standardError : 0;
-  return { channel: c, sign: signTest(positive, negative, margin, equivalenceAlpha), mean: m.mean, meanSe: m.standardError, meanZ, meanP: normalTwoSidedP(meanZ) };
+  // Windows of one trajectory: their signs are not independent, so no exact binomial law.
+  const sign = d.windows ? blockSignTest(d, c.x, positive, negative, margin, equivalenceAlpha) : signTest(positive, negative, margin, equivalenceAlpha);
+  return { channel: c, sign, mean: m.mean, meanSe: m.standardError, meanZ, meanP: normalTwoSidedP(meanZ) };
+}
+
+/**
+ * The sign test for windows of one trajectory, whose signs are not independent: the asymmetry
+ * A = Σ sign(x)/Σ |sign(x)| with its standard error from the sums over blocks of windows (linearised ratio,
+ * resamplingUnits.ts; Carlstein 1986), a normal test of A = 0 with the spread under the null (block sums of
+ * the signs), and two one-sided normal tests of |A| < margin (Schuirmann 1987) in place of the exact
+ * binomial tails, which need independent signs.
+ */
+function blockSignTest(d: SamplesDataset, x: Float64Array, positive: number, negative: number, margin: number, alpha: number): SignTest {
+  const s = Float64Array.from(x, (v) => Math.sign(v));
+  const units = resamplingUnits(d, s, null, Float64Array.from(s, Math.abs), null);
+  const m = positive + negative;
+  if (!(m > 0)) return { positive, negative, asymmetry: Number.NaN, p: 1, equivalenceP: 1, margin, equivalent: false };
+  const asymmetry = (positive - negative) / m;
+  let null2 = 0;
+  let spread2 = 0;
+  for (let b = 0; b < units.u.length; b++) {
+    null2 += units.u[b] * units.u[b];
+    const e = units.u[b] - asymmetry * units.v![b];
+    spread2 += e * e;
+  }
+  const se0 = Math.sqrt(null2) / m;
+  const se = Math.sqrt(spread2) / m;
+  const p = se0 > 0 ? normalTwoSidedP(asymmetry / se0) : asymmetry === 0 ? 1 : 0;
+  const equivalenceP = se > 0 ? Math.max(normalSf((asymmetry + margin) / se), normalCdf((asymmetry - margin) / se)) : Math.abs(asymmetry) < margin ? 0 : 1;
+  return { positive, negative, asymmetry, p, equivalenceP, margin, equivalent: equivalenceP < alpha };
 }
 
 function mirrorPlot(d: SamplesDataset, c: CurrentChannel): PlotSpec {
@@ -113,7 +145,7 @@ export function mirrorSymmetryResult(
   const equivalenceAlpha = 1 - confidence;
   const results = channels.map((c) => testChannel(d, c, margin, equivalenceAlpha));
   const tests = results.flatMap((r) => [
-    { name: `sign of ${r.channel.symbol}`, p: r.sign.p, describe: `${r.channel.symbol} is positive in ${fmt(r.sign.positive)} and negative in ${fmt(r.sign.negative)} realisations (asymmetry ${fmt(r.sign.asymmetry, 3)}, exact sign test p = ${fmt(r.sign.p, 3)})` },
+    { name: `sign of ${r.channel.symbol}`, p: r.sign.p, describe: `${r.channel.symbol} is positive in ${fmt(r.sign.positive)} and negative in ${fmt(r.sign.negative)} realisations (asymmetry ${fmt(r.sign.asymmetry, 3)}, ${d.windows ? "sign test over blocks of windows" : "exact sign test"} p = ${fmt(r.sign.p, 3)})` },
     { name: `mean of ${r.channel.symbol}`, p: r.meanP, describe: `the mean of ${r.channel.symbol} is ${fmt(r.mean / r.channel.unit.factor, 3)}${r.channel.unit.name ? ` ${r.channel.unit.name}` : ""}, ${fmt(r.meanZ, 3)} standard errors from zero` },
   ]);
   const family = holm(tests.map((t) => t.p), alpha);
@@ -130,7 +162,7 @@ export function mirrorSymmetryResult(
     summary = `Σ is zero in every realisation, where the exchange relation demands the mirror symmetry P(z) = P(−z), and the data break it: ${rejected.map((t) => t.describe).join("; ")} (Holm-adjusted p ≤ ${alpha}).`;
   } else if (lacking.length === 0) {
     status = "pass";
-    summary = `Σ is zero in every realisation, where the exchange relation reduces to the mirror symmetry P(z) = P(−z); the sign asymmetry (k⁺ − k⁻)/(k⁺ + k⁻) of each current (${signText}) lies within ${marginWords} at ${confidence * 100} % confidence (exact two one-sided binomial tests), and no sign or mean departs significantly from symmetry (Holm, α = ${alpha}).`;
+    summary = `Σ is zero in every realisation, where the exchange relation reduces to the mirror symmetry P(z) = P(−z); the sign asymmetry (k⁺ − k⁻)/(k⁺ + k⁻) of each current (${signText}) lies within ${marginWords} at ${confidence * 100} % confidence (${d.windows ? "two one-sided tests with the spread from blocks of windows" : "exact two one-sided binomial tests"}), and no sign or mean departs significantly from symmetry (Holm, α = ${alpha}).`;
   } else {
     status = "inconclusive";
     summary = `Σ is zero in every realisation, where the exchange relation reduces to the mirror symmetry P(z) = P(−z); no significant asymmetry (sign asymmetries ${signText}), but the data cannot yet exclude one of ${margin} for ${lacking.map((r) => r.channel.symbol).join(" and ")}.`;

@@ -97,7 +97,7 @@ export function secondLawForDataset(d: SamplesDataset, ctx: CheckContext): Check
   const decision = decideSecondLaw(m.n, m.mean, m.standardError, alpha, confidence, margin);
   const a = d.affinity;
   // Per-channel contributions to <Sigma> (information): beta_bar<W>, a_Q<Q>, a_N<dN>.
-  const channel = (f: (i: number) => number) => weightedMeanOf(d.sigma.length, f, d.weight);
+  const channel = (f: (i: number) => number) => channelMean(d, f);
   const work = channel((i) => a.beta_bar * d.W[i]);
   const heat = channel((i) => a.a_Q * d.Q[i]);
   const particles = channel((i) => a.a_N * d.dN[i]);
@@ -148,12 +148,19 @@ export function secondLawForDataset(d: SamplesDataset, ctx: CheckContext): Check
   };
 }
 
+/** The mean of a per-realisation quantity with its standard error; for windows of one trajectory, from blocks of windows. */
+function channelMean(d: SamplesDataset, f: (i: number) => number): { mean: number; standardError: number } {
+  const m = weightedMeanOf(d.sigma.length, f, d.weight);
+  if (!d.windows) return m;
+  return { ...m, standardError: unitMean(d, Float64Array.from({ length: d.sigma.length }, (_, i) => f(i)), null).standardError };
+}
+
 /** With the conductor's states: the rest of Σ_res (particles the conductor keeps) and the boundary term, each with its mean. */
 function stateRows(d: SamplesDataset): { channel: string; mean: number; se: number }[] {
   const states = d.states!;
   const a = d.affinity;
-  const rest = weightedMeanOf(d.sigma.length, (i) => states.sigmaReservoirs[i] - a.beta_bar * d.W[i] - a.a_Q * d.Q[i] - a.a_N * d.dN[i], d.weight);
-  const boundary = weightedMeanOf(d.sigma.length, (i) => states.boundary[i], d.weight);
+  const rest = channelMean(d, (i) => states.sigmaReservoirs[i] - a.beta_bar * d.W[i] - a.a_Q * d.Q[i] - a.a_N * d.dN[i]);
+  const boundary = channelMean(d, (i) => states.boundary[i]);
   return [
     { channel: "particles kept by the conductor", mean: rest.mean, se: rest.standardError },
     { channel: "boundary  ln p(x₀) − ln p(x_τ)", mean: boundary.mean, se: boundary.standardError },

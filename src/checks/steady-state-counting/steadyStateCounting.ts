@@ -1,14 +1,15 @@
 import type { IngestedAudit, SamplesDataset } from "../../ingest/types.ts";
 import { fitExchangeLogistic } from "../../stats/logisticFit.ts";
-import { weightedFit } from "../../stats/weightedLeastSquares.ts";
+import { weightedLeastSquares, type WlsObservation } from "../../stats/weightedLeastSquares.ts";
 import { normalQuantile, normalTwoSidedP } from "../../stats/normal.ts";
 import { chiSquareSf } from "../../stats/chiSquare.ts";
 import { datasetsOfKind, fmt, fmtInterval, notApplicableResult, numberOption } from "../helpers.ts";
 import { withCountingCovariance } from "../countingCovariance.ts";
-import { countingAssumptions } from "../resamplingUnits.ts";
+import { CARLSTEIN_1986, countingAssumptions, KUNSCH_1989 } from "../resamplingUnits.ts";
 import type { CheckContext, CheckDefinition, CheckResult, Status, TableSpec } from "../types.ts";
 import type { PlotSpec } from "../plotSpec.ts";
 import { effectiveLead, perElectron, type PerElectron } from "./perElectron.ts";
+import { jointBootstrap, type JointBootstrap } from "./jointBootstrap.ts";
 
 /**
  * The long-time (Gallavotti–Cohen) symmetry of counted transfers: the scaled
@@ -23,7 +24,11 @@ import { effectiveLead, perElectron, type PerElectron } from "./perElectron.ts";
  * Per window length τ: A(τ) by maximum likelihood without bins (the logistic
  * form conditioned on the pair {n, −n}: Shirts et al., PRL 91, 140601 (2003)),
  * with a sandwich covariance over blocks for windows cut from one trace. Then
- * a weighted least-squares fit A(τ) = A_∞ + b/τ over the series.
+ * a generalised least-squares fit A(τ) = A_∞ + b/τ over the series: slopes of
+ * windows cut from one trace at several τ are correlated (the windows overlap
+ * in time), and their joint covariance comes from a block bootstrap of the
+ * trace's time axis shared by every τ (jointBootstrap.ts); slopes from separate
+ * datasets are independent, each with its own variance.
  */
 const REFERENCES = [
   "J. L. Lebowitz and H. Spohn, J. Stat. Phys. 95, 333 (1999)",
@@ -33,6 +38,13 @@ const REFERENCES = [
   "B. Küng, C. Rössler, M. Beck, M. Marthaler, D. S. Golubev, Y. Utsumi, T. Ihn and K. Ensslin, Phys. Rev. X 2, 011001 (2012)",
   "M. R. Shirts, E. Bair, G. Hooker and V. S. Pande, Phys. Rev. Lett. 91, 140601 (2003)",
   "D. Schuirmann, J. Pharmacokinet. Biopharm. 15, 657 (1987)",
+];
+
+const BOOTSTRAP_REFERENCES = [
+  CARLSTEIN_1986,
+  KUNSCH_1989,
+  "S. N. Lahiri, Resampling Methods for Dependent Data (Springer, 2003)",
+  "A. C. Aitken, Proc. R. Soc. Edinb. 55, 42 (1935)",
 ];
 
 const EQUATIONS = [
@@ -47,6 +59,7 @@ const MIN_AGAINST = 10;
 
 interface WindowSlope {
   dataset: string;
+  source: SamplesDataset;
   tau: number;
   windows: number;
   against: number;
@@ -73,7 +86,7 @@ function slopeAt(d: SamplesDataset): WindowSlope | string {
   // Block structure of trace windows enters the covariance; the states do not (this relation uses n alone).
   const fit = withCountingCovariance({ ...d, states: null }, fitExchangeLogistic([n], d.weight), [n], "offset");
   if (fit.status !== "converged") return `${d.id}: ${fit.message ?? "the fit of ln P(n)/P(−n) failed"}`;
-  return { dataset: d.id, tau: d.tau!, windows: d.realisations, against, slope: fit.coefficients[0], se: fit.standardErrors[0] };
+  return { dataset: d.id, source: d, tau: d.tau!, windows: d.realisations, against, slope: fit.coefficients[0], se: fit.standardErrors[0] };
 }
 
 function groups(audit: IngestedAudit): Map<string, SamplesDataset[]> {
@@ -86,17 +99,20 @@ function groups(audit: IngestedAudit): Map<string, SamplesDataset[]> {
   return out;
 }
 
-function base(series: string, d: SamplesDataset): Pick<CheckResult, "check" | "dataset" | "references" | "equations" | "assumptions"> {
+function base(series: string, d: SamplesDataset, traced = false): Pick<CheckResult, "check" | "dataset" | "references" | "equations" | "assumptions"> {
   return {
     check: "steady-state-counting",
     dataset: series,
-    references: REFERENCES,
+    references: traced ? [...REFERENCES, ...BOOTSTRAP_REFERENCES] : REFERENCES,
     equations: EQUATIONS,
     assumptions: countingAssumptions({ ...d, states: null }, [
       "Windows are cut from a stationary trajectory of a Markovian conductor whose rates obey local detailed balance with the leads.",
       "The count n is the net number of particles entering lead B in a window.",
       "The finite-τ slope approaches its limit as 1/τ over the window lengths used (A(τ) = A_∞ + b/τ); a significant lack of fit makes the extrapolation inconclusive, and the difference from an extrapolation in 1/√τ is added to the uncertainty of A_∞ as a systematic error of the extrapolation.",
-      "Slopes at different window lengths are treated as independent in the extrapolation (windows of one trace at several lengths overlap in time, which this neglects).",
+      traced
+        ? "Slopes at window lengths cut from one trace are correlated (the windows overlap in time): their joint covariance comes from a block bootstrap of the trace's time axis shared by every window length, and the extrapolation is a generalised least-squares fit with it; slopes from separate datasets are independent."
+        : "Slopes at different window lengths come from separate datasets and are independent.",
+      "One hypothesis is tested, A_∞ equal to the declared affinity per electron; the finite-τ slopes are not tested one by one (each carries the bias b/τ by construction), so no correction for multiplicity is needed.",
     ]),
   };
 }
@@ -121,6 +137,23 @@ export function steadyStateCountingForSeries(series: string, datasets: SamplesDa
     if (typeof s === "string") problems.push(s);
     else slopes.push(s);
   }
+  // Slopes of windows cut from one trace at several τ: their joint covariance from the shared time axis.
+  const sources = slopeSources(slopes);
+  const bootstraps = sources.map((group, k) =>
+    group.length > 1
+      ? jointBootstrap(
+          group.map((s) => s.source),
+          group.map((s) => countOf(s.source)),
+          ctx.settings.resamples,
+          ctx.rngFor(group[0].source.sha256, `joint-bootstrap-${series}-${k}`),
+        )
+      : null,
+  );
+  sources.forEach((group, k) => {
+    const boot = bootstraps[k];
+    if (boot) group.forEach((s, j) => (s.se = Math.sqrt(boot.covariance[j][j])));
+  });
+  const traced = bootstraps.some((boot) => boot !== null);
   const table: TableSpec = {
     id: "slopes",
     title: "Slope of ln P(n)/P(−n) at each window length",
@@ -137,24 +170,22 @@ export function steadyStateCountingForSeries(series: string, datasets: SamplesDa
   const distinct = new Set(slopes.map((s) => s.tau)).size;
   if (distinct < 2) {
     const reason = `${problems.length ? `${problems.join("; ")}. ` : ""}The extrapolation A(τ) = A_∞ + b/τ needs slopes at two or more window lengths; ${slopes.length} usable. Cut the trace at further window lengths (longer ones approach the limit).`;
-    return { ...base(series, first), status: "inconclusive", summary: `Only ${slopes.length} usable window length${slopes.length === 1 ? "" : "s"}: the long-time slope cannot be extrapolated.`, reason, values: { declared_affinity: declared, slopes: table.rows }, criteria: { alpha, margin, confidence }, tables: [table], plots: [] };
+    return { ...base(series, first, traced), status: "inconclusive", summary: `Only ${slopes.length} usable window length${slopes.length === 1 ? "" : "s"}: the long-time slope cannot be extrapolated.`, reason, values: { declared_affinity: declared, slopes: table.rows }, criteria: { alpha, margin, confidence }, tables: [table], plots: [] };
   }
-  const fit = weightedFit(
-    slopes.map((s) => [1, 1 / s.tau]),
-    slopes.map((s) => s.slope),
-    slopes.map((s) => s.se),
-  );
+  const bootText = bootstrapText(bootstraps, sources);
+  const starved = bootstraps.find((boot) => boot !== null && boot.used < boot.requested / 2);
+  if (starved) {
+    const reason = `${problems.length ? `${problems.join("; ")}. ` : ""}Record a longer trace (more blocks of time), or drop the shortest window lengths.`;
+    return { ...base(series, first, traced), status: "inconclusive", summary: `The joint block bootstrap of the window lengths could fit every slope in only ${starved.used} of ${starved.requested} resamples of ${starved.blocks} blocks of time: too few windows against the current to estimate the slopes' covariance.`, reason, values: { declared_affinity: declared, slopes: table.rows, joint_bootstrap: bootText.values }, criteria: { alpha, margin, confidence }, tables: [table], plots: [] };
+  }
+  const fit = extrapolate(sources, bootstraps, (tau) => 1 / tau);
   const Ainf = fit.coefficients[0];
   const b = fit.coefficients[1];
   // Before the asymptotic 1/τ regime the slope approaches its limit more slowly (the informative counts
   // n ~ √τ make a bounded boundary term look like 1/√τ). The spread between the two extrapolations is
   // carried as a systematic uncertainty of the extrapolation, so an unfinished approach cannot pass for a
   // violation; it shrinks as longer windows bring both to the limit.
-  const alternative = weightedFit(
-    slopes.map((s) => [1, 1 / Math.sqrt(s.tau)]),
-    slopes.map((s) => s.slope),
-    slopes.map((s) => s.se),
-  );
+  const alternative = extrapolate(sources, bootstraps, (tau) => 1 / Math.sqrt(tau));
   const systematic = Math.abs(alternative.coefficients[0] - Ainf);
   const statistical = fit.standardErrors[0];
   const se = Math.hypot(statistical, systematic);
@@ -179,7 +210,7 @@ export function steadyStateCountingForSeries(series: string, datasets: SamplesDa
     mu_B_ci: interval(effLo.mu_B, effHi.mu_B),
   };
   const longest = slopes[slopes.length - 1];
-  const estimate = `A_∞ = ${fmt(Ainf)}, ${confidence * 100}% interval ${fmtInterval(ci[0], ci[1])}, against the declared affinity per electron ${fmt(declared)}`;
+  const estimate = `A_∞ = ${fmt(Ainf)}, ${confidence * 100}% interval ${fmtInterval(ci[0], ci[1])}${bootText.sentence}, against the declared affinity per electron ${fmt(declared)}`;
   const effText = effectiveText(first, electron, effective);
   let status: Status;
   let summary: string;
@@ -207,7 +238,7 @@ export function steadyStateCountingForSeries(series: string, datasets: SamplesDa
   }
   if (problems.length) reason = `${reason ? `${reason} ` : ""}Left out: ${problems.join("; ")}.`;
   return {
-    ...base(series, first),
+    ...base(series, first, traced),
     status,
     summary,
     ...(reason ? { reason } : {}),
@@ -229,10 +260,70 @@ export function steadyStateCountingForSeries(series: string, datasets: SamplesDa
       energy_per_electron: { A: electron.energyA, B: electron.energyB },
       effective,
       slopes: table.rows,
+      ...(traced ? { joint_bootstrap: bootText.values, slope_covariance: slopeCovariance(sources, bootstraps) } : {}),
     },
     criteria: { alpha, margin, confidence },
     tables: [table],
     plots: [slopePlot(slopes, Ainf, b, ci, declared, z)],
+  };
+}
+
+/**
+ * Slopes grouped by what they were cut from: windows of one trace file (same file and content digest) at
+ * several τ form one group; every other slope is a group of its own. Groups are independent of each other.
+ */
+function slopeSources(slopes: WindowSlope[]): WindowSlope[][] {
+  const out = new Map<string, WindowSlope[]>();
+  slopes.forEach((s, k) => {
+    const key = s.source.windows ? `trace|${s.source.file}|${s.source.sha256}` : `dataset|${k}`;
+    out.set(key, [...(out.get(key) ?? []), s]);
+  });
+  return [...out.values()];
+}
+
+/**
+ * A(τ) = A_∞ + b g(τ) by generalised least squares (Aitken, Proc. R. Soc. Edinb. 55, 42 (1935)): one
+ * observation per group, its covariance the joint bootstrap's or the slope's own variance. With only
+ * independent slopes this is the weighted fit with weights 1/se².
+ */
+function extrapolate(sources: WindowSlope[][], bootstraps: (JointBootstrap | null)[], g: (tau: number) => number) {
+  const observations: WlsObservation[] = sources.map((group, k) => ({
+    design: group.map((s) => [1, g(s.tau)]),
+    y: group.map((s) => s.slope),
+    covariance: bootstraps[k]?.covariance ?? [[group[0].se * group[0].se]],
+  }));
+  return weightedLeastSquares(observations);
+}
+
+/** The slopes' covariance in the order of the table (zero between independent groups). */
+function slopeCovariance(sources: WindowSlope[][], bootstraps: (JointBootstrap | null)[]): number[][] {
+  const order = sources.flat();
+  const out = order.map(() => order.map(() => 0));
+  sources.forEach((group, k) => {
+    group.forEach((s, j) => {
+      group.forEach((t, l) => {
+        out[order.indexOf(s)][order.indexOf(t)] = bootstraps[k] ? bootstraps[k]!.covariance[j][l] : j === l ? s.se * s.se : 0;
+      });
+    });
+  });
+  return out;
+}
+
+/** How the slopes' covariance was found, for the summary and the values. */
+function bootstrapText(bootstraps: (JointBootstrap | null)[], sources: WindowSlope[][]): { sentence: string; values: Record<string, unknown>[] } {
+  const used = bootstraps.map((boot, k) => ({ boot, group: sources[k] })).filter((x) => x.boot !== null);
+  if (used.length === 0) return { sentence: "", values: [] };
+  const parts = used.map(({ boot, group }) => `${boot!.blocks} blocks of ${fmt(boot!.blockSeconds)} s of the trace resampled jointly for the ${group.length} window lengths, ${boot!.used} resamples`);
+  return {
+    sentence: ` (covariance of the slopes by a joint block bootstrap: ${parts.join("; ")})`,
+    values: used.map(({ boot, group }) => ({
+      datasets: group.map((s) => s.dataset),
+      method: "non-overlapping blocks of the trace's time axis drawn with replacement once per resample, the windows of every length starting in the drawn blocks (Carlstein 1986; Künsch 1989)",
+      block_seconds: boot!.blockSeconds,
+      blocks: boot!.blocks,
+      resamples: boot!.requested,
+      resamples_used: boot!.used,
+    })),
   };
 }
 

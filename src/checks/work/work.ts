@@ -3,6 +3,7 @@ import { normalQuantile, normalTwoSidedP } from "../../stats/normal.ts";
 import { resolveSentence } from "../../stats/sampleSize.ts";
 import { currentMoments, fmt, fmtInterval, numberOption, perDataset, withinCellScatter } from "../helpers.ts";
 import type { CheckContext, CheckDefinition, CheckResult, Status } from "../types.ts";
+import { unitMean } from "../resamplingUnits.ts";
 
 /**
  * Work done by switching the contact, W = ΔE_A + ΔE_B. Reports its mean, spread,
@@ -97,7 +98,9 @@ export function workForDataset(d: SamplesDataset, ctx: CheckContext): CheckResul
   let nonzero = 0;
   for (let i = 0; i < W.length; i++) if (Math.abs(W[i]) > threshold) nonzero += weight ? weight[i] : 1;
   const fraction = nonzero / d.realisations;
-  const m = currentMoments(d, W, "W");
+  const plain = currentMoments(d, W, "W");
+  // Windows of one trajectory: the standard error from blocks of windows (resamplingUnits.ts), not from single windows.
+  const m = d.windows ? { ...plain, standardError: unitMean(d, W, null).standardError } : plain;
   const bb = d.affinity.beta_bar;
   const meanBW = bb * m.mean;
   const seBW = bb * m.standardError;
