@@ -10,6 +10,19 @@ import { AFFINITY_UNIT, ONE, TRANSFER_UNIT, type UnitSpec, type ValueUnits } fro
 const AFFINITIES: UnitSpec = { ...AFFINITY_UNIT };
 const TEST_ROW: UnitSpec = { test: null, p_value: ONE, p_holm: ONE, rejected: null };
 const CHI_SQUARE: UnitSpec = { statistic: ONE, dof: ONE, p_value: ONE, exact_values: null };
+/** On trace windows the binned test is Hotelling's T² over blocks referred to F; block length counted in windows. */
+const BLOCK_BINNED: UnitSpec = {
+  statistic: ONE,
+  dof: ONE,
+  p_value: ONE,
+  exact_values: null,
+  method: null,
+  f_statistic: ONE,
+  denominator_dof: ONE,
+  blocks: ONE,
+  block_length: ONE,
+  bins: ONE,
+};
 
 const MULTIPLIED: Record<string, string> = { W: AFFINITY_UNIT.beta_bar, Q: AFFINITY_UNIT.a_Q, "ΔN": AFFINITY_UNIT.a_N, dN: AFFINITY_UNIT.a_N };
 
@@ -93,7 +106,7 @@ export const exchangeFluctuationUnits: ValueUnits = {
   explanations: rows("explanations", explanationRow),
   interval_method: null,
   bins_used: ONE,
-  binned_chi_square: CHI_SQUARE,
+  binned_chi_square: (values) => ((values.binned_chi_square as { f_statistic?: unknown } | null)?.f_statistic !== undefined ? BLOCK_BINNED : CHI_SQUARE),
   cubic_score_test: CHI_SQUARE,
   tests: TEST_ROW,
   realisations: ONE,

@@ -33,5 +33,9 @@ export const steadyStateCountingUnits: ValueUnits = {
     mu_B: "J",
     mu_B_ci: "J",
   },
+  // The joint block bootstrap over the trace's time axis: block duration in seconds, counts of unit one.
+  joint_bootstrap: { datasets: null, method: null, block_seconds: "s", blocks: ONE, resamples: ONE, resamples_used: ONE },
+  // Covariance of the slopes A(τ), which are of unit one.
+  slope_covariance: ONE,
   slopes: { dataset: null, tau: "s", windows: ONE, against: ONE, slope: ONE, se: ONE },
 };
