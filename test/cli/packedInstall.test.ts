@@ -11,6 +11,7 @@ import { beforeAll, describe, expect, it } from "vitest";
 import { auditYaml, makeTempArchive } from "../archive/tempArchive.ts";
 import { commaColumns, formatsAudit } from "../helpers/formatsAudit.ts";
 import { writeSamplesParquet } from "../helpers/writeSamplesParquet.ts";
+import { runAudit } from "../../src/report/runAudit.ts";
 
 const REPO = path.resolve(import.meta.dirname, "..", "..");
 const MINUTES = 60_000;
@@ -51,13 +52,16 @@ describe("the installed package", () => {
     expect(installedCli(["--version"])).toMatchObject({ code: 0, stdout: `${version}\n` });
   });
 
-  it("runs a coefficient audit", () => {
+  it("runs a coefficient audit", async () => {
     const dir = path.join(work, "ab2");
     fs.cpSync(path.join(REPO, "audits", "ab2-thermoelectric-field-sweep"), dir, { recursive: true });
     const r = installedCli(["run", dir]);
     expect(r.stderr).not.toContain("error");
     expect([0, 1]).toContain(r.code);
     expect(r.stdout).toMatch(/stamp: (PASS|FAIL|INCONCLUSIVE)\s+fingerprint: sha256:[0-9a-f]{64}/);
+    // The bundled code computes what the sources compute: the result document, byte for byte.
+    const { result } = await runAudit(dir);
+    expect(installedCli(["run", dir, "--json"]).stdout).toBe(`${JSON.stringify(result, null, 2)}\n`);
   }, 10 * MINUTES);
 
   it("runs a samples file large enough to be read by the reduction workers", () => {
