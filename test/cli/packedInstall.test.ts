@@ -122,6 +122,11 @@ describe("the installed package", () => {
     expect(files.some((f) => f.endsWith("katex.min.css"))).toBe(true);
     expect(files.some((f) => f.endsWith(".woff2"))).toBe(true);
     expect(files.some((f) => f.endsWith("style.css"))).toBe(true);
+    // The result cache trusts an entry only under the same digest of the tool's code, which the
+    // compiled code finds from its own address: a second build takes every audit from the cache.
+    const again = installedCli(["build", "--root", root, "--out", out]);
+    expect(again.code).toBe(0);
+    expect(again.stdout + again.stderr).toContain(`${ids.length} unchanged audit(s) taken from the result cache`);
   }, 20 * MINUTES);
 
   it("writes a simulated audit with synth (sampling on worker threads) that the installed tool then runs", () => {
