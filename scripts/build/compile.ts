@@ -1,9 +1,12 @@
-// Compiles src/ to dist/ for the published package: every TypeScript module
-// under src/ becomes one JavaScript module at the same relative path, its
-// relative `.ts` imports rewritten to `.js`, packages left as imports. The
-// file list is read from the folder at each build, so a module someone adds
-// is compiled without anyone listing it. Run by `npm pack` (prepack) and by
-// hand with `npm run compile`; development runs the sources through tsx.
+// Compiles src/ to dist/ for the published package, as bundles: each entry module (the command line,
+// each command, each worker thread's module, the audit computation the result cache digests) becomes
+// one JavaScript file at its own path under dist/, and code that several of them share goes into
+// chunks under dist/chunks/. The packages on every command's start-up path are bundled in with our
+// code; the rest stay imports of the installed packages. A process then reads a few files instead of
+// some 150 modules and the hundred-odd files of yaml (measured in DEVELOPERS.md, "Start-up"). Entries
+// are found in the sources at each build, so a worker someone adds is compiled without anyone listing
+// it. Run by `npm pack` (prepack) and by hand with `npm run compile`; development runs the sources
+// through tsx.
 import fs from "node:fs";
 import path from "node:path";
 import { fileURLToPath } from "node:url";
@@ -24,43 +27,118 @@ export function typeScriptModules(dir: string): string[] {
 }
 
 /**
- * Each module is compiled alone: every import is left to Node at run time
- * (external), a relative one pointing at the compiled `.js` sibling.
+ * Pure JavaScript packages that every command loads on start (the argument
+ * parser, the colours of messages, the audit definition's parser and schema,
+ * the CSV reader, the linear algebra of the checks), with the packages they
+ * import. Bundled, they cost a fraction of loading them file by file. The
+ * others stay imports: format readers that load only with a file of their
+ * format (h5wasm ships a WebAssembly file beside its code), and what only
+ * `build`, `pdf` or `synth` use (Eleventy loads templates by path, KaTeX's
+ * styles and fonts are copied from its folder).
  */
-const importsStayImports: esbuild.Plugin = {
-  name: "imports-stay-imports",
-  setup(build) {
-    build.onResolve({ filter: /.*/ }, (args) => {
-      if (args.kind === "entry-point") return undefined;
-      const relative = args.path.startsWith("./") || args.path.startsWith("../");
-      return { path: relative ? args.path.replace(/\.ts$/, ".js") : args.path, external: true };
-    });
-  },
-};
+export const BUNDLED_PACKAGES: ReadonlySet<string> = new Set(["commander", "picocolors", "yaml", "zod", "csv-parse", "ml-matrix"]);
 
-/** Compile `srcDir` into `outDir` (replaced whole); returns the number of modules written. */
+/** The package a bare specifier names (`csv-parse/sync` → `csv-parse`, `@scope/name/x` → `@scope/name`). */
+function packageOf(specifier: string): string {
+  const parts = specifier.split("/");
+  return specifier.startsWith("@") ? parts.slice(0, 2).join("/") : parts[0];
+}
+
+/**
+ * The modules that must be files of their own at their source's path:
+ * the command line, the command modules, the audit computation (the result
+ * cache digests the code reached from dist/report/runAudit.js), and every
+ * module started as a worker thread (`new URL("./worker.ts", import.meta.url)`
+ * in a module of src/; src/threads/tsWorker.ts starts the `.js` beside it).
+ */
+export function entryModules(srcDir: string): string[] {
+  const entries = new Set([path.join(srcDir, "cli", "main.ts"), path.join(srcDir, "report", "runAudit.ts")]);
+  for (const file of typeScriptModules(path.join(srcDir, "cli", "commands"))) entries.add(file);
+  for (const file of typeScriptModules(srcDir)) {
+    for (const m of fs.readFileSync(file, "utf8").matchAll(/new URL\(\s*["'](\.{1,2}\/[^"']+\.ts)["']\s*,\s*import\.meta\.url\s*\)/g)) {
+      const worker = path.resolve(path.dirname(file), m[1]);
+      if (fs.existsSync(worker)) entries.add(worker); // (not an example in a comment)
+    }
+  }
+  return [...entries].sort();
+}
+
+/** Marks each module's `import.meta.url` in the bundle until the output files' places are known. */
+const MODULE_URL = "__transportAuditModuleUrl";
+
+/**
+ * Bundled code keeps each module's own address: `import.meta.url` in a
+ * module of src/ is written as the URL its compiled file would have had
+ * on its own (dist/report/buildSite.js for src/report/buildSite.ts), so that
+ * paths computed from it (package.json, templates/, a worker's module, the
+ * code the result cache digests) hold wherever esbuild put the code. Packages
+ * go in or stay out as BUNDLED_PACKAGES says; a bundled package's own imports
+ * go in with it.
+ */
+function ownLayoutPlugin(srcDir: string): esbuild.Plugin {
+  return {
+    name: "own-layout",
+    setup(build) {
+      build.onResolve({ filter: /^[^./]/ }, (args) => {
+        if (args.kind === "entry-point" || args.path.startsWith("node:")) return undefined;
+        const fromPackage = args.importer.split(path.sep).includes("node_modules");
+        if (fromPackage || BUNDLED_PACKAGES.has(packageOf(args.path))) return undefined;
+        return { path: args.path, external: true };
+      });
+      build.onLoad({ filter: /\.ts$/ }, (args) => {
+        if (!args.path.startsWith(srcDir + path.sep)) return undefined;
+        const compiled = path.relative(srcDir, args.path).replace(/\.ts$/, ".js").split(path.sep).join("/");
+        const text = fs.readFileSync(args.path, "utf8").replaceAll("import.meta.url", `${MODULE_URL}(${JSON.stringify(compiled)})`);
+        return { contents: text, loader: "ts" };
+      });
+    },
+  };
+}
+
+/** An output file's text with each marked module URL written relative to the file itself. */
+function placeModuleUrls(text: string, outFile: string, outDir: string): string {
+  const marker = new RegExp(`${MODULE_URL}\\(("[^"]+")\\)`, "g");
+  return text.replace(marker, (_, quoted: string) => {
+    const target = path.join(outDir, JSON.parse(quoted) as string);
+    let relative = path.relative(path.dirname(outFile), target).split(path.sep).join("/");
+    if (!relative.startsWith(".")) relative = `./${relative}`;
+    return `new URL(${JSON.stringify(relative)}, import.meta.url).href`;
+  });
+}
+
+/** Compile `srcDir` into `outDir` (replaced whole); returns the number of files written. */
 export async function compile(srcDir: string, outDir: string): Promise<number> {
-  const entryPoints = typeScriptModules(srcDir);
   const staging = `${outDir}.staging-${process.pid}`;
   fs.rmSync(staging, { recursive: true, force: true });
-  await esbuild.build({
-    entryPoints,
+  const result = await esbuild.build({
+    entryPoints: entryModules(srcDir),
     outbase: srcDir,
     outdir: staging,
     bundle: true,
-    plugins: [importsStayImports],
+    splitting: true,
+    chunkNames: "chunks/[name]-[hash]",
+    plugins: [ownLayoutPlugin(srcDir)],
     platform: "node",
     format: "esm",
     target: "node20",
+    // Bundled CommonJS packages (yaml, commander) call require() for Node's own modules.
+    banner: { js: 'import { createRequire as __transportAuditRequire } from "node:module"; const require = __transportAuditRequire(import.meta.url);' },
+    write: false,
     logLevel: "warning",
   });
+  for (const file of result.outputFiles) {
+    const text = placeModuleUrls(file.text, file.path, staging);
+    if (text.includes(MODULE_URL)) throw new Error(`${file.path}: a module URL was left unplaced`);
+    fs.mkdirSync(path.dirname(file.path), { recursive: true });
+    fs.writeFileSync(file.path, text);
+  }
   fs.rmSync(outDir, { recursive: true, force: true });
   fs.renameSync(staging, outDir);
-  return entryPoints.length;
+  return result.outputFiles.length;
 }
 
 if (process.argv[1] && path.resolve(process.argv[1]) === fileURLToPath(import.meta.url)) {
   const started = performance.now();
   const count = await compile(path.join(ROOT, "src"), path.join(ROOT, "dist"));
-  process.stderr.write(`compiled ${count} modules from src/ to dist/ in ${((performance.now() - started) / 1000).toFixed(2)} s\n`);
+  process.stderr.write(`compiled src/ to ${count} files in dist/ in ${((performance.now() - started) / 1000).toFixed(2)} s\n`);
 }

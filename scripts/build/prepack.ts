@@ -15,4 +15,4 @@ const started = performance.now();
 const count = await compile(path.join(ROOT, "src"), path.join(ROOT, "dist"));
 await (await import("./browserBundle.ts")).buildBrowserBundle(path.join(ROOT, "dist", "browser")); // the page's re-run worker, prebuilt: installed copies have no esbuild
 fs.copyFileSync(path.join(ROOT, "package-lock.json"), path.join(ROOT, "npm-shrinkwrap.json"));
-process.stderr.write(`compiled ${count} modules from src/ to dist/ in ${((performance.now() - started) / 1000).toFixed(2)} s; lockfile shipped as npm-shrinkwrap.json\n`);
+process.stderr.write(`compiled src/ to ${count} files in dist/ in ${((performance.now() - started) / 1000).toFixed(2)} s; lockfile shipped as npm-shrinkwrap.json\n`);

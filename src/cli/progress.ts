@@ -1,26 +1,3 @@
-import cliProgress from "cli-progress";
-
-/** A progress bar on stderr when it is a terminal; silent otherwise (CI logs, pipes). */
-export function progressBar(label: string): { update(done: number, total: number, item: string): void; stop(): void } {
-  if (!process.stderr.isTTY) return { update() {}, stop() {} };
-  const bar = new cliProgress.SingleBar(
-    { format: `${label} [{bar}] {value}/{total} {item}`, stream: process.stderr, hideCursor: true, clearOnComplete: true },
-    cliProgress.Presets.shades_classic,
-  );
-  let started = false;
-  return {
-    update(done, total, item) {
-      if (!started) {
-        bar.start(total, done, { item });
-        started = true;
-      } else bar.update(done, { item });
-    },
-    stop() {
-      if (started) bar.stop();
-    },
-  };
-}
-
 /**
  * Progress of reading large files on stderr when it is a terminal: bytes read,
  * rate and time left, one line per file, redrawn at most ten times a second.

@@ -10,8 +10,9 @@ export const RUNNING_COMPILED = !import.meta.url.endsWith(".ts");
 /**
  * A worker thread running the module `script`, given by its source path
  * (`new URL("./worker.ts", import.meta.url)`). In the compiled package the
- * worker runs the compiled sibling (`worker.js`) with plain Node and starts in
- * tens of milliseconds. From the sources it runs through tsx's loader (plain
+ * worker runs the compiled file at the same place (`worker.js`) with plain
+ * Node and starts in tens of milliseconds: scripts/build/compile.ts makes
+ * every module named this way a bundle entry of its own. From the sources it runs through tsx's loader (plain
  * Node cannot load .ts files), which takes about a second on this machine
  * class as tsx transpiles the modules it loads; where that matters, a caller
  * starts the worker on a bundle instead (src/ingest/reduce/parallelReduce.ts).

@@ -9,6 +9,9 @@ import os from "node:os";
 import path from "node:path";
 import { beforeAll, describe, expect, it } from "vitest";
 import { auditYaml, makeTempArchive } from "../archive/tempArchive.ts";
+import { commaColumns, formatsAudit } from "../helpers/formatsAudit.ts";
+import { writeSamplesParquet } from "../helpers/writeSamplesParquet.ts";
+import { runAudit } from "../../src/report/runAudit.ts";
 
 const REPO = path.resolve(import.meta.dirname, "..", "..");
 const MINUTES = 60_000;
@@ -49,13 +52,16 @@ describe("the installed package", () => {
     expect(installedCli(["--version"])).toMatchObject({ code: 0, stdout: `${version}\n` });
   });
 
-  it("runs a coefficient audit", () => {
+  it("runs a coefficient audit", async () => {
     const dir = path.join(work, "ab2");
     fs.cpSync(path.join(REPO, "audits", "ab2-thermoelectric-field-sweep"), dir, { recursive: true });
     const r = installedCli(["run", dir]);
     expect(r.stderr).not.toContain("error");
     expect([0, 1]).toContain(r.code);
     expect(r.stdout).toMatch(/stamp: (PASS|FAIL|INCONCLUSIVE)\s+fingerprint: sha256:[0-9a-f]{64}/);
+    // The bundled code computes what the sources compute: the result document, byte for byte.
+    const { result } = await runAudit(dir);
+    expect(installedCli(["run", dir, "--json"]).stdout).toBe(`${JSON.stringify(result, null, 2)}\n`);
   }, 10 * MINUTES);
 
   it("runs a samples file large enough to be read by the reduction workers", () => {
@@ -72,6 +78,27 @@ describe("the installed package", () => {
     const doc = JSON.parse(r.stdout) as { datasets: { rows: number }[] };
     expect(doc.datasets[0].rows).toBe(Math.ceil(((66 << 20) + 1) / block.length) * rows.length);
   }, 15 * MINUTES);
+
+  it("reads every binary and compressed format through its reader, loaded when such a file is opened", async () => {
+    // The one samples dataset of test/ingest/formats.test.ts (240 rows, values exact in every
+    // type): each reader is imported only when a file of its format is opened, so a module or
+    // a WebAssembly file missing from the package would fail here and nowhere earlier. Each
+    // shape must give the comma file's checks, digit for digit.
+    const byName = ["columns: { Q: Q_meV, dN: n }"];
+    const checksOf = async (file: string, keys: string[], write?: (target: string) => Promise<void>) => {
+      const r = installedCli(["run", await formatsAudit(work, file, keys, write), "--json"]);
+      expect(r.stderr, file).not.toContain("error");
+      const doc = JSON.parse(r.stdout) as { datasets: { rows: number }[]; checks: unknown[] };
+      expect(doc.datasets[0].rows, file).toBe(240);
+      return JSON.stringify(doc.checks).replaceAll(`data/${file}`, "<file>");
+    };
+    const reference = await checksOf("comma.csv", byName);
+    expect(await checksOf("comma.csv.zst", byName)).toBe(reference);
+    expect(await checksOf("samples.parquet", byName, async (target) => writeSamplesParquet(target, await commaColumns()))).toBe(reference);
+    expect(await checksOf("compound.h5", ["dataset: /runs/exchange", ...byName])).toBe(reference);
+    expect(await checksOf("structured.npy", byName)).toBe(reference);
+    expect(await checksOf("deflated.npz", byName)).toBe(reference);
+  }, 10 * MINUTES);
 
   it("builds the site of an archive big enough for the audit pool, with templates, styles and KaTeX fonts", () => {
     const root = path.join(work, "archive");
@@ -95,6 +122,11 @@ describe("the installed package", () => {
     expect(files.some((f) => f.endsWith("katex.min.css"))).toBe(true);
     expect(files.some((f) => f.endsWith(".woff2"))).toBe(true);
     expect(files.some((f) => f.endsWith("style.css"))).toBe(true);
+    // The result cache trusts an entry only under the same digest of the tool's code, which the
+    // compiled code finds from its own address: a second build takes every audit from the cache.
+    const again = installedCli(["build", "--root", root, "--out", out]);
+    expect(again.code).toBe(0);
+    expect(again.stdout + again.stderr).toContain(`${ids.length} unchanged audit(s) taken from the result cache`);
   }, 20 * MINUTES);
 
   it("writes a simulated audit with synth (sampling on worker threads) that the installed tool then runs", () => {

@@ -1,8 +1,19 @@
 import fs from "node:fs";
 import path from "node:path";
+import { readNumericCsv } from "../../src/ingest/readCsv.ts";
 
 /** The fixtures of scripts/fixtures/write_formats.py: one samples dataset in many file shapes, and bad files. */
 export const FORMAT_FIXTURES = path.resolve("test/ingest/fixtures/formats");
+
+/** The comma file's columns, for writers run by the tests (Parquet: pyarrow is not packaged for Debian). */
+export async function commaColumns(): Promise<Record<string, Float64Array>> {
+  const table = await readNumericCsv(path.join(FORMAT_FIXTURES, "comma.csv"), "comma.csv", [
+    { role: "window", column: "window" },
+    { role: "Q", column: "Q_meV" },
+    { role: "dN", column: "n" },
+  ]);
+  return { window: table.columns.get("window")!, Q_meV: table.columns.get("Q_meV")!, n: table.columns.get("n")! };
+}
 
 /** audit.yaml for the fixtures' dataset in `data/<file>`, with the dataset's layout keys (columns included). */
 export function formatsAuditYaml(file: string, keys: readonly string[]): string {

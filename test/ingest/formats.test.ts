@@ -3,9 +3,8 @@ import os from "node:os";
 import path from "node:path";
 import { afterAll, describe, expect, it } from "vitest";
 import { runAudit } from "../../src/report/runAudit.ts";
-import { readNumericCsv } from "../../src/ingest/readCsv.ts";
 import { writeSamplesParquet } from "../helpers/writeSamplesParquet.ts";
-import { FORMAT_FIXTURES, formatsAudit } from "../helpers/formatsAudit.ts";
+import { commaColumns, formatsAudit } from "../helpers/formatsAudit.ts";
 
 /**
  * One small `samples` dataset (240 realisations, test/ingest/fixtures/formats, written by
@@ -33,16 +32,6 @@ interface Shape {
 
 const BY_NAME = ["columns: { Q: Q_meV, dN: n }"];
 const BY_POSITION = ["columns: { Q: 2, dN: 3 }"];
-
-/** The comma file's columns, for writers run by the test (Parquet: pyarrow is not packaged for Debian). */
-async function commaColumns(): Promise<Record<string, Float64Array>> {
-  const table = await readNumericCsv(path.join(FORMAT_FIXTURES, "comma.csv"), "comma.csv", [
-    { role: "window", column: "window" },
-    { role: "Q", column: "Q_meV" },
-    { role: "dN", column: "n" },
-  ]);
-  return { window: table.columns.get("window")!, Q_meV: table.columns.get("Q_meV")!, n: table.columns.get("n")! };
-}
 
 /** The comma file's rows as three Parquet parts in a hive-style partition folder, as a distributed engine writes them. */
 async function writeParquetParts(target: string): Promise<void> {

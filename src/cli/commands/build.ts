@@ -3,7 +3,7 @@ import { InvalidArgumentError, type Command } from "commander";
 import { buildSite, type BuildOutcome } from "../../report/buildSite.ts";
 import { RESULT_CACHE_FOLDER } from "../../report/resultCache.ts";
 import { EXIT } from "../exit.ts";
-import { progressBar } from "../progress.ts";
+import { progressBar } from "../progressBar.ts";
 
 export function registerBuild(program: Command, setExit: (code: number) => void): void {
   program

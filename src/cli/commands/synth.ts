@@ -1,7 +1,7 @@
 import { Command, Option } from "commander";
 import { DOT_PARAMETERS, DOUBLE_DOT_PARAMETERS, FERMION_PARAMETERS, TILTED_PARAMETERS, synthDot, synthDoubleDot, synthFermions, synthTilted, writeAuditFolder } from "../../synth/index.ts";
 import type { SynthAudit, SynthParameter } from "../../synth/index.ts";
-import { progressBar } from "../progress.ts";
+import { progressBar } from "../progressBar.ts";
 import { EXIT } from "../exit.ts";
 import { InputError } from "../../errors.ts";
 

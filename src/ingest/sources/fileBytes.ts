@@ -1,7 +1,6 @@
 import fs from "node:fs";
 import { createHash } from "node:crypto";
 import zlib from "node:zlib";
-import { CheckedZstd } from "./zstdFrames.ts";
 import { DataError } from "../../errors.ts";
 
 /** How the bytes on disk are compressed; told by their first bytes, not by the name. */
@@ -77,6 +76,7 @@ async function* decompressed(fd: number, size: number, compression: Compression,
   const damaged = (detail: string) =>
     new DataError(`${label}: the ${what} data is damaged (${detail}); the file cannot be decompressed: copy it again from its source`);
   if (compression === "zstd") {
+    const { CheckedZstd } = await import("./zstdFrames.ts"); // the Zstandard decoder only for a .zst file
     const out: Uint8Array[] = [];
     const inflater = new CheckedZstd((data) => out.push(data));
     for await (const block of diskBlocks(fd, 0, size, onBytes)) {

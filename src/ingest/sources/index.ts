@@ -12,7 +12,12 @@ export type * from "./types.ts";
 /**
  * Every format the tool reads: one line per format module. A module answers
  * to its `format:` names and detects its files by name; the first that
- * claims a file takes it.
+ * claims a file takes it. Names and detection are all the registry loads: a
+ * module's reader, with the packages behind it (hyparquet and its
+ * decompressors, h5wasm, fflate, fzstd), is imported by `import()` inside its
+ * `open`, when a file of that format is opened. An audit of text files thus
+ * never loads them (half a second of start-up for h5wasm alone);
+ * test/cli/lazyImports.test.ts holds every format to this.
  */
 export const SOURCES: readonly SourceModule[] = [
   textSource, // comma, tab, semicolon, whitespace; plain, .gz, .zst

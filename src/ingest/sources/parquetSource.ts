@@ -1,9 +1,6 @@
 import fs from "node:fs";
 import { ConfigError } from "../../errors.ts";
 import { descriptorAsyncBuffer } from "../parquet/fileAsyncBuffer.ts";
-import { openParquetBuffer } from "../parquet/openParquet.ts";
-import { topLevelColumns } from "../parquet/numericColumns.ts";
-import { readOpenParquetColumns } from "../parquet/readParquetColumns.ts";
 import { openDataFile } from "./openDataFile.ts";
 import { sha256OfDescriptor } from "./fileBytes.ts";
 import type { OpenSource, SourceModule, SourceRequest } from "./types.ts";
@@ -23,6 +20,12 @@ async function openParquetSource(request: SourceRequest): Promise<OpenSource> {
   const { label } = request;
   const { fd, size } = openDataFile(request.filePath, label, request.auditDir);
   try {
+    // hyparquet and its decompressors (WebAssembly among them) load only when a Parquet file is opened.
+    const [{ openParquetBuffer }, { topLevelColumns }, { readOpenParquetColumns }] = await Promise.all([
+      import("../parquet/openParquet.ts"),
+      import("../parquet/numericColumns.ts"),
+      import("../parquet/readParquetColumns.ts"),
+    ]);
     const open = await openParquetBuffer(descriptorAsyncBuffer(fd, size), label);
     const available = topLevelColumns(open.metadata);
     const names = request.columns.map((w) => {

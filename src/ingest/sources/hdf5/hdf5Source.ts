@@ -2,7 +2,6 @@ import fs from "node:fs";
 import { openDataFile } from "../openDataFile.ts";
 import { binarySource, optionalColumns } from "../binary/binarySource.ts";
 import type { OpenSource, SourceModule, SourceRequest } from "../types.ts";
-import { openHdf5 } from "./readHdf5.ts";
 
 /**
  * HDF5 files: with `dataset:` a compound table (columns by member name) or a 2-D array
@@ -28,6 +27,8 @@ async function openHdf5Source(request: SourceRequest): Promise<OpenSource> {
   const { fd, size } = openDataFile(request.filePath, request.label, request.auditDir);
   try {
     const columns = request.columns.map((w) => w.column);
+    // The HDF5 library (a WebAssembly build, about half a second to load) only when an HDF5 file is opened.
+    const { openHdf5 } = await import("./readHdf5.ts");
     const h5 = await openHdf5(pathOfDescriptor(fd, request.filePath), request.label, request.settings.dataset, columns, optionalColumns(request));
     return binarySource(request, fd, size, { format: h5.description, rows: h5.rows, available: h5.available, present: h5.present, batches: () => h5.batches(), close: () => h5.close() });
   } catch (err) {

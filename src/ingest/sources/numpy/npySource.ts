@@ -2,7 +2,6 @@ import fs from "node:fs";
 import { openDataFile } from "../openDataFile.ts";
 import { binarySource, optionalColumns } from "../binary/binarySource.ts";
 import type { OpenSource, SourceModule, SourceRequest } from "../types.ts";
-import { openNpy } from "./readNpy.ts";
 
 /** NumPy .npy arrays (numpy.save): a structured array, columns by field name, or a 2-D array, columns by position from 1. */
 export const npySource: SourceModule = {
@@ -14,6 +13,7 @@ export const npySource: SourceModule = {
 async function openNpySource(request: SourceRequest): Promise<OpenSource> {
   const { fd, size } = openDataFile(request.filePath, request.label, request.auditDir);
   try {
+    const { openNpy } = await import("./readNpy.ts"); // loaded when a .npy file is opened, like every format's reader
     const npy = await openNpy(fd, size, request.label, request.columns.map((w) => w.column), optionalColumns(request));
     const fields = npy.plan.columns.map((c) => c.column);
     return binarySource(request, fd, size, {
