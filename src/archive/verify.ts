@@ -9,11 +9,13 @@ import type { ResultDocument } from "../report/resultDocument.ts";
 import { resultDocumentOf, runChecks } from "../report/runAudit.ts";
 import { TOOL } from "../version.ts";
 import { datasetDigest } from "../ingest/fileDigest.ts";
-import { diffValues, formatPath, formatValue, type ValueDifference } from "./diffValues.ts";
+import { compareResultTexts, type ResultProblem } from "./resultDifferences.ts";
 import { checkArchive, type IntegrityProblem } from "./integrity.ts";
 import { DEFINITION_FILE, VERSIONS_DIR, listVersionNumbers } from "./layout.ts";
 import { publicationDate } from "./manifest.ts";
 import type { FrozenVersion } from "./readVersion.ts";
+
+export type { ResultProblem } from "./resultDifferences.ts";
 
 /** A data file whose bytes are not those the version was published with. */
 export interface DataFileProblem {
@@ -21,16 +23,6 @@ export interface DataFileProblem {
   file: string;
   frozen: string;
   now: string | null; // null: missing
-}
-
-/** A difference between the frozen result and the re-run, named by check and value. */
-export interface ResultProblem {
-  where: string; // "check second-law on pulse-40ns" or "document"
-  path: string; // "values.mean_sigma"
-  frozen: string;
-  now: string;
-  /** For folded differences (the numbers of a plot): what differs, in words. */
-  summary?: string;
 }
 
 export interface VerifyReport {
@@ -67,59 +59,6 @@ function pickVersion(auditDir: string, wanted: number | undefined): number {
     throw new ArchiveError(`--version ${wanted}: ${auditDir} has no such version; published versions: ${numbers.join(", ")}`);
   }
   return wanted;
-}
-
-function checkLabel(doc: ResultDocument, i: number): string {
-  const c = doc.checks?.[i];
-  return c ? `check ${c.check} on ${c.dataset}` : `check #${i + 1}`;
-}
-
-/** Members of a check result in the order a reader wants their differences: verdict first, plot data last. */
-const MEMBER_ORDER = ["status", "summary", "reason", "values", "criteria", "tables", "assumptions", "references", "equations", "plots"];
-const TOP_ORDER = ["audit", "stamp", "fingerprint", "tool", "datasets", "settings", "checks"];
-
-function rank(order: string[], key: string | number | undefined): number {
-  const i = order.indexOf(String(key));
-  return i < 0 ? order.length : i;
-}
-
-/**
- * Word leaf differences for a person: by check ("check second-law on pulse"),
- * verdict and values before tables and plots, and the many numbers of one
- * plot folded into a single line.
- */
-function describeResultDifferences(frozen: ResultDocument, diffs: ValueDifference[], skipDigestsOf: Set<number>): ResultProblem[] {
-  const kept = diffs.filter((d) => !(d.path[0] === "datasets" && typeof d.path[1] === "number" && d.path[2] === "sha256" && skipDigestsOf.has(d.path[1])));
-  const sortKey = (d: ValueDifference): number[] =>
-    d.path[0] === "checks" && typeof d.path[1] === "number" ? [rank(TOP_ORDER, "checks"), d.path[1], rank(MEMBER_ORDER, d.path[2])] : [rank(TOP_ORDER, d.path[0]), 0, 0];
-  const ordered = kept
-    .map((d, i) => ({ d, i, k: sortKey(d) }))
-    .sort((x, y) => x.k[0] - y.k[0] || x.k[1] - y.k[1] || x.k[2] - y.k[2] || x.i - y.i)
-    .map((x) => x.d);
-  const out: ResultProblem[] = [];
-  const plotCounts = new Map<string, { problem: ResultProblem; count: number }>();
-  for (const d of ordered) {
-    const [head, index, ...rest] = d.path;
-    if (head === "checks" && typeof index === "number") {
-      const where = checkLabel(frozen, index);
-      if (rest[0] === "plots" && typeof rest[1] === "number") {
-        const key = `${index}/${rest[1]}`;
-        const entry = plotCounts.get(key);
-        if (entry) entry.count++;
-        else {
-          const problem: ResultProblem = { where, path: formatPath(rest.slice(0, 2)), frozen: "", now: "" };
-          plotCounts.set(key, { problem, count: 1 });
-          out.push(problem);
-        }
-        continue;
-      }
-      out.push({ where, path: formatPath(rest), frozen: formatValue(d.frozen), now: formatValue(d.now) });
-    } else {
-      out.push({ where: "document", path: formatPath(d.path), frozen: formatValue(d.frozen), now: formatValue(d.now) });
-    }
-  }
-  for (const { problem, count } of plotCounts.values()) problem.summary = `plot data differ in ${count} place(s)`;
-  return out;
 }
 
 /** Compare each data file the version names with its frozen digest. */
@@ -187,17 +126,11 @@ export async function verifyVersion(auditDir: string, options: VerifyOptions = {
     report.rerunError = err.message;
   }
   if (rerun) {
-    const identical = canonicalJson(rerun) === v.resultText;
-    if (!identical) {
-      const skip = new Set(v.result.datasets.map((d, i) => [d, i] as const).filter(([d]) => report.data.some((p) => p.file === d.file)).map(([, i]) => i));
-      const all = describeResultDifferences(v.result, diffValues(v.result, JSON.parse(canonicalJson(rerun))), skip);
-      if (all.length === 0 && report.data.length === 0) {
-        // Same values, different bytes: the stored text is not in canonical form (edited by hand).
-        all.push({ where: "document", path: "(bytes)", frozen: "stored text", now: "not the canonical JSON of the same values" });
-      }
-      report.result = all.slice(0, max);
-      report.resultMore = Math.max(0, all.length - max);
-    }
+    // The digests of data files reported changed above are not repeated among the result's differences.
+    const skip = new Set(v.result.datasets.map((d, i) => [d, i] as const).filter(([d]) => report.data.some((p) => p.file === d.file)).map(([, i]) => i));
+    const compared = compareResultTexts(v.resultText, canonicalJson(rerun), { maxDifferences: max, skipDigestsOf: skip, dataChanged: report.data.length > 0 });
+    report.result = compared.differences;
+    report.resultMore = compared.more;
   }
   report.reproduced = report.chain.length === 0 && report.data.length === 0 && !report.rerunError && report.result.length === 0;
   return report;

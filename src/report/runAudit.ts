@@ -76,10 +76,14 @@ export function contextFor(definition: AuditDefinition, options: CheckOptions, c
   };
 }
 
-/** Run the selected checks on ingested data: pure apart from the check code itself. */
-export function runChecks(audit: IngestedAudit, registry: readonly CheckDefinition[] = CHECKS): CheckResult[] {
+/**
+ * Run the selected checks on ingested data: pure apart from the check code itself.
+ * `onCheck` hears each check as it finishes (the browser's re-run shows progress with it).
+ */
+export function runChecks(audit: IngestedAudit, registry: readonly CheckDefinition[] = CHECKS, onCheck?: (done: number, total: number, check: string) => void): CheckResult[] {
   const results: CheckResult[] = [];
-  for (const selected of selectChecks(audit.definition, registry)) {
+  const selection = selectChecks(audit.definition, registry);
+  for (const [done, selected] of selection.entries()) {
     const ctx = contextFor(audit.definition, selected.options, selected.definition.id);
     const { included, skipped } = restrictDatasets(audit, selected);
     const out = selected.definition.run(included, ctx);
@@ -88,6 +92,7 @@ export function runChecks(audit: IngestedAudit, registry: readonly CheckDefiniti
     }
     results.push(...out.map((r) => withReductionNotes(audit, r)));
     results.push(...skipped);
+    onCheck?.(done + 1, selection.length, selected.definition.id);
   }
   return results;
 }

@@ -244,7 +244,8 @@ export async function reduceInParts(
   const cuts = lineAlignedCuts(fd, from, to, PARTS);
   const jobs: RangeJob[] = [];
   for (let k = 0; k < PARTS; k++) jobs.push({ fd, start: cuts[k], end: cuts[k + 1], layout, spec });
-  if (options.threads === false) {
+  // No threads where Worker is absent (the browser bundle maps node:worker_threads to nothing): the same parts, in order, here.
+  if (options.threads === false || typeof Worker !== "function") {
     const parts = jobs.map((j) => reduceFileRange(j.fd, j.start, j.end, j.layout, j.spec, options.onBytes));
     return { parts, sha256: await digest() };
   }
