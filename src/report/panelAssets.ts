@@ -1,7 +1,9 @@
 import fs from "node:fs";
+import os from "node:os";
 import path from "node:path";
 import { createRequire } from "node:module";
-import { fileURLToPath, pathToFileURL } from "node:url";
+import { fileURLToPath } from "node:url";
+import { buildBrowserBundle } from "../browser/engine/browserBundle.ts";
 
 /**
  * The scripts of the browser panels, bundled with esbuild when a site is
@@ -15,8 +17,6 @@ import { fileURLToPath, pathToFileURL } from "node:url";
 const PROJECT_ROOT = path.resolve(path.dirname(fileURLToPath(import.meta.url)), "..", "..");
 const PANEL_DIR = path.join(PROJECT_ROOT, "src", "browser", "panel");
 const INCLUDES = path.join(PROJECT_ROOT, "templates", "_includes");
-/** The engine's bundler (the same check code, for a Web Worker). */
-const WORKER_BUNDLER = path.join(PROJECT_ROOT, "scripts", "build", "browserBundle.ts");
 
 export const PANEL_SCRIPT = "rerun-panel.js";
 export const RENDER_SCRIPT = "report-render.js";
@@ -65,19 +65,16 @@ async function bundleAll(): Promise<Map<string, Uint8Array>> {
   files.set(PANEL_SCRIPT, panel.outputFiles[0].contents);
   const render = await esbuild.build({ ...common, entryPoints: [path.join(PANEL_DIR, "reportRender.ts")], plugins: [templatesPlugin()] });
   files.set(RENDER_SCRIPT, render.outputFiles[0].contents);
-  if (fs.existsSync(WORKER_BUNDLER)) files.set(WORKER_SCRIPT, await engineWorker());
+  files.set(WORKER_SCRIPT, await engineWorker());
   return files;
 }
 
 /** The engine's worker bundle, written by its own bundler into a scratch folder and read back. */
 async function engineWorker(): Promise<Uint8Array> {
-  const { buildBrowserBundle } = (await import(pathToFileURL(WORKER_BUNDLER).href)) as {
-    buildBrowserBundle: (outDir: string) => Promise<{ worker: string; bytes: number }>;
-  };
-  const scratch = fs.mkdtempSync(path.join((await import("node:os")).tmpdir(), "transport-audit-worker-"));
+  const scratch = fs.mkdtempSync(path.join(os.tmpdir(), "transport-audit-worker-"));
   try {
     const { worker } = await buildBrowserBundle(scratch);
-    return fs.readFileSync(path.isAbsolute(worker) ? worker : path.join(scratch, WORKER_SCRIPT));
+    return fs.readFileSync(worker);
   } finally {
     fs.rmSync(scratch, { recursive: true, force: true });
   }

@@ -46,7 +46,17 @@ export function wireDropInPanel(root: HTMLElement): void {
       report.innerHTML = renderReport(doc);
       const download = el("a", { href: URL.createObjectURL(new Blob([json], { type: "application/json" })), download: "result.json", "data-result-json": "" }, "result.json");
       ui.outcome.replaceChildren(
-        el("p", {}, `Audit ${doc.audit} computed in this browser with ${doc.tool.name} ${doc.tool.version}: nothing was sent anywhere. The result document, as `, el("code", {}, "run --json"), " prints it: ", download, "."),
+        el(
+          "p",
+          {},
+          `Audit ${doc.audit} computed in this browser with ${doc.tool.name} ${doc.tool.version}: nothing was sent anywhere. The result document (the one `,
+          el("code", {}, "run --json"),
+          " prints, in the canonical form ",
+          el("code", {}, "publish"),
+          " freezes): ",
+          download,
+          ".",
+        ),
         report,
       );
       ui.say(`Done: ${doc.checks.length} check result(s), overall verdict ${doc.stamp}. The report follows below.`);

@@ -65,10 +65,10 @@ export class PanelState {
     this.say(`Fetched ${byteSizeText(received)} of ${byteSizeText(total)} (${file}).`);
   }
 
-  /** The engine's own progress: datasets read, then checks done. */
+  /** The engine's own progress: bytes read, then checks done. */
   engine(p: EngineProgress): void {
     this.fraction(p.done, p.total);
-    if (p.phase === "ingest") this.say(`Reading the data: ${p.done} of ${p.total} dataset(s)${p.label ? ` (${p.label})` : ""}.`);
+    if (p.phase === "ingest") this.say(`Reading the data: ${byteSizeText(p.done)} of ${byteSizeText(p.total)}${p.label ? ` (${p.label})` : ""}.`);
     else if (p.phase === "checks") this.say(`Running the checks: ${p.done} of ${p.total} done${p.label ? ` (${p.label})` : ""}.`);
     else this.say("Checks done; comparing.");
   }
