@@ -17,6 +17,11 @@ import { buildBrowserBundle } from "../browser/engine/browserBundle.ts";
 const PROJECT_ROOT = path.resolve(path.dirname(fileURLToPath(import.meta.url)), "..", "..");
 const PANEL_DIR = path.join(PROJECT_ROOT, "src", "browser", "panel");
 const INCLUDES = path.join(PROJECT_ROOT, "templates", "_includes");
+/**
+ * Where an installed package keeps the panel scripts prepack built (beside the
+ * engine's prebuilt rerun-worker.js): it has no esbuild to bundle them.
+ */
+export const PREBUILT_PANEL_DIR = path.join(PROJECT_ROOT, "dist", "browser");
 
 export const PANEL_SCRIPT = "rerun-panel.js";
 export const RENDER_SCRIPT = "report-render.js";
@@ -39,8 +44,9 @@ export async function writePanelAssets(assetsDir: string): Promise<void> {
 }
 
 /**
- * Every panel script, or none where esbuild is absent (an installed package
- * has no development tools): the pages then keep the panels' text without
+ * Every panel script. Where esbuild is absent (an installed package has no
+ * development tools), the copies prepack built into dist/browser/ are taken;
+ * without those either, the pages keep the panels' text for a browser without
  * script, and the rest of the site is unchanged.
  */
 async function bundleAll(): Promise<Map<string, Uint8Array>> {
@@ -49,6 +55,10 @@ async function bundleAll(): Promise<Map<string, Uint8Array>> {
   try {
     esbuild = await import("esbuild");
   } catch {
+    for (const name of [PANEL_SCRIPT, RENDER_SCRIPT, WORKER_SCRIPT]) {
+      const prebuilt = path.join(PREBUILT_PANEL_DIR, name);
+      if (fs.existsSync(prebuilt)) files.set(name, fs.readFileSync(prebuilt));
+    }
     return files;
   }
   const common = {

@@ -57,9 +57,16 @@ interface PanelOutcome {
 }
 
 /** Open a page, press the panel's run button and wait until the run has ended (a verdict, an error or a cancel). */
-async function runPanel(url: string, panel: string, before?: (page: Page) => Promise<void>): Promise<PanelOutcome & { page: Page }> {
+async function runPanel(url: string, panel: string, before?: (page: Page) => Promise<void>, csp?: string): Promise<PanelOutcome & { page: Page }> {
   const context = await chromium.browser.newContext();
   const page = await context.newPage();
+  if (csp) {
+    // The header a careful host sends: every response of the site carries it, the worker's script included.
+    await page.route("**/*", async (route) => {
+      const response = await route.fetch();
+      await route.fulfill({ response, headers: { ...response.headers(), "content-security-policy": csp } });
+    });
+  }
   const errors: string[] = [];
   page.on("pageerror", (e) => errors.push(e.message));
   page.on("console", (m) => {
@@ -221,6 +228,32 @@ describe("the drop-in panel on the index", () => {
     }));
     expect(shown).toEqual({ checks: doc.checks.length, verdicts: doc.checks.length, plots: doc.checks.reduce((s, c) => s + c.plots.length, 0) });
     await r.page.context().close();
+  });
+});
+
+describe("under a Content-Security-Policy that forbids eval and inline script", () => {
+  // MDN, "Content-Security-Policy: script-src": without 'unsafe-eval', eval() and new Function() throw.
+  // 'wasm-unsafe-eval' allows compiling WebAssembly only (not JavaScript from text): the engine's Parquet
+  // reader (hyparquet-compressors, through hysnappy) compiles a small WebAssembly module when the worker loads.
+  const CSP = "default-src 'self'; script-src 'self' 'wasm-unsafe-eval'; worker-src 'self'; style-src 'self' 'unsafe-inline'; img-src 'self' data: blob:";
+
+  test("a version re-runs and a dropped folder is audited and rendered", async () => {
+    const { number } = newestVersions().find((v) => v.id === "lc60-growth-series")!;
+    const rerun = await runPanel(versionUrl("lc60-growth-series", number), "[data-rerun-panel]", undefined, CSP);
+    expect([rerun.verdict, rerun.status, rerun.errors]).toEqual(["reproduced", `REPRODUCED: the re-run matches version ${number}.`, []]);
+    await rerun.page.context().close();
+
+    const folder = path.join(PROJECT_ROOT, "audits", "lc60-growth-series");
+    const files = [
+      { name: "audit.yaml", mimeType: "text/yaml", buffer: fs.readFileSync(path.join(folder, "audit.yaml")) },
+      ...fs.readdirSync(path.join(folder, "data")).map((f) => ({ name: f, mimeType: "text/csv", buffer: fs.readFileSync(path.join(folder, "data", f)) })),
+    ];
+    // Loose files, without their data/ folder: placed where audit.yaml names them.
+    const dropped = await runPanel(`${site.server.origin}/index.html`, "[data-dropin-panel]", (page) => page.locator("[data-dropin-panel] [data-file-input]").setInputFiles(files), CSP);
+    expect(dropped.errors).toEqual([]);
+    expect(dropped.status).toMatch(/^Done: \d+ check result\(s\), overall verdict \w+\. The report follows below\.$/);
+    await expect(dropped.page.locator(".dropin-report section.check").count()).resolves.toBeGreaterThan(0);
+    await dropped.page.context().close();
   });
 });
 
