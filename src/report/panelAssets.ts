@@ -4,14 +4,17 @@ import path from "node:path";
 import { createRequire } from "node:module";
 import { fileURLToPath } from "node:url";
 import { buildBrowserBundle } from "../browser/engine/browserBundle.ts";
+import { digestOfInputs, privateBundleDir } from "../ingest/reduce/parallelReduce.ts";
 
 /**
  * The scripts of the browser panels, bundled with esbuild when a site is
  * built: `rerun-panel.js` (the small page code of both panels, no framework),
  * `report-render.js` (the report's own view model and Nunjucks templates,
  * loaded only when a reader drops an audit on the index) and the engine's
- * `rerun-worker.js` (the checks, in a Web Worker). Bundled once per process
- * and copied into each site.
+ * `rerun-worker.js` (the checks, in a Web Worker). Bundled once per content of
+ * the sources (kept in this user's private folder, as the reduction's worker
+ * bundle is: esbuild takes 5 to 13 s for the three on this machine class) and
+ * copied into each site.
  */
 
 const PROJECT_ROOT = path.resolve(path.dirname(fileURLToPath(import.meta.url)), "..", "..");
@@ -27,11 +30,15 @@ export const PANEL_SCRIPT = "rerun-panel.js";
 export const RENDER_SCRIPT = "report-render.js";
 export const WORKER_SCRIPT = "rerun-worker.js";
 
+const SCRIPTS = [PANEL_SCRIPT, RENDER_SCRIPT, WORKER_SCRIPT] as const;
+const CACHE_PREFIX = "transport-audit-panel-assets-";
+const STALE_AFTER_MS = 24 * 3600 * 1000;
+
 let bundled: Promise<Map<string, Uint8Array>> | null = null;
 
 /** Write the panels' scripts into the site's assets folder. */
 export async function writePanelAssets(assetsDir: string): Promise<void> {
-  bundled ??= bundleAll();
+  bundled ??= cachedOrBundled();
   let files: Map<string, Uint8Array>;
   try {
     files = await bundled;
@@ -41,6 +48,50 @@ export async function writePanelAssets(assetsDir: string): Promise<void> {
   }
   fs.mkdirSync(assetsDir, { recursive: true });
   for (const [name, bytes] of files) fs.writeFileSync(path.join(assetsDir, name), bytes);
+}
+
+/** Every file under `dir` (sorted), hidden ones left out. */
+function filesUnder(dir: string): string[] {
+  return (fs.readdirSync(dir, { recursive: true, withFileTypes: true }) as fs.Dirent[])
+    .filter((e) => e.isFile() && !e.name.startsWith("."))
+    .map((e) => path.join(e.parentPath, e.name))
+    .sort();
+}
+
+/**
+ * The scripts a process built earlier from the same sources (every file under
+ * src/ and templates/_includes, and the lockfile: a safe over-estimate of what
+ * the bundles read, hashed in tens of milliseconds), or new ones, then stored
+ * under a folder named by that digest, written aside and renamed into place.
+ */
+async function cachedOrBundled(): Promise<Map<string, Uint8Array>> {
+  const cacheDir = privateBundleDir();
+  const src = path.join(PROJECT_ROOT, "src");
+  if (cacheDir === null || !fs.existsSync(src)) return bundleAll();
+  const inputs = [...filesUnder(src), ...filesUnder(INCLUDES), path.join(PROJECT_ROOT, "package-lock.json")].filter((f) => fs.existsSync(f));
+  const key = digestOfInputs(inputs).slice(0, 32);
+  const dir = path.join(cacheDir, `${CACHE_PREFIX}${key}`);
+  try {
+    return new Map(SCRIPTS.map((n) => [n, fs.readFileSync(path.join(dir, n))]));
+  } catch {
+    // Not stored yet (or removed meanwhile by a process that found it a day old): bundled below.
+  }
+  const files = await bundleAll();
+  if (files.size === SCRIPTS.length) {
+    try {
+      const aside = fs.mkdtempSync(path.join(cacheDir, `.${CACHE_PREFIX}`));
+      for (const [n, bytes] of files) fs.writeFileSync(path.join(aside, n), bytes);
+      fs.renameSync(aside, dir);
+      // Scripts of other sources go after a day unused (other clones of the tool share the folder).
+      for (const old of fs.readdirSync(cacheDir)) {
+        const full = path.join(cacheDir, old);
+        if (old.startsWith(CACHE_PREFIX) && full !== dir && Date.now() - fs.statSync(full).mtimeMs > STALE_AFTER_MS) fs.rmSync(full, { recursive: true, force: true });
+      }
+    } catch {
+      // Another process stored the same scripts first, or the folder is full: this build has them anyway.
+    }
+  }
+  return files;
 }
 
 /**
@@ -55,7 +106,7 @@ async function bundleAll(): Promise<Map<string, Uint8Array>> {
   try {
     esbuild = await import("esbuild");
   } catch {
-    for (const name of [PANEL_SCRIPT, RENDER_SCRIPT, WORKER_SCRIPT]) {
+    for (const name of SCRIPTS) {
       const prebuilt = path.join(PREBUILT_PANEL_DIR, name);
       if (fs.existsSync(prebuilt)) files.set(name, fs.readFileSync(prebuilt));
     }
