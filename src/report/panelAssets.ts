@@ -82,7 +82,7 @@ async function cachedOrBundled(): Promise<Map<string, Uint8Array>> {
       const aside = fs.mkdtempSync(path.join(cacheDir, `.${CACHE_PREFIX}`));
       for (const [n, bytes] of files) fs.writeFileSync(path.join(aside, n), bytes);
       fs.renameSync(aside, dir);
-      // Scripts of other sources go after a day unused (other clones of the tool share the folder).
+      // Scripts of other sources go once a day old (other clones of the tool share the folder).
       for (const old of fs.readdirSync(cacheDir)) {
         const full = path.join(cacheDir, old);
         if (old.startsWith(CACHE_PREFIX) && full !== dir && Date.now() - fs.statSync(full).mtimeMs > STALE_AFTER_MS) fs.rmSync(full, { recursive: true, force: true });
