@@ -116,3 +116,32 @@ describe("the copy is confined to the audit folder and to the site", () => {
     expect(fs.existsSync(path.join(path.dirname(out), "escaped"))).toBe(false);
   });
 });
+
+describe("a dataset of several parts", () => {
+  it("copies every part under its own path and checks them by the parts digest the version recorded", async () => {
+    const a = makeTempArchive();
+    // The same rows as two parts in a folder (README: "Several parts"); each part repeats the header.
+    const [header, ...rows] = fs.readFileSync(a.dataFile, "utf8").trimEnd().split("\n");
+    fs.mkdirSync(path.join(a.auditDir, "data", "runs"));
+    fs.writeFileSync(path.join(a.auditDir, "data", "runs", "part-1.csv"), `${[header, ...rows.slice(0, 200)].join("\n")}\n`);
+    fs.writeFileSync(path.join(a.auditDir, "data", "runs", "part-2.csv"), `${[header, ...rows.slice(200)].join("\n")}\n`);
+    fs.rmSync(a.dataFile);
+    const yamlFile = path.join(a.auditDir, "audit.yaml");
+    fs.writeFileSync(yamlFile, fs.readFileSync(yamlFile, "utf8").replace("file: data/exchange.csv", "file: data/runs"));
+    await publishAudit(a.auditDir, { now: fixedClock("2026-11-30T09:00:00Z") });
+    const out = outDir();
+    await buildSite({ root: a.root, out });
+    const m = rerunOf(out, 1);
+    expect(m.data).toBe("copied");
+    expect(m.inputs).toEqual([{ id: "pulse", file: "data/runs", parts: ["data/runs/part-1.csv", "data/runs/part-2.csv"] }]);
+    for (const part of ["part-1.csv", "part-2.csv"]) {
+      expect(fs.readFileSync(path.join(out, TEST_AUDIT_ID, "v1", "data", "runs", part))).toEqual(fs.readFileSync(path.join(a.auditDir, "data", "runs", part)));
+    }
+    // One part changed after publication: the parts digest no longer matches, so nothing is offered.
+    fs.appendFileSync(path.join(a.auditDir, "data", "runs", "part-2.csv"), "0.1,0\n");
+    const again = outDir();
+    await buildSite({ root: a.root, out: again });
+    expect(rerunOf(again, 1).data).toBe("unavailable");
+    expect(fs.existsSync(path.join(again, TEST_AUDIT_ID, "v1", "data", "runs", "part-1.csv"))).toBe(false);
+  });
+});
