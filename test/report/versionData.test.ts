@@ -13,6 +13,9 @@ import { buildSite, confinedSitePath } from "../../src/report/buildSite.ts";
 import { readVersion } from "../../src/archive/readVersion.ts";
 import { copyVersionData, planVersionData, type RerunManifest } from "../../src/report/versionData.ts";
 import { fixedClock, makeTempArchive, TEST_AUDIT_ID } from "../archive/tempArchive.ts";
+import { planAuditVersions } from "../../src/report/versionView.ts";
+import { loadArchiveDefinition } from "../../src/config/archiveSchema.ts";
+import { TOOL } from "../../src/version.ts";
 
 const outDir = () => path.join(fs.mkdtempSync(path.join(os.tmpdir(), "ta-rerun-data-")), "site");
 const rerunOf = (out: string, n: number) => JSON.parse(fs.readFileSync(path.join(out, TEST_AUDIT_ID, `v${n}`, "rerun.json"), "utf8")) as RerunManifest;
@@ -143,5 +146,28 @@ describe("a dataset of several parts", () => {
     await buildSite({ root: a.root, out: again });
     expect(rerunOf(again, 1).data).toBe("unavailable");
     expect(fs.existsSync(path.join(again, TEST_AUDIT_ID, "v1", "data", "runs", "part-1.csv"))).toBe(false);
+  });
+});
+
+describe("the panel of a version published by another tool version", () => {
+  it("gives the panel the tool version that published it, marked as not the site's, with the data still offered for the comparison", async () => {
+    const a = makeTempArchive();
+    await publishAudit(a.auditDir, { now: fixedClock("2026-11-30T09:00:00Z") });
+    const v = readVersion(a.auditDir, 1);
+    // The record as an older release would have written it (in memory only: the chain on disk is untouched).
+    const older = { ...v, manifest: { ...v.manifest, tool: { name: "transport-audit", version: "0.0.9" } } };
+    const plans = planVersionData(a.auditDir, TEST_AUDIT_ID, [older], 1e9);
+    const plan = planAuditVersions({
+      id: TEST_AUDIT_ID,
+      folder: `audits/${TEST_AUDIT_ID}`,
+      versions: [older],
+      problems: [],
+      current: null,
+      currentDefinitionDigest: null,
+      archive: loadArchiveDefinition(a.root),
+      rerun: new Map(plans.map((p) => [p.version.number, p.manifest])),
+    });
+    expect(plan.versions[0].versioning.rerun).toEqual({ base: "../v1/", data: "copied", toolVersion: "0.0.9", sameTool: false, siteToolVersion: TOOL.version });
+    expect(plan.landing.versioning.rerun?.base).toBe("v1/");
   });
 });
