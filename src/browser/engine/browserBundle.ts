@@ -95,7 +95,7 @@ export function bundleOptions(): Record<string, unknown> {
     minify: true,
     legalComments: "eof",
     inject: [path.join(SHIMS, "process.ts"), path.join(SHIMS, "buffer.ts")],
-    define: { global: "globalThis" },
+    define: { global: "globalThis", __TRANSPORT_AUDIT_BROWSER__: "true" },
     plugins: [plugin],
     write: false,
     logLevel: "silent",

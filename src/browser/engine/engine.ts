@@ -1,10 +1,12 @@
 import fs from "node:fs";
 import os from "node:os";
 import path from "node:path";
-import { compareResultTexts, type ResultProblem } from "../../archive/resultDifferences.ts";
 import { CHECKS } from "../../checks/index.ts";
-import { PathError } from "../../errors.ts";
-import { ingestAudit } from "../../ingest/loadAudit.ts";
+import { DataError, PathError } from "../../errors.ts";
+import { ingestDefinition } from "../../ingest/loadAudit.ts";
+import { chooseSource } from "../../ingest/sources/index.ts";
+import { loadAuditDefinition } from "../../config/loadAudit.ts";
+import type { AuditDefinition } from "../../config/types.ts";
 import { canonicalJson } from "../../report/canonicalJson.ts";
 import type { ResultDocument } from "../../report/resultDocument.ts";
 import { resultDocumentOf, runChecks } from "../../report/runAudit.ts";
@@ -47,25 +49,21 @@ export interface RerunResult {
   document: ResultDocument;
 }
 
-/** A path of the audit folder as given ("data/x.csv"), checked to stay inside it. */
-function checkedRelativePath(name: string): string {
+/** Refuse a path of the audit folder as given ("data/x.csv") that could leave it or names no file. */
+function checkRelativePath(name: string): void {
   const parts = name.split("/");
   if (name === "" || name.startsWith("/") || name.includes("\\") || parts.some((p) => p === "" || p === "." || p === "..") || name.includes("\0")) {
     throw new PathError(`${JSON.stringify(name)}: expected a path inside the audit folder with "/" between names (like "data/run-1.csv"), without "..", "." or empty names`);
   }
-  return name;
 }
 
-/** Write the files into a new private folder; the folder's path. */
-function writeAuditFolder(files: ReadonlyMap<string, Uint8Array>): string {
-  const names = [...files.keys()].map(checkedRelativePath);
-  const dir = fs.mkdtempSync(path.join(os.tmpdir(), "transport-audit-rerun-"));
-  for (const name of names) {
+/** Write the files (their names checked already) into the folder `dir`. */
+function writeAuditFolder(dir: string, files: ReadonlyMap<string, Uint8Array>): void {
+  for (const [name, bytes] of files) {
     const target = path.join(dir, ...name.split("/"));
     fs.mkdirSync(path.dirname(target), { recursive: true });
-    fs.writeFileSync(target, files.get(name)!);
+    fs.writeFileSync(target, bytes);
   }
-  return dir;
 }
 
 /** The error with the private folder's path taken out of its message: messages name files as the audit folder holds them. */
@@ -77,6 +75,29 @@ function withoutFolder(err: unknown, dir: string): unknown {
 }
 
 /**
+ * True in the browser bundle, where the HDF5 library is absent (its Node
+ * build reads the host's files in place); scripts/build/browserBundle.ts
+ * defines it. In Node every format is read.
+ */
+declare const __TRANSPORT_AUDIT_BROWSER__: boolean | undefined;
+const BROWSER_BUILD = typeof __TRANSPORT_AUDIT_BROWSER__ !== "undefined" && __TRANSPORT_AUDIT_BROWSER__;
+
+/** Refuse, naming the dataset's file, an audit with an HDF5 dataset (its format as the reader would choose it). */
+function refuseHdf5(definition: AuditDefinition): void {
+  for (const [i, config] of definition.datasets.entries()) {
+    let format: string;
+    try {
+      ({ format } = chooseSource(config.file, (config as { format?: string }).format, `datasets[${i}]`));
+    } catch {
+      continue; // a folder or glob of parts, or no known extension: the reader decides, and words any refusal
+    }
+    if (format === "hdf5") {
+      throw new DataError(`${config.file}: HDF5 files are not read in the browser (the HDF5 library is not part of this page's re-run); re-run this audit with the command line: transport-audit run <folder>`);
+    }
+  }
+}
+
+/**
  * Run an audit given as its files (keys: paths relative to the audit folder,
  * "audit.yaml", "data/x.csv") and return its result document. Errors are the
  * project's typed errors (ConfigError, DataError, …) with the messages the
@@ -85,12 +106,16 @@ function withoutFolder(err: unknown, dir: string): unknown {
 export async function runAuditFromFiles(files: ReadonlyMap<string, Uint8Array>, options: RerunOptions = {}): Promise<RerunResult> {
   const { signal, onProgress } = options;
   signal?.throwIfAborted();
-  const dir = writeAuditFolder(files);
+  for (const name of files.keys()) checkRelativePath(name);
+  const dir = fs.mkdtempSync(path.join(os.tmpdir(), "transport-audit-rerun-"));
   try {
+    writeAuditFolder(dir, files);
     // Reading: bytes of each data file as its reader reports them (large files), between a start and an end over all files given.
     const bytes = [...files.values()].reduce((sum, b) => sum + b.length, 0);
     onProgress?.({ phase: "ingest", done: 0, total: bytes });
-    const audit = await ingestAudit(dir, { onProgress: onProgress && ((file, done, total) => onProgress({ phase: "ingest", done, total, label: file })) });
+    const definition = loadAuditDefinition(dir);
+    if (BROWSER_BUILD) refuseHdf5(definition);
+    const audit = await ingestDefinition(dir, definition, { onProgress: onProgress && ((file, done, total) => onProgress({ phase: "ingest", done, total, label: file })) });
     onProgress?.({ phase: "ingest", done: bytes, total: bytes });
     signal?.throwIfAborted();
     const checks = runChecks(audit, CHECKS, (done, total, check) => {
@@ -108,17 +133,5 @@ export async function runAuditFromFiles(files: ReadonlyMap<string, Uint8Array>, 
   }
 }
 
-export interface ResultJsonComparison {
-  reproduced: boolean;
-  differences: ResultProblem[];
-  more: number;
-}
-
-/**
- * A frozen result document's text against a re-run's (`json` above): the
- * comparison `verify` makes (src/archive/resultDifferences.ts), every
- * difference named by check and value, at most `maxDifferences` (default 40) listed.
- */
-export function compareResultJson(frozenJson: string, freshJson: string, maxDifferences?: number): ResultJsonComparison {
-  return compareResultTexts(frozenJson, freshJson, { maxDifferences });
-}
+// The comparison has no Node dependencies: a page may bundle ./compare.ts alone.
+export { compareResultJson, type ResultJsonComparison } from "./compare.ts";
