@@ -1,7 +1,7 @@
 /// <reference lib="dom" />
 /// <reference lib="dom.iterable" />
 import type { RerunManifest } from "../../report/versionData.ts";
-import { compareResultTexts } from "../../archive/resultDifferences.ts";
+import { compareResultJson, type ResultJsonComparison } from "../engine/compare.ts";
 import { el, enablePanel, part, textTable } from "./dom.ts";
 import { EngineError, RunCancelled, runInWorker } from "./engineClient.ts";
 import { fetchAll, fetchBytes, fetchText } from "./fetchFiles.ts";
@@ -77,7 +77,7 @@ export function wireRerunPanel(root: HTMLElement): void {
       const digests = await checkDigests(record, manifest, data);
       const files = new Map<string, Uint8Array>([["audit.yaml", definition], ...data]);
       const fresh = await runInWorker(worker, files, signal, (p) => ui.engine(p));
-      const comparison = compareResultTexts(frozen, fresh);
+      const comparison = compareResultJson(frozen, fresh);
       showOutcome(ui, record, digests, comparison, frozen === fresh, root.dataset.siteTool ?? "");
     } catch (err) {
       showError(ui, err);
@@ -149,7 +149,7 @@ function showOutcome(
   ui: PanelState,
   record: VersionRecord,
   digests: DigestCheck[],
-  comparison: ReturnType<typeof compareResultTexts>,
+  comparison: ResultJsonComparison,
   identical: boolean,
   siteTool: string,
 ): void {
