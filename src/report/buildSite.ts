@@ -20,6 +20,8 @@ import { isWithin } from "../output/paths.ts";
 import { faultPoint } from "../output/faults.ts";
 import { onInterrupt } from "../interrupt/cancellation.ts";
 import { removeStaleVersionStaging } from "../archive/layout.ts";
+import { copyVersionData, DEFAULT_DATA_SIZE_LIMIT, planVersionData, type VersionDataPlan } from "./versionData.ts";
+import { writePanelAssets } from "./panelAssets.ts";
 
 const PROJECT_ROOT = path.resolve(path.dirname(fileURLToPath(import.meta.url)), "..", "..");
 const TEMPLATES = path.join(PROJECT_ROOT, "templates");
@@ -39,6 +41,11 @@ export interface BuildOptions {
   threads?: number;
   /** Replace a non-empty output folder that build did not write (see output/siteFolder.ts). */
   force?: boolean;
+  /**
+   * Bytes of data copied into the site per audit (all its versions together) for the
+   * browser re-run panel; versions past it link to their data instead. Default 300 MB.
+   */
+  dataSizeLimit?: number;
 }
 
 /** How many audits took their result from the cache and how many were run. */
@@ -85,6 +92,8 @@ export interface SiteData {
   draftPages?: AuditPageModel[];
   broken: BrokenAudit[];
   files?: SiteFile[];
+  /** Data of published versions to copy beside their pages (versionData.ts). */
+  versionData?: VersionDataPlan[];
 }
 
 /** Audit folders under `<root>/audits`, sorted by name. */
@@ -112,7 +121,7 @@ function copyAssets(out: string): void {
  * The place of a site file, refused when its path (made from ids in frozen
  * documents, which are validated when read) would leave the output folder.
  */
-function confinedSitePath(out: string, relative: string): string {
+export function confinedSitePath(out: string, relative: string): string {
   const target = path.resolve(out, ...relative.split("/"));
   if (relative === "" || path.isAbsolute(relative) || relative.includes("\\") || !isWithin(target, out) || target === path.resolve(out)) {
     throw new InputError(`site path ${JSON.stringify(relative)} would be written outside the output folder ${out}; refused`);
@@ -125,6 +134,7 @@ function refuseEscapingPages(out: string, data: SiteData): void {
   for (const a of data.audits) confinedSitePath(out, `${a.id}/index.html`);
   for (const p of [...(data.versionPages ?? []), ...(data.draftPages ?? [])]) confinedSitePath(out, p.versioning?.path ?? `${p.id}/index.html`);
   for (const f of data.files ?? []) confinedSitePath(out, f.path);
+  for (const v of data.versionData ?? []) for (const f of v.manifest.files) confinedSitePath(out, `${v.siteDir}${f.path}`);
 }
 
 /** Render pages with Eleventy from prepared models. */
@@ -152,6 +162,8 @@ export async function renderSite(out: string, data: SiteData): Promise<void> {
     fs.mkdirSync(path.dirname(target), { recursive: true });
     fs.writeFileSync(target, f.content);
   }
+  for (const plan of data.versionData ?? []) copyVersionData(plan, (relative) => confinedSitePath(out, relative));
+  await writePanelAssets(path.join(out, "assets"));
 }
 
 /**
@@ -173,6 +185,8 @@ export async function buildSite(options: BuildOptions): Promise<BuildOutcome> {
   const versionPages: AuditPageModel[] = [];
   const draftPages: AuditPageModel[] = [];
   const files: SiteFile[] = [];
+  const versionData: VersionDataPlan[] = [];
+  const dataSizeLimit = options.dataSizeLimit ?? DEFAULT_DATA_SIZE_LIMIT;
   const broken: BrokenAudit[] = [];
   const damaged: DamagedAudit[] = [];
   const failed: string[] = [];
@@ -211,6 +225,9 @@ export async function buildSite(options: BuildOptions): Promise<BuildOutcome> {
     // Published versions stay on the site even when the current state cannot be run.
     if (!current && stored.versions.length === 0) continue;
     const latest = stored.versions[stored.versions.length - 1];
+    const auditId = current?.audit ?? latest.result.audit;
+    const dataPlans = planVersionData(folder, auditId, stored.versions, dataSizeLimit, archive.repository);
+    versionData.push(...dataPlans);
     const plan = planAuditVersions({
       id: current?.audit ?? latest.result.audit,
       folder: folderRel,
@@ -219,6 +236,7 @@ export async function buildSite(options: BuildOptions): Promise<BuildOutcome> {
       current,
       currentDefinitionDigest: current ? sha256Of(fs.readFileSync(path.join(folder, AUDIT_FILE))) : null,
       archive,
+      rerun: new Map(dataPlans.map((d) => [d.version.number, d.manifest])),
     });
     audits.push(auditPageModel(plan.landing.result, plan.landing.versioning));
     for (const v of plan.versions) versionPages.push(auditPageModel(v.result, v.versioning));
@@ -230,7 +248,7 @@ export async function buildSite(options: BuildOptions): Promise<BuildOutcome> {
     if (ids.has(a.id)) throw new InputError(`two audits in ${options.root}/audits share the id ${JSON.stringify(a.id)}; ids must be unique in an archive`);
     ids.add(a.id);
   }
-  await writeSiteInPlace(options.out, { archive, audits, versionPages, draftPages, broken, files }, options.force ?? false);
+  await writeSiteInPlace(options.out, { archive, audits, versionPages, draftPages, broken, files, versionData }, options.force ?? false);
   // Entries of states the audits no longer have are dropped once the site stands.
   pruneResultCache(cacheUse.dir, usedFingerprints);
   return { out: options.out, index: path.join(options.out, "index.html"), audits, versionPages, draftPages, broken, damaged, failed, cache };

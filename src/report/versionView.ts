@@ -7,6 +7,8 @@ import type { IntegrityProblem } from "../archive/integrity.ts";
 import { bibtexEntry, checksMacrosTex, checksTableTex, citationCff, citationSubject, plainCitation, pointsCsv, statusBadgeSvg, type CitationSubject } from "./citation/index.ts";
 import type { ResultDocument, Stamp } from "./resultDocument.ts";
 import { STATUS_LABEL, STATUS_SYMBOL } from "./viewModel.ts";
+import type { RerunDataState, RerunManifest } from "./versionData.ts";
+import { TOOL } from "../version.ts";
 
 /** The files offered beside each published version's page. */
 export const VERSION_DOWNLOADS = [
@@ -78,6 +80,22 @@ export interface PageVersioning {
   versionDigest?: string;
   previousDigest?: string;
   integrity: string[];
+  /** The "re-run here" panel of a published version. */
+  rerun?: RerunView;
+}
+
+/** What the re-run panel of a version page needs; links relative to the page. */
+export interface RerunView {
+  /** The version's folder on the site (`../v2/`), where its data, result.json, version.json and rerun.json lie. */
+  base: string;
+  data: RerunDataState;
+  reason?: string;
+  doiUrl?: string;
+  repository?: string;
+  /** The tool version that published the version, and whether it is the one that built this site. */
+  toolVersion: string;
+  sameTool: boolean;
+  siteToolVersion: string;
 }
 
 /** A file to write beside the pages: path relative to the site root. */
@@ -121,6 +139,8 @@ export interface AuditVersionsInput {
   /** Digest of the current audit.yaml text. */
   currentDefinitionDigest: string | null;
   archive: ArchiveDefinition;
+  /** Each version's data as planned for the site (versionData.ts), by version number. */
+  rerun?: ReadonlyMap<number, RerunManifest>;
 }
 
 /** Versioning of every page of one audit, and the files to write beside them. */
@@ -198,6 +218,7 @@ export function planAuditVersions(input: AuditVersionsInput): AuditVersionsPlan 
       versionDigest: v.manifestDigest,
       ...(v.manifest.previous ? { previousDigest: v.manifest.previous.digest } : {}),
       integrity,
+      ...(input.rerun?.has(v.number) ? { rerun: rerunView(input.rerun.get(v.number)!, v, downloadPrefix) } : {}),
     };
   };
 
@@ -214,6 +235,8 @@ export function planAuditVersions(input: AuditVersionsInput): AuditVersionsPlan 
     files.push(
       { path: `${dir}result.json`, content: v.resultText },
       { path: `${dir}version.json`, content: v.manifestText },
+      // The definition as frozen: what the re-run panel gives the checks, beside the data copied for it.
+      { path: `${dir}audit.yaml`, content: v.definitionText },
       { path: `${dir}CITATION.cff`, content: citationCff(s) },
       { path: `${dir}citation.bib`, content: bibtexEntry(s) },
       { path: `${dir}citation.txt`, content: plainCitation(s) },
@@ -259,6 +282,19 @@ export function planAuditVersions(input: AuditVersionsInput): AuditVersionsPlan 
     throw new Error(`planAuditVersions: audit ${id} has neither a version nor a current result`);
   }
   return out;
+}
+
+function rerunView(m: RerunManifest, v: FrozenVersion, base: string): RerunView {
+  return {
+    base,
+    data: m.data,
+    ...(m.reason ? { reason: m.reason } : {}),
+    ...(m.links.doi ? { doiUrl: `https://doi.org/${m.links.doi.split("/").map(encodeURIComponent).join("/")}` } : {}),
+    ...(m.links.repository ? { repository: m.links.repository } : {}),
+    toolVersion: v.manifest.tool.version,
+    sameTool: v.manifest.tool.name === TOOL.name && v.manifest.tool.version === TOOL.version,
+    siteToolVersion: TOOL.version,
+  };
 }
 
 function draftSnapshot(current: ResultDocument, definitionDigest: string): VersionSnapshot {

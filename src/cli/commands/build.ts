@@ -4,6 +4,7 @@ import { buildSite, type BuildOutcome } from "../../report/buildSite.ts";
 import { RESULT_CACHE_FOLDER } from "../../report/resultCache.ts";
 import { EXIT } from "../exit.ts";
 import { progressBar } from "../progressBar.ts";
+import { BYTE_SIZE_FORM, parseByteSize } from "../../report/format/byteSize.ts";
 
 export function registerBuild(program: Command, setExit: (code: number) => void): void {
   program
@@ -16,8 +17,13 @@ export function registerBuild(program: Command, setExit: (code: number) => void)
     .option("--force", "replace the output folder even when it holds files build did not write")
     .option("--allow-fail", "exit 0 when the site is built although an audit has a failed check")
     .option("--no-cache", "recompute every audit instead of reusing stored results of unchanged ones (the new results are stored)")
+    .option(
+      "--data-size-limit <size>",
+      "data copied into the site per audit, all versions together, for re-running a version in the browser (default 300MB; versions past it link to their data instead)",
+      parseDataSizeLimit,
+    )
     .option("--threads <n>", "worker threads running the audits (default: one a core, at most 4; 1 runs them one after another in this thread)", parseThreads)
-    .action(async (opts: { root: string; out: string; cache: boolean; threads?: number; force?: boolean; allowFail?: boolean }) => {
+    .action(async (opts: { root: string; out: string; cache: boolean; threads?: number; force?: boolean; allowFail?: boolean; dataSizeLimit?: number }) => {
       const bar = progressBar("auditing");
       let outcome: BuildOutcome;
       try {
@@ -28,6 +34,7 @@ export function registerBuild(program: Command, setExit: (code: number) => void)
           cache: opts.cache ? "use" : "refresh",
           threads: opts.threads,
           force: opts.force === true,
+          ...(opts.dataSizeLimit !== undefined ? { dataSizeLimit: opts.dataSizeLimit } : {}),
         });
       } finally {
         bar.stop();
@@ -64,6 +71,13 @@ export function buildSummary(outcome: BuildOutcome, cacheFolder: string, allowFa
   if (unstored > 0) lines.push(`note: ${unstored} result(s) could not be stored in ${cacheFolder}; the next build recomputes them`);
   if (failed.length && !allowFail && !broken.length && !damaged.length) lines.push("exit status 1 because an audit failed; pass --allow-fail to exit 0 when the site is built");
   return `${lines.join("\n")}\n`;
+}
+
+/** `--data-size-limit`: a size with its unit (commander names the option and the value before this message). */
+export function parseDataSizeLimit(text: string): number {
+  const bytes = parseByteSize(text);
+  if (bytes === null) throw new InvalidArgumentError(`--data-size-limit must be ${BYTE_SIZE_FORM}; found ${JSON.stringify(text)}`);
+  return bytes;
 }
 
 function parseThreads(text: string): number {
