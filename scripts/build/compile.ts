@@ -46,13 +46,18 @@ function packageOf(specifier: string): string {
 
 /**
  * The modules that must be files of their own at their source's path:
- * the command line, the command modules, the audit computation (the result
+ * the command line, the command modules, the browser bundle's copier, the audit computation (the result
  * cache digests the code reached from dist/report/runAudit.js), and every
  * module started as a worker thread (`new URL("./worker.ts", import.meta.url)`
  * in a module of src/; src/threads/tsWorker.ts starts the `.js` beside it).
  */
 export function entryModules(srcDir: string): string[] {
-  const entries = new Set([path.join(srcDir, "cli", "main.ts"), path.join(srcDir, "report", "runAudit.ts")]);
+  const entries = new Set([
+    path.join(srcDir, "cli", "main.ts"),
+    path.join(srcDir, "report", "runAudit.ts"),
+    // The site build's copier of the prebuilt browser bundle, importable on its own (test/rerun/bundleInstalled.test.ts).
+    path.join(srcDir, "browser", "engine", "browserBundle.ts"),
+  ]);
   for (const file of typeScriptModules(path.join(srcDir, "cli", "commands"))) entries.add(file);
   for (const file of typeScriptModules(srcDir)) {
     for (const m of fs.readFileSync(file, "utf8").matchAll(/new URL\(\s*["'](\.{1,2}\/[^"']+\.ts)["']\s*,\s*import\.meta\.url\s*\)/g)) {
