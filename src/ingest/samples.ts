@@ -9,6 +9,7 @@ import { entropyProduction } from "../physics/entropyProduction.ts";
 import { REDUCE_ABOVE_BYTES, type ReducedFields, type ReduceInput } from "./reduce/reduceSamples.ts";
 import { readSamplesSource, type SamplesReadOptions, type SamplesRows } from "./reduce/samplesSource.ts";
 import { listParts } from "./sources/parts.ts";
+import { isSummaryPath } from "./sources/summary/summarySource.ts";
 import { confinePath } from "../config/confinePath.ts";
 import { layoutSettings } from "./sources/layoutSettings.ts";
 import { formatRowProblems } from "./samplesRows.ts";
@@ -34,6 +35,37 @@ export async function loadSamples(
   keyPath: string,
   options: SamplesReadOptions & { auditDir?: string } = {},
 ): Promise<SamplesDataset> {
+  const { where, roles, base, A, B, input, columns, settings } = samplesPlan(config, keyPath);
+  const auditDir = options.auditDir ?? path.dirname(filePath);
+  const parts = listParts(auditDir, config.file, keyPath);
+  const request = (file: string, label: string) => ({ filePath: file, label, auditDir, keyPath, columns, settings });
+  const requests = parts ? parts.map((p) => request(confinePath(auditDir, p, `${keyPath}.file`), p)) : [request(filePath, config.file)];
+  const partBytes = parts ? requests.map((r) => fs.statSync(r.filePath).size) : undefined;
+  const conductor: ConductorInput = { roles, A, B, declared: config.state_distribution, file: config.file, where };
+  if (conductorHeld(roles)) {
+    const bytes = partBytes ? partBytes.reduce((a, b) => a + b, 0) : fileSize(filePath);
+    const limit = options.reduceAboveBytes ?? REDUCE_ABOVE_BYTES;
+    // Summarising into cells would pool realisations with different end states; several parts would be
+    // concatenated without their states. Neither is supported yet.
+    if (bytes > limit || parts || isSummaryPath(config.file)) {
+      throw new ConfigError(
+        `${where}.columns: ${config.file} is ${parts ? "a multi-part dataset" : isSummaryPath(config.file) ? "a summary of cells" : `larger than ${Math.round(limit / 2 ** 20)} MB and would be summarised while read`}, which does not yet keep the conductor's states or per-lead particle counts (state_start, state_end, dN_A, dN_B); give the windows as one histogram file with a count column`,
+      );
+    }
+  }
+  const exact = (part: ReduceInput, rows: RawSamples) => exactFields(part, rows, rows.located, conductorHeld(roles) ? conductor : undefined);
+  const { fields, format } = await readSamplesSource(requests, input, exact, { ...options, partBytes, configurationGrid: parts !== null });
+  const stated = parts ? `${parts.length} part(s) of ${format}` : format;
+  return { kind: "samples" as const, id: config.id, file: config.file, format: stated, ...base, ...fields };
+}
+
+/**
+ * What reading a samples dataset needs before its rows, from its
+ * configuration alone: the roles checked, units, reservoirs and affinities,
+ * the columns to request and the layout keys. `summarise` builds a part's
+ * grid from it too.
+ */
+export function samplesPlan(config: SamplesDatasetConfig, keyPath: string) {
   const where = `audit.yaml ${keyPath}`;
   const roles = config.columns as SampleRoles & Partial<Record<string, string>>;
   const hasQ = roles.Q !== undefined;
@@ -51,32 +83,11 @@ export async function loadSamples(
   }
   checkStateRoles(roles, config, where);
   const { base, A, B, joules, affinity } = samplesHead(config, where);
-
   // Columns in the order audit.yaml maps them (messages list problems in that order).
   const columns = Object.entries(config.columns as Record<string, string | number>).map(([role, column]) => ({ role, column }));
-  const auditDir = options.auditDir ?? path.dirname(filePath);
   const settings = layoutSettings(config);
-  const parts = listParts(auditDir, config.file, keyPath);
-  const request = (file: string, label: string) => ({ filePath: file, label, auditDir, keyPath, columns, settings });
-  const requests = parts ? parts.map((p) => request(confinePath(auditDir, p, `${keyPath}.file`), p)) : [request(filePath, config.file)];
-  const partBytes = parts ? requests.map((r) => fs.statSync(r.filePath).size) : undefined;
   const input = { label: config.file, joules, affinity, workZero: config.work === "zero" };
-  const conductor: ConductorInput = { roles, A, B, declared: config.state_distribution, file: config.file, where };
-  if (conductorHeld(roles)) {
-    const bytes = partBytes ? partBytes.reduce((a, b) => a + b, 0) : fileSize(filePath);
-    const limit = options.reduceAboveBytes ?? REDUCE_ABOVE_BYTES;
-    // Summarising into cells would pool realisations with different end states; several parts would be
-    // concatenated without their states. Neither is supported yet.
-    if (bytes > limit || parts) {
-      throw new ConfigError(
-        `${where}.columns: ${config.file} is ${parts ? "a multi-part dataset" : `larger than ${Math.round(limit / 2 ** 20)} MB and would be summarised while read`}, which does not yet keep the conductor's states or per-lead particle counts (state_start, state_end, dN_A, dN_B); give the windows as one histogram file with a count column`,
-      );
-    }
-  }
-  const exact = (part: ReduceInput, rows: RawSamples) => exactFields(part, rows, rows.located, conductorHeld(roles) ? conductor : undefined);
-  const { fields, format } = await readSamplesSource(requests, input, exact, { ...options, partBytes });
-  const stated = parts ? `${parts.length} part(s) of ${format}` : format;
-  return { kind: "samples" as const, id: config.id, file: config.file, format: stated, ...base, ...fields };
+  return { where, roles, base, A, B, input, columns, settings, conductorHeld: conductorHeld(roles) };
 }
 
 /** Raw columns of a whole file (declared units), with each row's line (text) or 1-based row number (binary). */
