@@ -35,7 +35,8 @@ export const cumulantsDatasetSchema = z
     ...dataFileKeys,
     description: z.string().optional(),
     columns: roleMap.optional(),
-    energy_unit: z.enum(ENERGY_UNITS, { errorMap: energyUnitErrorMap(ENERGY_UNITS) }).default("J"),
+    /** Default J; for HDF5 files, the `units` attribute of the Q column when there is one (src/ingest/cumulants.ts). */
+    energy_unit: z.enum(ENERGY_UNITS, { errorMap: energyUnitErrorMap(ENERGY_UNITS) }).optional(),
     reference_temperature: positive("kelvin").optional(),
     time_unit: z.enum(TIME_UNITS, { errorMap: () => ({ message: `must be one of ${TIME_UNITS.join(", ")}` }) }).default("s"),
     /** The hopping energy J (in energy_unit) that sets the time unit ħ/J of a lattice simulation. */

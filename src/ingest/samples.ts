@@ -10,6 +10,7 @@ import { REDUCE_ABOVE_BYTES, type ReducedFields, type ReduceInput } from "./redu
 import { readSamplesSource, type SamplesReadOptions, type SamplesRows } from "./reduce/samplesSource.ts";
 import { listParts } from "./sources/parts.ts";
 import { isSummaryPath } from "./sources/summary/summarySource.ts";
+import { withStatedEnergyUnit } from "./sources/fileEnergyUnit.ts";
 import { confinePath } from "../config/confinePath.ts";
 import { layoutSettings } from "./sources/layoutSettings.ts";
 import { formatRowProblems } from "./samplesRows.ts";
@@ -35,11 +36,14 @@ export async function loadSamples(
   keyPath: string,
   options: SamplesReadOptions & { auditDir?: string } = {},
 ): Promise<SamplesDataset> {
-  const { where, roles, base, A, B, input, columns, settings } = samplesPlan(config, keyPath);
   const auditDir = options.auditDir ?? path.dirname(filePath);
   const parts = listParts(auditDir, config.file, keyPath);
-  const request = (file: string, label: string) => ({ filePath: file, label, auditDir, keyPath, columns, settings });
+  const request = (file: string, label: string) => ({ filePath: file, label, auditDir, keyPath, columns: columnWants(config), settings: layoutSettings(config) });
   const requests = parts ? parts.map((p) => request(confinePath(auditDir, p, `${keyPath}.file`), p)) : [request(filePath, config.file)];
+  // Without energy_unit (HDF5 only), the files' units attributes state it.
+  const unit = await withStatedEnergyUnit(config, requests.filter((r) => !isSummaryPath(r.filePath)), keyPath);
+  config = unit.config;
+  const { where, roles, base, A, B, input } = samplesPlan(config, keyPath);
   const partBytes = parts ? requests.map((r) => fs.statSync(r.filePath).size) : undefined;
   const conductor: ConductorInput = { roles, A, B, declared: config.state_distribution, file: config.file, where };
   if (conductorHeld(roles)) {
@@ -55,7 +59,7 @@ export async function loadSamples(
   }
   const exact = (part: ReduceInput, rows: RawSamples) => exactFields(part, rows, rows.located, conductorHeld(roles) ? conductor : undefined);
   const { fields, format } = await readSamplesSource(requests, input, exact, { ...options, partBytes, configurationGrid: parts !== null });
-  const stated = parts ? `${parts.length} part(s) of ${format}` : format;
+  const stated = `${parts ? `${parts.length} part(s) of ${format}` : format}${unit.statement ? `; ${unit.statement}` : ""}`;
   return { kind: "samples" as const, id: config.id, file: config.file, format: stated, ...base, ...fields };
 }
 
@@ -83,11 +87,15 @@ export function samplesPlan(config: SamplesDatasetConfig, keyPath: string) {
   }
   checkStateRoles(roles, config, where);
   const { base, A, B, joules, affinity } = samplesHead(config, where);
-  // Columns in the order audit.yaml maps them (messages list problems in that order).
-  const columns = Object.entries(config.columns as Record<string, string | number>).map(([role, column]) => ({ role, column }));
+  const columns = columnWants(config);
   const settings = layoutSettings(config);
   const input = { label: config.file, joules, affinity, workZero: config.work === "zero" };
   return { where, roles, base, A, B, input, columns, settings, conductorHeld: conductorHeld(roles) };
+}
+
+/** Columns in the order audit.yaml maps them (messages list problems in that order). */
+export function columnWants(config: SamplesDatasetConfig): { role: string; column: string | number }[] {
+  return Object.entries(config.columns as Record<string, string | number>).map(([role, column]) => ({ role, column }));
 }
 
 /** Raw columns of a whole file (declared units), with each row's line (text) or 1-based row number (binary). */
@@ -215,7 +223,9 @@ function exactFields(input: ReduceInput, table: RawSamples, located: RawSamples[
 
 /** Units, reservoirs and affinities of a samples dataset: what it needs before its rows. */
 function samplesHead(config: SamplesDatasetConfig, where: string) {
-  const joules = joulesPerEnergyUnit(config.energy_unit as EnergyUnit, config.reference_temperature, `${where}.energy_unit`);
+  const unit = config.energy_unit;
+  if (unit === undefined) throw new ConfigError(`${where}.energy_unit: is missing; give the unit of the energy columns`);
+  const joules = joulesPerEnergyUnit(unit as EnergyUnit, config.reference_temperature, `${where}.energy_unit`);
   const A = reservoirState(config.reservoirs.A, joules);
   const B = reservoirState(config.reservoirs.B, joules);
   const affinity = affinities(A, B);
@@ -224,7 +234,7 @@ function samplesHead(config: SamplesDatasetConfig, where: string) {
     config,
     reservoirs: { A, B },
     affinity,
-    energyUnit: { name: config.energy_unit, joules },
+    energyUnit: { name: unit, joules },
     hasParticleColumn: roles.dN !== undefined || roles.dN_A !== undefined,
     tau: config.tau ?? null,
   };

@@ -1,4 +1,5 @@
 import fs from "node:fs";
+import { HDF5_FILE_NAME } from "../../../config/dataFileSchema.ts";
 import { openDataFile } from "../openDataFile.ts";
 import { binarySource, optionalColumns } from "../binary/binarySource.ts";
 import type { OpenSource, SourceModule, SourceRequest } from "../types.ts";
@@ -10,7 +11,7 @@ import { openHdf5 } from "./readHdf5.ts";
  */
 export const hdf5Source: SourceModule = {
   formats: ["hdf5"],
-  detect: (name) => (/\.(h5|hdf5|hdf|he5)$/i.test(name) ? "hdf5" : null),
+  detect: (name) => (HDF5_FILE_NAME.test(name) ? "hdf5" : null),
   open: openHdf5Source,
 };
 
@@ -29,7 +30,13 @@ async function openHdf5Source(request: SourceRequest): Promise<OpenSource> {
   try {
     const columns = request.columns.map((w) => w.column);
     const h5 = await openHdf5(pathOfDescriptor(fd, request.filePath), request.label, request.settings.dataset, columns, optionalColumns(request));
-    return binarySource(request, fd, size, { format: h5.description, rows: h5.rows, available: h5.available, present: h5.present, batches: () => h5.batches(), close: () => h5.close() });
+    // The `units` attribute each requested column carries (on the table, or on the column's own dataset), and where.
+    const where = (column: string) => (request.settings.dataset !== undefined ? `${request.settings.dataset}` : column);
+    const units = request.columns.map((w) => {
+      const unit = h5.units.get(String(w.column));
+      return unit === undefined ? null : { unit, where: where(String(w.column)) };
+    });
+    return binarySource(request, fd, size, { format: h5.description, rows: h5.rows, available: h5.available, present: h5.present, units, batches: () => h5.batches(), close: () => h5.close() });
   } catch (err) {
     fs.closeSync(fd);
     throw err;

@@ -4,7 +4,9 @@ import { ConfigError, DataError } from "../../../errors.ts";
 import { loadAuditDefinition } from "../../../config/loadAudit.ts";
 import type { SamplesDatasetConfig } from "../../../config/types.ts";
 import { TOOL } from "../../../version.ts";
-import { samplesPlan } from "../../samples.ts";
+import { columnWants, samplesPlan } from "../../samples.ts";
+import { layoutSettings } from "../layoutSettings.ts";
+import { withStatedEnergyUnit } from "../fileEnergyUnit.ts";
 import { configurationSpec, reducePart, rolesOfSource, type SamplesReadOptions } from "../../reduce/samplesSource.ts";
 import { openSource } from "../index.ts";
 import { listParts } from "../parts.ts";
@@ -72,17 +74,19 @@ export async function summarisePart(request: SummariseRequest, options: Pick<Sam
   if (auditDir === null) throw new ConfigError(`${part}: no audit.yaml in its folder or above it; name the audit folder whose configuration gives the grid with --audit <folder>`);
   const definition = loadAuditDefinition(auditDir);
   const samples = definition.datasets.filter((d): d is SamplesDatasetConfig => d.kind === "samples");
-  const config = chooseDataset(samples, (d) => definition.datasets.indexOf(d), auditDir, part, request.dataset);
-  const keyPath = `datasets[${definition.datasets.indexOf(config)}]`;
+  const chosen = chooseDataset(samples, (d) => definition.datasets.indexOf(d), auditDir, part, request.dataset);
+  const keyPath = `datasets[${definition.datasets.indexOf(chosen)}]`;
+  // The part may lie outside the audit folder (on the machine that produced it): it is confined to its own folder.
+  const partDir = path.dirname(fs.realpathSync(part));
+  const sourceRequest = { filePath: part, label: part, auditDir: partDir, keyPath, columns: columnWants(chosen), settings: layoutSettings(chosen) };
+  const { config } = await withStatedEnergyUnit(chosen, [sourceRequest], keyPath);
   const plan = samplesPlan(config, keyPath);
   if (plan.conductorHeld) {
     throw new ConfigError(
       `audit.yaml ${keyPath}.columns: map the conductor's states or per-lead particle counts (state_start, state_end, dN_A, dN_B), which a summary of cells does not yet keep; give the windows as one histogram file with a count column`,
     );
   }
-  // The part may lie outside the audit folder (on the machine that produced it): it is confined to its own folder.
-  const partDir = path.dirname(fs.realpathSync(part));
-  const source = await openSource({ filePath: part, label: part, auditDir: partDir, keyPath, columns: plan.columns, settings: plan.settings });
+  const source = await openSource(sourceRequest);
   try {
     const { roles, wantOfRole } = rolesOfSource({ columns: plan.columns } as Parameters<typeof rolesOfSource>[0], source);
     const input = { ...plan.input, label: part, roles };
