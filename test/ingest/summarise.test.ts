@@ -189,3 +189,24 @@ describe("transport-audit summarise", () => {
     expect(noDataset.stderr).toBe(`error: --dataset: audit.yaml in ${dir} has no samples dataset "other"; its samples datasets are runs\n`);
   });
 });
+
+describe("summaries written by the command", () => {
+  it("on worker threads, of parts written by the fixture script, merge as the raw parts read in one thread", async () => {
+    // The three CSV parts of the format fixtures (scripts/fixtures/write_formats.py, written by Python).
+    const parts = path.resolve("test/ingest/fixtures/formats/parts");
+    const yamlOf = (file: string) =>
+      `id: fixture-parts\ntitle: Parts\nauthors: [{ name: "Test Author" }]\nsettings: { seed: 20 }\ndatasets:\n  - id: exchange\n    kind: samples\n    file: "${file}"\n    columns: { Q: Q_meV, dN: n }\n    energy_unit: meV\n    reservoirs:\n      A: { T: 1.3, mu: 0.0 }\n      B: { T: 1.0, mu: 0.0 }\n    work: zero\n`;
+    const files: Record<string, string> = {};
+    for (const f of fs.readdirSync(parts)) files[`data/parts/${f}`] = fs.readFileSync(path.join(parts, f), "utf8");
+    const dir = tempAudit(yamlOf("data/parts"), files);
+    const raw = await rawParts(dir);
+    for (const f of fs.readdirSync(parts)) {
+      const r = await cli(["summarise", path.join(dir, "data/parts", f), "--out", path.join(dir, "data", `${f}.summary`)]);
+      expect(r.code).toBe(0);
+    }
+    fs.writeFileSync(path.join(dir, "audit.yaml"), yamlOf("data/*.summary"));
+    const summarised = (await ingestAudit(dir)).datasets[0] as SamplesDataset;
+    expect(summarised.realisations).toBe(240);
+    expect(cellsOf(summarised)).toEqual(cellsOf(raw));
+  });
+});
