@@ -111,7 +111,12 @@ export const auditSchema = z
       }
       if (typeof entry !== "string") checkOptionsIssues(audit, id, entry[id] ?? {}, ["checks", i, id], ctx);
     });
-  });
+  })
+  // A cumulants table's energy_unit defaults to J, as before, except for HDF5 files, whose units attribute may give it.
+  .transform((audit) => ({
+    ...audit,
+    datasets: audit.datasets.map((d) => (d.kind === "cumulants" && d.energy_unit === undefined && !mayStateUnits(d) ? { ...d, energy_unit: "J" as const } : d)),
+  }));
 
 /** Names `datasets:` of a check may use: dataset ids and the sweep and series groups they form. */
 function datasetNames(audit: { datasets: { id: string; sweep?: string; series?: string }[] }): string[] {

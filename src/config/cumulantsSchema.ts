@@ -35,7 +35,7 @@ export const cumulantsDatasetSchema = z
     ...dataFileKeys,
     description: z.string().optional(),
     columns: roleMap.optional(),
-    /** Default J; for HDF5 files, the `units` attribute of the Q column when there is one (src/ingest/cumulants.ts). */
+    /** Default J (set in auditSchema.ts, so that the definition, and the fingerprint, say so); for HDF5 files left out, and the `units` attribute of the Q column gives it when there is one (src/ingest/cumulants.ts). */
     energy_unit: z.enum(ENERGY_UNITS, { errorMap: energyUnitErrorMap(ENERGY_UNITS) }).optional(),
     reference_temperature: positive("kelvin").optional(),
     time_unit: z.enum(TIME_UNITS, { errorMap: () => ({ message: `must be one of ${TIME_UNITS.join(", ")}` }) }).default("s"),

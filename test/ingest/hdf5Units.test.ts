@@ -90,4 +90,12 @@ ${unit}`;
     expect(stated.config.energy_unit).toBe("meV");
     expect(stated.format).toMatch(/; energies in meV, from the units attribute of \/curve\/Q and \/curve\/u_Q$/);
   });
+
+  it("keeps J as a text cumulants table's default in the definition itself (so the fingerprints of earlier versions hold)", () => {
+    const dir = tempAudit(
+      `id: units\ntitle: Default unit\nauthors: [{ name: "Test Author" }]\ndatasets:\n  - id: curve\n    kind: cumulants\n    file: data/cumulants.csv\n`,
+      { "data/cumulants.csv": fs.readFileSync(path.join(FORMAT_FIXTURES, "cumulants.csv"), "utf8") },
+    );
+    expect((loadAuditDefinition(dir).datasets[0] as { energy_unit?: string }).energy_unit).toBe("J");
+  });
 });
