@@ -26,6 +26,7 @@ export const COMMANDS: readonly LazyCommand[] = [
   { term: "publish <audit-dir>", summary: "run the audit and freeze its result as the next immutable version under <audit-dir>/versions/<N>/", load: async () => (await import("./commands/publish.ts")).registerPublish },
   { term: "verify [options] <audit-dir>", summary: "re-run a published version from the data and confirm it is reproduced exactly (hash chain, data digests, every result digit)", load: async () => (await import("./commands/verify.ts")).registerVerify },
   { term: "pdf [options] <audit-dir>", summary: "print an audit's report to a PDF file through headless Chromium", load: async () => (await import("./commands/pdf.ts")).registerPdf },
+  { term: "summarise [options] <part>", summary: "summarise one part of a large samples dataset into its cells (<part>.summary), on the grid its audit.yaml gives, so that an audit can name the summary instead of the part", load: async () => (await import("./commands/summarise.ts")).registerSummarise },
   { term: "synth", summary: "write a simulated dataset with known exact properties as a ready audit folder", load: async () => (await import("./commands/synth.ts")).registerSynth },
 ];
 

@@ -5,7 +5,8 @@ import { optionSchemasOf } from "../checks/options.ts";
 import { nearest } from "./nearest.ts";
 import { calendarDate, datasetId, slug, text } from "./common.ts";
 import { doiSchema } from "./identifiers.ts";
-import { samplesDatasetSchema } from "./samplesSchema.ts";
+import { ENERGY_UNITS, samplesDatasetSchema } from "./samplesSchema.ts";
+import { mayStateUnits } from "./dataFileSchema.ts";
 import { coefficientsDatasetSchema, undeclaredUnits } from "./coefficientsSchema.ts";
 import { cumulantsDatasetSchema } from "./cumulantsSchema.ts";
 import { traceDatasetSchema } from "./traceSchema.ts";
@@ -88,6 +89,9 @@ export const auditSchema = z
     audit.datasets.forEach((d, i) => {
       const unitsProblem = d.kind === "coefficients" ? undeclaredUnits(d) : null;
       if (unitsProblem) ctx.addIssue({ code: "custom", path: ["datasets", i, "units"], message: unitsProblem, params: { quoteFound: false } });
+      if (d.kind === "samples" && d.energy_unit === undefined && !mayStateUnits(d)) {
+        ctx.addIssue({ code: "custom", path: ["datasets", i, "energy_unit"], message: `is missing; must be one of ${ENERGY_UNITS.join(", ")}`, params: { quoteFound: false } });
+      }
       const first = seen.get(d.id);
       if (first !== undefined) {
         ctx.addIssue({ code: "custom", path: ["datasets", i, "id"], message: `duplicates the id of datasets[${first}]` });
@@ -107,7 +111,12 @@ export const auditSchema = z
       }
       if (typeof entry !== "string") checkOptionsIssues(audit, id, entry[id] ?? {}, ["checks", i, id], ctx);
     });
-  });
+  })
+  // A cumulants table's energy_unit defaults to J, as before, except for HDF5 files, whose units attribute may give it.
+  .transform((audit) => ({
+    ...audit,
+    datasets: audit.datasets.map((d) => (d.kind === "cumulants" && d.energy_unit === undefined && !mayStateUnits(d) ? { ...d, energy_unit: "J" as const } : d)),
+  }));
 
 /** Names `datasets:` of a check may use: dataset ids and the sweep and series groups they form. */
 function datasetNames(audit: { datasets: { id: string; sweep?: string; series?: string }[] }): string[] {

@@ -1,8 +1,8 @@
 import { z } from "zod";
-import { dataFileKeys } from "./dataFileSchema.ts";
+import { columnRef, dataFileKeys } from "./dataFileSchema.ts";
 import { datasetId, positive, relativeFile, text } from "./common.ts";
 
-const temperatureSchema = z.union([z.object({ column: text("a CSV column name") }).strict(), z.object({ value: positive("kelvin") }).strict()], {
+const temperatureSchema = z.union([z.object({ column: columnRef }).strict(), z.object({ value: positive("kelvin") }).strict()], {
   errorMap: () => ({ message: "must be { column: <name> } or { value: <kelvin> }" }),
 });
 
@@ -15,10 +15,10 @@ export const coefficientsDatasetSchema = z
     description: z.string().optional(),
     form: z.enum(["onsager", "thermoelectric"], { errorMap: () => ({ message: "must be onsager or thermoelectric" }) }),
     temperature: temperatureSchema,
-    field: z.object({ column: text("a CSV column name") }).strict().optional(),
-    point: z.array(text("a CSV column name")).default([]),
-    /** role → CSV column when the file's headers differ from the role names. */
-    columns: z.record(z.string(), text("a CSV column name")).optional(),
+    field: z.object({ column: columnRef }).strict().optional(),
+    point: z.array(columnRef).default([]),
+    /** role → column when the file's headers differ from the role names; 1-based positions for a file without a header. */
+    columns: z.record(z.string(), columnRef).optional(),
     /**
      * `SI`, or per-column units, e.g. { G: uS, S: uV/K, Pi: uV, K: pW/K }. The
      * thermoelectric form must declare them (auditSchema.ts): its columns are
@@ -32,7 +32,7 @@ export const coefficientsDatasetSchema = z
     /** time-reversal parity of each flux, +1 or -1 (default +1: charge and heat). */
     parity: z.array(z.union([z.literal(1), z.literal(-1)])).optional(),
     /** column plotted on the abscissa of sweep plots (default: the first `point` column). */
-    sweep_variable: text("a CSV column name").optional(),
+    sweep_variable: columnRef.optional(),
     /** unit of the field column, for labels only (pairing uses the sign); default T. */
     field_unit: text().optional(),
   })

@@ -24,3 +24,15 @@ export const columnRef = z.union([
   text("a column name or a 1-based column position"),
   z.number({ invalid_type_error: "must be a column name or a 1-based column position" }).int("must be a whole 1-based column position").min(1, "must be a 1-based column position (1 is the first column)"),
 ]);
+
+/**
+ * Whether a dataset's file may state its energy unit itself (HDF5 `units`
+ * attributes), so that `energy_unit` can be left out: by `format: hdf5` or
+ * the file's extension, as the source registry detects HDF5.
+ */
+export function mayStateUnits(d: { file: string; format?: string }): boolean {
+  return d.format === "hdf5" || (d.format === undefined && HDF5_FILE_NAME.test(d.file));
+}
+
+/** The file names taken for HDF5 without `format:` (src/ingest/sources/hdf5/hdf5Source.ts detects by it too). */
+export const HDF5_FILE_NAME = /\.(h5|hdf5|hdf|he5)$/i;

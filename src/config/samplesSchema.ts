@@ -49,7 +49,8 @@ export const samplesDatasetSchema = z
     ...dataFileKeys,
     description: z.string().optional(),
     columns: roleMap,
-    energy_unit: z.enum(ENERGY_UNITS, { errorMap: energyUnitErrorMap(ENERGY_UNITS) }),
+    /** Optional only for HDF5 files, whose `units` attributes may state it (auditSchema.ts requires it otherwise). */
+    energy_unit: z.enum(ENERGY_UNITS, { errorMap: energyUnitErrorMap(ENERGY_UNITS) }).optional(),
     reference_temperature: positive("kelvin").optional(),
     reservoirs: z.object({ A: reservoirSchema, B: reservoirSchema }).strict(),
     tau: positive("seconds").optional(),

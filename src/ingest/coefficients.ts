@@ -21,6 +21,7 @@ import { nearest } from "../config/nearest.ts";
 import { parseUnit, toSI, type ParsedUnit, type QuantityKey } from "../physics/units.ts";
 import { onsagerFromThermoelectric } from "../physics/thermoelectric.ts";
 import { readNumericCsv, type ColumnRequest, type NumericTable, type TableReader } from "./readCsv.ts";
+import { requirePositions, type NamedColumn } from "./sources/positionalColumns.ts";
 import type { CoefficientPoint, CoefficientsDataset, PairingFinding } from "./types.ts";
 
 const MAX_FLUXES = 9;
@@ -37,8 +38,8 @@ function knownRoles(form: CoefficientsDatasetConfig["form"]): string[] {
   return [...names, ...names.map((n) => `u_${n}`)];
 }
 
-/** role → CSV column, validating the `columns:` map against the roles of the form. */
-function columnMapper(config: CoefficientsDatasetConfig, where: string): (role: string) => string {
+/** role → column (a name, or a 1-based position without a header), validating the `columns:` map against the roles of the form. */
+function columnMapper(config: CoefficientsDatasetConfig, where: string): (role: string) => string | number {
   const roles = knownRoles(config.form);
   const map = config.columns ?? {};
   for (const key of Object.keys(map)) {
@@ -200,6 +201,17 @@ function onsagerUncertainty(v: { G: number; S: number; Pi: number; K: number }, 
   ];
 }
 
+/** The columns a coefficients table must have, with the keys that name them (for a file without a header, which needs positions). */
+function requiredColumns(config: CoefficientsDatasetConfig, ref: (role: string) => string | number): NamedColumn[] {
+  const roles = config.form === "thermoelectric" ? ["G", "S", "K"] : ["L11", "L12", "L21", "L22"];
+  const out: NamedColumn[] = roles.map((r, k) => ({ key: `columns.${r}`, column: ref(r), example: `columns: { ${r}: ${k + 2} }` }));
+  if ("column" in config.temperature) out.push({ key: "temperature.column", column: config.temperature.column, example: "temperature: { column: 1 }" });
+  if (config.field) out.push({ key: "field.column", column: config.field.column, example: "field: { column: 1 }" });
+  config.point.forEach((p, k) => out.push({ key: `point[${k}]`, column: p, example: "point: [1]" }));
+  if (config.sweep_variable !== undefined) out.push({ key: "sweep_variable", column: config.sweep_variable, example: "sweep_variable: 1" });
+  return out;
+}
+
 export async function loadCoefficients(
   config: CoefficientsDatasetConfig,
   filePath: string,
@@ -207,23 +219,26 @@ export async function loadCoefficients(
   read: TableReader = (requests) => readNumericCsv(filePath, config.file, requests),
 ): Promise<CoefficientsDataset> {
   const where = `audit.yaml ${keyPath}`;
-  const col = columnMapper(config, where);
+  const ref = columnMapper(config, where);
+  // Columns as the table keys them: names, or positions as "2" (as every source names them without a header).
+  const col = (role: string) => String(ref(role));
+  requirePositions(config.header, requiredColumns(config, ref), where);
   const fieldUnit = config.field_unit ?? "T";
 
   // Request every column the form may use; which ones exist decides the matrix size and the uncertainties.
   const requests: ColumnRequest[] = [];
   const requested = new Set<string>();
-  const request = (column: string, role: string, optional: boolean) => {
-    if (requested.has(column)) return;
-    requested.add(column);
+  const request = (column: string | number, role: string, optional: boolean) => {
+    if (requested.has(String(column))) return;
+    requested.add(String(column));
     requests.push({ column, role, optional });
   };
   if (config.form === "thermoelectric") {
-    for (const r of THERMOELECTRIC) request(col(r), r === "Pi" ? "the Peltier coefficient Pi" : `the coefficient ${r}`, r === "Pi");
-    for (const r of THERMOELECTRIC) request(col(`u_${r}`), `the standard uncertainty of ${r}`, true);
+    for (const r of THERMOELECTRIC) request(ref(r), r === "Pi" ? "the Peltier coefficient Pi" : `the coefficient ${r}`, r === "Pi");
+    for (const r of THERMOELECTRIC) request(ref(`u_${r}`), `the standard uncertainty of ${r}`, true);
   } else {
-    for (let i = 0; i < MAX_FLUXES; i++) for (let j = 0; j < MAX_FLUXES; j++) request(col(onsagerRole(i, j)), `the Onsager entry ${onsagerRole(i, j)}`, true);
-    for (let i = 0; i < MAX_FLUXES; i++) for (let j = 0; j < MAX_FLUXES; j++) request(col(`u_${onsagerRole(i, j)}`), `the standard uncertainty of ${onsagerRole(i, j)}`, true);
+    for (let i = 0; i < MAX_FLUXES; i++) for (let j = 0; j < MAX_FLUXES; j++) request(ref(onsagerRole(i, j)), `the Onsager entry ${onsagerRole(i, j)}`, true);
+    for (let i = 0; i < MAX_FLUXES; i++) for (let j = 0; j < MAX_FLUXES; j++) request(ref(`u_${onsagerRole(i, j)}`), `the standard uncertainty of ${onsagerRole(i, j)}`, true);
   }
   if ("column" in config.temperature) request(config.temperature.column, "the temperature (kelvin)", false);
   if (config.field) request(config.field.column, "the magnetic field", false);
@@ -252,10 +267,10 @@ export async function loadCoefficients(
   // Per-cell checks: T > 0, u ≥ 0; gathered before failing.
   const problems = newProblemLog();
   const problem = (i: number, column: string, message: string) => recordProblem(problems, table.lineOfRow[i], column, message);
-  const Tcol = "column" in config.temperature ? table.columns.get(config.temperature.column)! : null;
+  const Tcol = "column" in config.temperature ? table.columns.get(String(config.temperature.column))! : null;
   const Tvalue = "value" in config.temperature ? config.temperature.value : Number.NaN;
   for (let i = 0; i < table.rows; i++) {
-    if (Tcol && !(Tcol[i] > 0)) problem(i, (config.temperature as { column: string }).column, `expected a positive temperature in kelvin, found ${Tcol[i]}`);
+    if (Tcol && !(Tcol[i] > 0)) problem(i, String((config.temperature as { column: string | number }).column), `expected a positive temperature in kelvin, found ${Tcol[i]}`);
     if (hasUncertainties) {
       for (const r of names) {
         const u = table.columns.get(col(`u_${r}`))![i];
@@ -270,19 +285,19 @@ export async function loadCoefficients(
     return toSI(raw, units.get(role) ?? null);
   };
 
-  const Bcol = config.field ? table.columns.get(config.field.column)! : null;
+  const Bcol = config.field ? table.columns.get(String(config.field.column))! : null;
   const sweepColumn = config.sweep_variable ?? config.point[0] ?? null;
   const raw: RawRow[] = [];
   for (let i = 0; i < table.rows; i++) {
     const point: Record<string, number> = {};
-    for (const p of config.point) point[p] = table.columns.get(p)![i];
+    for (const p of config.point) point[p] = table.columns.get(String(p))![i];
     raw.push({ index: i, line: table.lineOfRow[i], point, T: Tcol ? Tcol[i] : Tvalue, B: Bcol ? Bcol[i] : null });
   }
   const { partner, pairs, findings } = pairRows(raw, config.point.length > 0, fieldUnit);
 
   const kelvinAssumed = config.form === "thermoelectric" && !names.includes("Pi");
   const points: CoefficientPoint[] = raw.map((r, i) => {
-    const sweep = sweepColumn ? table.columns.get(sweepColumn)![i] : r.line;
+    const sweep = sweepColumn !== null ? table.columns.get(String(sweepColumn))![i] : r.line;
     if (config.form === "onsager") {
       const values = names.map((role) => si(role, i));
       const u = hasUncertainties ? names.map((role) => si(role, i, true)) : null;
@@ -340,7 +355,7 @@ export async function loadCoefficients(
     findings,
     hasField: config.field !== undefined,
     hasUncertainties,
-    sweepVariable: sweepColumn,
+    sweepVariable: sweepColumn === null ? null : String(sweepColumn),
     fieldUnit,
     kelvinAssumed,
     units: declaredUnits,

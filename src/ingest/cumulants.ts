@@ -3,7 +3,10 @@ import type { CumulantsDatasetConfig } from "../config/types.ts";
 import type { CumulantRole } from "../config/cumulantsSchema.ts";
 import { HBAR } from "../physics/constants.ts";
 import { joulesPerEnergyUnit, type EnergyUnit } from "../physics/energyUnits.ts";
-import { readNumericCsv, type ColumnRequest, type TableReader } from "./readCsv.ts";
+import { readNumericCsv, type ColumnRequest, type NumericTable, type TableReader } from "./readCsv.ts";
+import { agreedUnit, unitStatements } from "./sources/fileEnergyUnit.ts";
+import type { SourceTable } from "./sources/readSourceTable.ts";
+import { requirePositions } from "./sources/positionalColumns.ts";
 import type { CumulantsDataset } from "./types.ts";
 
 const SECONDS_PER: Record<string, number> = { s: 1, ms: 1e-3, us: 1e-6, "µs": 1e-6, ns: 1e-9, ps: 1e-12, fs: 1e-15 };
@@ -49,17 +52,25 @@ export async function loadCumulants(
   read: TableReader = (requests) => readNumericCsv(filePath, config.file, requests),
 ): Promise<CumulantsDataset> {
   const where = `audit.yaml ${keyPath}`;
-  const mapped = (config.columns ?? {}) as Partial<Record<CumulantRole, string>>;
-  const joules = joulesPerEnergyUnit(config.energy_unit as EnergyUnit, config.reference_temperature, `${where}.energy_unit`);
-  const seconds = secondsPerTimeUnit(config, joules, where);
+  const mapped = (config.columns ?? {}) as Partial<Record<CumulantRole, string | number>>;
   const roles: CumulantRole[] = ["tau", "Q", "dN", "u_Q", "u_dN"];
-  const columnOf = (role: CumulantRole) => mapped[role] ?? role;
+  // A column by name, or by 1-based position in a file without a header (named "2" in messages, as the sources name it).
+  const columnOf = (role: CumulantRole) => String(mapped[role] ?? role);
+  requirePositions(config.header, [{ key: "columns.tau", column: mapped.tau ?? "tau", example: "columns: { tau: 1 }" }], where);
+  if (config.header === false && mapped.Q === undefined && mapped.dN === undefined) {
+    throw new ConfigError(`${where}.columns: the file has no header row (header: false), so map Q or dN (or both) to their 1-based positions, e.g. columns: { tau: 1, Q: 2 }`);
+  }
   const requests: ColumnRequest[] = roles.map((role) => ({
     role: `${role}, ${ROLE_MEANING[role]}`,
-    column: columnOf(role),
+    column: mapped[role] ?? role,
     optional: role !== "tau" && mapped[role] === undefined,
   }));
-  const table = await read(requests);
+  const table: NumericTable & { format?: string; units?: SourceTable["units"] } = await read(requests);
+  // Without energy_unit: the unit the file states for Q and u_Q (HDF5 `units` attributes), else J.
+  const stated = config.energy_unit === undefined ? agreedUnit(unitStatements({ columns: requests.map((r, i) => ({ ...r, role: roles[i] })), label: config.file }, table.units, ["Q", "u_Q"]), false, keyPath) : null;
+  config = { ...config, energy_unit: config.energy_unit ?? stated?.unit ?? "J" };
+  const joules = joulesPerEnergyUnit(config.energy_unit as EnergyUnit, config.reference_temperature, `${where}.energy_unit`);
+  const seconds = secondsPerTimeUnit(config, joules, where);
   const col = (role: CumulantRole) => table.columns.get(columnOf(role));
   if (!col("Q") && !col("dN")) {
     throw new DataError(
@@ -133,5 +144,6 @@ export async function loadCumulants(
     dN: scaled(sorted(col("dN")), 1),
     u_Q: scaled(sorted(col("u_Q")), joules),
     u_dN: scaled(sorted(col("u_dN")), 1),
+    ...(stated && table.format ? { format: `${table.format}; ${stated.statement}` } : {}),
   };
 }

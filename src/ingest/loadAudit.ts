@@ -42,7 +42,7 @@ export async function ingestDefinition(dir: string, definition: AuditDefinition,
         datasets.push({ ...(await loadCoefficients(config, filePath, keyPath, sourceReader(dir, config, filePath, keyPath, format))), format: format.value! });
         break;
       case "cumulants":
-        datasets.push({ ...(await loadCumulants(config, filePath, keyPath, sourceReader(dir, config, filePath, keyPath, format))), format: format.value! });
+        datasets.push(await loadCumulants(config, filePath, keyPath, sourceReader(dir, config, filePath, keyPath, format)).then((d) => ({ format: format.value!, ...d })));
         break;
       case "trace":
         datasets.push(...(await loadTrace(config, filePath, keyPath, dir)));

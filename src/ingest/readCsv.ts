@@ -6,7 +6,7 @@ import { nearest } from "../config/nearest.ts";
 
 /** A column of a CSV file that a dataset needs, and whether it may be missing. */
 export interface ColumnRequest {
-  column: string; // header name in the file
+  column: string | number; // header name in the file, or its 1-based position (files without a header; the sources read positions)
   role: string; // what it is used for (shown in messages)
   optional?: boolean;
 }
@@ -288,10 +288,10 @@ export async function readNumericCsv(filePath: string, label: string, requests: 
         const missing: string[] = [];
         indices = [];
         for (const request of requests) {
-          const index = headers.indexOf(request.column);
+          const index = headers.indexOf(String(request.column)); // a position reads as a name here: this reader takes headers only
           if (index < 0) {
             if (!request.optional) {
-              const hint = nearest(request.column, headers);
+              const hint = nearest(String(request.column), headers);
               missing.push(
                 `${label}:${info.lines}: no column "${request.column}" (needed for ${request.role})${hint ? `; did you mean "${hint}"?` : ""}; the header has ${headers.map((h) => `"${h}"`).join(", ")}`,
               );
@@ -311,7 +311,7 @@ export async function readNumericCsv(filePath: string, label: string, requests: 
       for (const entry of indices) {
         const parsed = describeCellProblem(record[entry.index] ?? "");
         if (typeof parsed === "string") {
-          recordProblem(problems, info.lines, entry.request.column, parsed);
+          recordProblem(problems, info.lines, String(entry.request.column), parsed);
           entry.column.push(Number.NaN);
         } else entry.column.push(parsed);
       }
@@ -330,7 +330,7 @@ export async function readNumericCsv(filePath: string, label: string, requests: 
   if (problems.count > 0) throw new DataError(formatCellProblems(label, problems.problems, MAX_REPORTED_PROBLEMS, problems.count));
   if (rows === 0) throw new DataError(`${label}: the file has a header but no data rows`);
   const columns = new Map<string, Float64Array>();
-  for (const entry of indices) columns.set(entry.request.column, entry.column.toArray());
+  for (const entry of indices) columns.set(String(entry.request.column), entry.column.toArray());
   const lineOfRow = Uint32Array.from(lines.toArray());
   return { sha256: hash.digest("hex"), rows, columns, lineOfRow, headers };
 }

@@ -9,6 +9,8 @@ import { entropyProduction } from "../physics/entropyProduction.ts";
 import type { ReducedFields, ReduceInput } from "./reduce/reduceSamples.ts";
 import { readSamplesSource, type SamplesReadOptions, type SamplesRows } from "./reduce/samplesSource.ts";
 import { listParts } from "./sources/parts.ts";
+import { isSummaryPath } from "./sources/summary/summarySource.ts";
+import { withStatedEnergyUnit } from "./sources/fileEnergyUnit.ts";
 import { confinePath } from "../config/confinePath.ts";
 import { layoutSettings } from "./sources/layoutSettings.ts";
 import { conductorRowsOf, formatRowProblems, logSigmaOverflow, sampleRowsOf, subtractHeldParticles, type SampleRole, type SampleRoles } from "./samplesRows.ts";
@@ -33,6 +35,35 @@ export async function loadSamples(
   keyPath: string,
   options: SamplesReadOptions & { auditDir?: string } = {},
 ): Promise<SamplesDataset> {
+  const auditDir = options.auditDir ?? path.dirname(filePath);
+  const parts = listParts(auditDir, config.file, keyPath);
+  const request = (file: string, label: string) => ({ filePath: file, label, auditDir, keyPath, columns: columnWants(config), settings: layoutSettings(config) });
+  const requests = parts ? parts.map((p) => request(confinePath(auditDir, p, `${keyPath}.file`), p)) : [request(filePath, config.file)];
+  // Without energy_unit (HDF5 only), the files' units attributes state it.
+  const unit = await withStatedEnergyUnit(config, requests.filter((r) => !isSummaryPath(r.filePath)), keyPath);
+  config = unit.config;
+  const { where, roles, base, input } = samplesPlan(config, keyPath);
+  const partBytes = parts ? requests.map((r) => fs.statSync(r.filePath).size) : undefined;
+  // A summary file (`summarise`) holds cells without the conductor's states; parts read from their rows keep them.
+  if (conductorHeld(roles) && requests.some((r) => isSummaryPath(r.filePath))) {
+    throw new ConfigError(
+      `${where}.columns: ${config.file} names summaries of cells (.summary), which do not keep the conductor's states or per-lead particle counts (state_start, state_end, dN_A, dN_B); name the raw parts instead`,
+    );
+  }
+  const exact = (part: ReduceInput, rows: RawSamples) => exactFields(part, rows, rows.located);
+  const { fields, format } = await readSamplesSource(requests, input, exact, { ...options, partBytes, configurationGrid: parts !== null });
+  const stated = `${parts ? `${parts.length} part(s) of ${format}` : format}${unit.statement ? `; ${unit.statement}` : ""}`;
+  const finished = withConductorStates(fields, { declared: config.state_distribution, file: config.file, where, startColumn: String(roles.state_start) });
+  return { kind: "samples" as const, id: config.id, file: config.file, format: stated, ...base, ...finished };
+}
+
+/**
+ * What reading a samples dataset needs before its rows, from its
+ * configuration alone: the roles checked, units, reservoirs and affinities,
+ * the columns to request and the layout keys. `summarise` builds a part's
+ * grid from it too.
+ */
+export function samplesPlan(config: SamplesDatasetConfig, keyPath: string) {
   const where = `audit.yaml ${keyPath}`;
   const roles = config.columns as SampleRoles & Partial<Record<string, string>>;
   const hasQ = roles.Q !== undefined;
@@ -50,21 +81,15 @@ export async function loadSamples(
   }
   checkStateRoles(roles, config, where);
   const { base, A, B, joules, affinity } = samplesHead(config, where);
-
-  // Columns in the order audit.yaml maps them (messages list problems in that order).
-  const columns = Object.entries(config.columns as Record<string, string | number>).map(([role, column]) => ({ role, column }));
-  const auditDir = options.auditDir ?? path.dirname(filePath);
+  const columns = columnWants(config);
   const settings = layoutSettings(config);
-  const parts = listParts(auditDir, config.file, keyPath);
-  const request = (file: string, label: string) => ({ filePath: file, label, auditDir, keyPath, columns, settings });
-  const requests = parts ? parts.map((p) => request(confinePath(auditDir, p, `${keyPath}.file`), p)) : [request(filePath, config.file)];
-  const partBytes = parts ? requests.map((r) => fs.statSync(r.filePath).size) : undefined;
   const input = { label: config.file, joules, affinity, workZero: config.work === "zero", meanBetaMu: meanBetaMuOf(A, B) };
-  const exact = (part: ReduceInput, rows: RawSamples) => exactFields(part, rows, rows.located);
-  const { fields, format } = await readSamplesSource(requests, input, exact, { ...options, partBytes });
-  const stated = parts ? `${parts.length} part(s) of ${format}` : format;
-  const finished = withConductorStates(fields, { declared: config.state_distribution, file: config.file, where, startColumn: String(roles.state_start) });
-  return { kind: "samples" as const, id: config.id, file: config.file, format: stated, ...base, ...finished };
+  return { where, roles, base, A, B, input, columns, settings, conductorHeld: conductorHeld(roles) };
+}
+
+/** Columns in the order audit.yaml maps them (messages list problems in that order). */
+export function columnWants(config: SamplesDatasetConfig): { role: string; column: string | number }[] {
+  return Object.entries(config.columns as Record<string, string | number>).map(([role, column]) => ({ role, column }));
 }
 
 /** Raw columns of a whole file (declared units), with each row's line (text) or 1-based row number (binary). */
@@ -73,6 +98,11 @@ type RawSamples = SamplesRows;
 /** (β_Aμ_A + β_Bμ_B)/2: what each particle the leads gained together adds to −Σ_res (physics.md §4b). */
 function meanBetaMuOf(A: ReservoirState, B: ReservoirState): number {
   return (A.beta * A.mu + B.beta * B.mu) / 2;
+}
+
+/** Whether the data describe a conductor that holds particles (state or per-lead particle columns). */
+function conductorHeld(roles: SampleRoles): boolean {
+  return roles.state_start !== undefined || roles.state_end !== undefined || roles.dN_A !== undefined || roles.dN_B !== undefined;
 }
 
 /** The state and per-lead particle roles go in pairs, and replace dN. */
@@ -152,7 +182,9 @@ function exactFields(input: ReduceInput, table: RawSamples, located: RawSamples[
 
 /** Units, reservoirs and affinities of a samples dataset: what it needs before its rows. */
 function samplesHead(config: SamplesDatasetConfig, where: string) {
-  const joules = joulesPerEnergyUnit(config.energy_unit as EnergyUnit, config.reference_temperature, `${where}.energy_unit`);
+  const unit = config.energy_unit;
+  if (unit === undefined) throw new ConfigError(`${where}.energy_unit: is missing; give the unit of the energy columns`);
+  const joules = joulesPerEnergyUnit(unit as EnergyUnit, config.reference_temperature, `${where}.energy_unit`);
   const A = reservoirState(config.reservoirs.A, joules);
   const B = reservoirState(config.reservoirs.B, joules);
   const affinity = affinities(A, B);
@@ -161,7 +193,7 @@ function samplesHead(config: SamplesDatasetConfig, where: string) {
     config,
     reservoirs: { A, B },
     affinity,
-    energyUnit: { name: config.energy_unit, joules },
+    energyUnit: { name: unit, joules },
     hasParticleColumn: roles.dN !== undefined || roles.dN_A !== undefined,
     tau: config.tau ?? null,
   };

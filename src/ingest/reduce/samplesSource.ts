@@ -1,5 +1,7 @@
 import { DataError } from "../../errors.ts";
 import { openSource } from "../sources/index.ts";
+import { checkSummaryGrid, digestOfPart, inPartOrder, isSummaryPath, openSummary, type OpenSummary } from "../sources/summary/summarySource.ts";
+import { SummaryPairs } from "../sources/summary/summaryPairs.ts";
 import { partsDigest } from "../sources/parts.ts";
 import { GrowingColumn } from "../sources/readSourceTable.ts";
 import type { Located, OpenSource, SourceRequest } from "../sources/types.ts";
@@ -32,6 +34,21 @@ export interface SamplesReadOptions {
   threads?: boolean;
   /** Bytes of the file processed so far, and its size. */
   onBytes?: (done: number, total: number) => void;
+  /**
+   * Summarise on the grid the dataset's configuration alone gives
+   * (`configurationSpec`), not on one chosen from the first rows: for
+   * datasets of parts, whose parts may be summarised apart (summarise).
+   */
+  configurationGrid?: boolean;
+}
+
+/** One part summarised: its cell tables (unmerged, in range order), rows, digest, pieces and the spec used. */
+export interface PartCells {
+  tables: CellTableData[];
+  rows: number;
+  sha256: string;
+  pieces: number;
+  spec: SamplesReductionSpec;
 }
 
 /**
@@ -39,10 +56,17 @@ export interface SamplesReadOptions {
  * multi-part dataset (`requests` in file order). Below the size threshold
  * (all parts together) every row is kept: each part through `exact` with its
  * own label, then concatenated. Above it the cell summary: one grid for all
- * parts (chosen from the first part's first rows), each part's cells from
- * byte ranges scanned by worker threads where the source offers them (plain
- * text), else from its batches, and the parts' tables merged (exact, in
- * part order). Every part must have the first part's columns.
+ * parts (chosen from the first part's first rows, or from the configuration
+ * alone with `configurationGrid`), each part's cells from byte ranges scanned
+ * by worker threads where the source offers them (plain text), else from its
+ * batches, and the parts' tables merged (exact, in part order). Every part
+ * must have the first part's columns. A part may be a summary written by
+ * `summarise` (`<part>.summary`): its cells are merged where the part's
+ * would be, after its grid is checked against the configuration's; a raw
+ * part beside its own summary is only hashed and must have the digest the
+ * summary records; the same part twice (raw and summarised under another
+ * name, or two summaries of it) is refused. A dataset with summaries is
+ * always summarised.
  */
 export async function readSamplesSource(
   requests: SourceRequest[],
@@ -50,27 +74,27 @@ export async function readSamplesSource(
   exact: ExactFields,
   options: SamplesReadOptions & { partBytes?: number[] } = {},
 ): Promise<{ fields: ReducedFields; format: string }> {
-  let source = await openSource(requests[0]);
+  requests = inPartOrder(requests);
+  const openPart = (r: SourceRequest): Promise<OpenSource | OpenSummary> => (isSummaryPath(r.filePath) ? Promise.resolve(openSummary(r)) : openSource(r));
+  let source = await openPart(requests[0]);
   const first = { label: requests[0].label, available: source.available };
   const format = source.format;
   // Roles named by the file's own column names (positions become names like "2" without a header).
-  const roles: SampleRoles = {};
-  const wantOfRole: Partial<Record<SampleRole, number>> = {};
-  requests[0].columns.forEach((want, i) => {
-    roles[want.role as SampleRole] = source.names[i]!;
-    wantOfRole[want.role as SampleRole] = i;
-  });
+  const { roles, wantOfRole } = rolesOfSource(requests[0], source);
   const full: ReduceInput = { ...input, roles };
   const total = options.partBytes ? options.partBytes.reduce((a, b) => a + b, 0) : source.byteSize;
-  const large = total > (options.reduceAboveBytes ?? REDUCE_ABOVE_BYTES);
+  const summaries = requests.filter((r) => isSummaryPath(r.filePath)).length;
+  const large = summaries > 0 || total > (options.reduceAboveBytes ?? REDUCE_ABOVE_BYTES);
   const exactParts: ReducedFields[] = [];
   const tables: CellTableData[] = [];
   const digests: string[] = [];
-  let spec: SamplesReductionSpec | null = null;
+  const capacity = options.cellCapacity ?? DEFAULT_CELL_CAPACITY;
+  let spec: SamplesReductionSpec | null = large && (options.configurationGrid || summaries > 0) ? configurationSpec(full, wantOfRole, capacity) : null;
+  const check = new SummaryPairs(requests);
   let rows = 0;
   let pieces = 0;
   for (let k = 0; k < requests.length; k++) {
-    if (k > 0) source = await openSource(requests[k]);
+    if (k > 0) source = await openPart(requests[k]);
     try {
       const label = requests[k].label;
       if (k > 0 && source.available.join("\u0000") !== first.available.join("\u0000")) {
@@ -82,29 +106,35 @@ export async function readSamplesSource(
         throw new DataError(`${label}: is ${source.format}, but ${first.label} is ${format}; every part of a multi-part dataset has one format`);
       }
       const part = { ...full, label };
+      if ("summary" in source) {
+        const { summary } = source;
+        checkSummaryGrid(summary, spec!, label);
+        check.summaryRead(requests[k], summary.source.sha256);
+        tables.push(...summary.tables);
+        rows += summary.rows;
+        pieces += summary.pieces;
+        digests.push(await source.sha256());
+        continue;
+      }
+      if (check.hasSummary(requests[k])) {
+        // Its summary, next in part order, supplies the cells; the part is only hashed, to be compared.
+        const sha256 = await digestOfPart(requests[k]);
+        check.rawRead(requests[k], sha256);
+        digests.push(sha256);
+        continue;
+      }
       if (!large) {
         const read = await wholeRows(source, requests[k]);
         exactParts.push(exact(part, read));
         digests.push(read.sha256);
         continue;
       }
-      const plan = source.byteRanges;
-      let done: { tables: CellTableData[]; rows: number; sha256: string } | null = null;
-      if (plan) {
-        const slotOfPlanRole: Partial<Record<SampleRole, number>> = {};
-        for (const [role, name] of Object.entries(roles)) slotOfPlanRole[role as SampleRole] = plan.layout.slotNames.indexOf(name!);
-        spec ??= byteRangeSpec(part, plan, slotOfPlanRole, options.cellCapacity ?? DEFAULT_CELL_CAPACITY);
-        done = await reduceByteRanges(plan, { ...spec, label, slotOfRole: slotOfPlanRole }, () => source.sha256(), options);
-        if (done) pieces += PARTS;
-      }
-      if (done === null) {
-        const reduced = await reduceBatches(part, source, wantOfRole, spec, options);
-        spec = reduced.spec;
-        done = reduced;
-        pieces += 1;
-      }
+      const done = await reducePart(part, source, wantOfRole, spec, options);
+      spec = done.spec;
+      check.rawRead(requests[k], done.sha256);
       tables.push(...done.tables);
       rows += done.rows;
+      pieces += done.pieces;
       digests.push(done.sha256);
     } finally {
       await source.close();
@@ -113,9 +143,58 @@ export async function readSamplesSource(
   const sha256 = requests.length === 1 ? digests[0] : partsDigest(requests.map((r, k) => ({ path: r.label, sha256: digests[k] })));
   if (!large) return { fields: { ...concatFields(exactParts), sha256 }, format };
   const merged = mergeCellTables(spec!.grid, tables);
-  return { fields: fieldsFromCells(full, spec!, merged, rows, sha256, pieces), format };
+  const from = summaries === 0 ? "" : requests.length === 1 ? ", from its summary (transport-audit summarise)" : `, ${summaries} of them from summaries (transport-audit summarise)`;
+  return { fields: fieldsFromCells(full, spec!, merged, rows, sha256, pieces), format: format + from };
 }
 
+/**
+ * The grid of a dataset that is read in parts: a function of its
+ * configuration alone (the mapped columns, the work declaration, the
+ * energy unit and the reservoirs' affinities), so that parts summarised on
+ * different machines, and the same parts read raw, share it and merge cell
+ * by cell. It is the grid reductionSpec chooses when it has no rows to look
+ * at: Σ and β̄W on 2^-12 k_B, counts exact (widening only past MAX_LEVEL),
+ * Q (a key only at equal temperatures) on 2^-24 of the energy unit, start
+ * level 0 (the table climbs as it fills).
+ */
+export function configurationSpec(input: ReduceInput, slotOfRole: Partial<Record<SampleRole, number>>, capacity = DEFAULT_CELL_CAPACITY): SamplesReductionSpec {
+  return reductionSpec(input, null, slotOfRole, capacity);
+}
+
+/**
+ * One raw part summarised into cells: byte ranges on worker threads where
+ * the source offers them, else its batches in this thread; on `spec`'s grid
+ * when given, else on one chosen from the part's first rows.
+ */
+export async function reducePart(
+  part: ReduceInput,
+  source: OpenSource,
+  wantOfRole: Partial<Record<SampleRole, number>>,
+  spec: SamplesReductionSpec | null,
+  options: SamplesReadOptions,
+): Promise<PartCells> {
+  const plan = source.byteRanges;
+  if (plan) {
+    const slotOfPlanRole: Partial<Record<SampleRole, number>> = {};
+    for (const [role, name] of Object.entries(part.roles)) slotOfPlanRole[role as SampleRole] = plan.layout.slotNames.indexOf(name!);
+    const chosen = spec ?? byteRangeSpec(part, plan, slotOfPlanRole, options.cellCapacity ?? DEFAULT_CELL_CAPACITY);
+    const done = await reduceByteRanges(plan, { ...chosen, label: part.label, slotOfRole: slotOfPlanRole }, () => source.sha256(), options);
+    if (done) return { ...done, pieces: PARTS, spec: chosen };
+    spec = chosen;
+  }
+  return { ...(await reduceBatches(part, source, wantOfRole, spec, options)), pieces: 1 };
+}
+
+/** The roles of a dataset named by a part's own column names, and each role's place in the request. */
+export function rolesOfSource(request: SourceRequest, source: Pick<OpenSource, "names">): { roles: SampleRoles; wantOfRole: Partial<Record<SampleRole, number>> } {
+  const roles: SampleRoles = {};
+  const wantOfRole: Partial<Record<SampleRole, number>> = {};
+  request.columns.forEach((want, i) => {
+    roles[want.role as SampleRole] = source.names[i]!;
+    wantOfRole[want.role as SampleRole] = i;
+  });
+  return { roles, wantOfRole };
+}
 function quoted(names: string[]): string {
   return names.map((n) => `"${n}"`).join(", ");
 }
@@ -145,7 +224,7 @@ async function reduceBatches(
   wantOfRole: Partial<Record<SampleRole, number>>,
   spec: SamplesReductionSpec | null,
   options: SamplesReadOptions,
-): Promise<{ tables: CellTableData[]; rows: number; sha256: string; spec: SamplesReductionSpec }> {
+): Promise<Omit<PartCells, "pieces">> {
   let reducer: SamplesReducer | null = spec ? new SamplesReducer({ ...spec, label: input.label }) : null;
   let rows = 0;
   for await (const batch of source.batches(options.onBytes)) {

@@ -1,11 +1,13 @@
 import type { NumericTable } from "../readCsv.ts";
 import { openSource } from "./index.ts";
-import type { Located, SourceRequest } from "./types.ts";
+import type { Located, OpenSource, SourceRequest } from "./types.ts";
 
 /** Whole columns of a data file, keyed by the column as the dataset names it, with the file's format. */
 export interface SourceTable extends NumericTable {
   format: string;
   located: Located;
+  /** Units the file states for the requested columns (HDF5 attributes), request order. */
+  units?: OpenSource["units"];
 }
 
 /** A typed array that doubles its room as values are appended. */
@@ -55,6 +57,7 @@ export async function readSourceTable(request: SourceRequest, onBytes?: (done: n
       headers: source.available,
       format: source.format,
       located: source.located,
+      units: source.units,
     };
   } finally {
     await source.close();

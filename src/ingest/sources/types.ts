@@ -90,6 +90,12 @@ export interface OpenSource {
   /** Bytes on disk, for the size threshold and progress. */
   byteSize: number;
   /**
+   * The unit the file states for each requested column (request order; HDF5
+   * `units` attributes) and the path that states it, null where none is
+   * stated; absent for formats that state none.
+   */
+  units?: ({ unit: string; where: string } | null)[];
+  /**
    * The rows in batches of bounded size. Cell problems are gathered over the
    * whole file and thrown as one DataError after the last batch (a consumer
    * must drain the iterator); no batch with a bad cell is handed out.

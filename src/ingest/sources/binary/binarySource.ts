@@ -12,6 +12,8 @@ export interface OpenBinary {
   /** The requested columns found, as the batches key them (absent optional ones left out). */
   present: readonly string[];
   batches(): AsyncGenerator<RecordBatch>;
+  /** Units the file states for the requested columns (request order), where the format has them. */
+  units?: OpenSource["units"];
   /** Releases what the reader holds besides the descriptor. */
   close?(): void;
 }
@@ -30,6 +32,7 @@ export function binarySource(request: SourceRequest, fd: number, size: number, o
     names: request.columns.map((w) => (present.has(String(w.column)) ? String(w.column) : null)),
     available: open.available,
     byteSize: size,
+    units: open.units,
     async *batches(onBytes) {
       for await (const batch of open.batches()) {
         const locations = new Uint32Array(batch.rows);

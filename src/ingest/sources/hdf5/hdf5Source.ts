@@ -1,4 +1,5 @@
 import fs from "node:fs";
+import { HDF5_FILE_NAME } from "../../../config/dataFileSchema.ts";
 import { openDataFile } from "../openDataFile.ts";
 import { binarySource, optionalColumns } from "../binary/binarySource.ts";
 import type { OpenSource, SourceModule, SourceRequest } from "../types.ts";
@@ -9,7 +10,7 @@ import type { OpenSource, SourceModule, SourceRequest } from "../types.ts";
  */
 export const hdf5Source: SourceModule = {
   formats: ["hdf5"],
-  detect: (name) => (/\.(h5|hdf5|hdf|he5)$/i.test(name) ? "hdf5" : null),
+  detect: (name) => (HDF5_FILE_NAME.test(name) ? "hdf5" : null),
   open: openHdf5Source,
 };
 
@@ -30,7 +31,13 @@ async function openHdf5Source(request: SourceRequest): Promise<OpenSource> {
     // The HDF5 library (a WebAssembly build, about half a second to load) only when an HDF5 file is opened.
     const { openHdf5 } = await import("./readHdf5.ts");
     const h5 = await openHdf5(pathOfDescriptor(fd, request.filePath), request.label, request.settings.dataset, columns, optionalColumns(request));
-    return binarySource(request, fd, size, { format: h5.description, rows: h5.rows, available: h5.available, present: h5.present, batches: () => h5.batches(), close: () => h5.close() });
+    // The `units` attribute each requested column carries (on the table, or on the column's own dataset), and where.
+    const where = (column: string) => (request.settings.dataset !== undefined ? `${request.settings.dataset}` : column);
+    const units = request.columns.map((w) => {
+      const unit = h5.units.get(String(w.column));
+      return unit === undefined ? null : { unit, where: where(String(w.column)) };
+    });
+    return binarySource(request, fd, size, { format: h5.description, rows: h5.rows, available: h5.available, present: h5.present, units, batches: () => h5.batches(), close: () => h5.close() });
   } catch (err) {
     fs.closeSync(fd);
     throw err;

@@ -190,6 +190,8 @@ export function layoutFor(
       }
     } else {
       if (!dialect.header) {
+        // An optional column by name (one a dataset reads when the file has it) is absent from a file without a header.
+        if (want.optional) continue;
         throw new ConfigError(
           `audit.yaml ${keyPath}.columns.${want.role}: the file has no header row (header: false), so columns are given by 1-based position, e.g. ${want.role}: 2; found ${JSON.stringify(want.column)}`,
         );
