@@ -12,7 +12,7 @@ import { listParts } from "./sources/parts.ts";
 import { confinePath } from "../config/confinePath.ts";
 import { layoutSettings } from "./sources/layoutSettings.ts";
 import { formatRowProblems } from "./samplesRows.ts";
-import { logSigmaOverflow, sampleRowsOf, type SampleRole, type SampleRoles } from "./samplesRows.ts";
+import { logSigmaOutOfRange, sampleRowsOf, type SampleRole, type SampleRoles } from "./samplesRows.ts";
 import type { ConductorStates, SamplesDataset } from "./types.ts";
 
 function reservoirState(r: SamplesDatasetConfig["reservoirs"]["A"], joules: number): ReservoirState {
@@ -60,7 +60,7 @@ export async function loadSamples(
   const request = (file: string, label: string) => ({ filePath: file, label, auditDir, keyPath, columns, settings });
   const requests = parts ? parts.map((p) => request(confinePath(auditDir, p, `${keyPath}.file`), p)) : [request(filePath, config.file)];
   const partBytes = parts ? requests.map((r) => fs.statSync(r.filePath).size) : undefined;
-  const input = { label: config.file, joules, affinity, workZero: config.work === "zero" };
+  const input = { label: config.file, dataset: config.id, joules, affinity, workZero: config.work === "zero" };
   const conductor: ConductorInput = { roles, A, B, declared: config.state_distribution, file: config.file, where };
   if (conductorHeld(roles)) {
     const bytes = partBytes ? partBytes.reduce((a, b) => a + b, 0) : fileSize(filePath);
@@ -180,7 +180,7 @@ function exactFields(input: ReduceInput, table: RawSamples, located: RawSamples[
   if (problems.count > 0) throw new DataError(formatRowProblems(input.label, problems, located));
   const dN = held.dN ?? rows.dN ?? new Float64Array(table.rows);
   const sigma = held.sigma ?? entropyProduction(input.affinity, W, rows.Q, dN);
-  logSigmaOverflow(sigma, table.lines, input.roles.Q ?? input.roles.dE_B!, problems);
+  logSigmaOutOfRange(sigma, table.lines, input.roles.Q ?? input.roles.dE_B!, problems, input.dataset);
   if (problems.count > 0) throw new DataError(formatRowProblems(input.label, problems, located));
   return {
     sha256: table.sha256,
@@ -236,7 +236,7 @@ export function samplesFromColumns(
   const roles = config.columns as SampleRoles;
   checkStateRoles(roles, config, where);
   const { base, A, B, joules, affinity } = samplesHead(config, where);
-  const input: ReduceInput = { label: config.file, roles, joules, affinity, workZero: config.work === "zero" } as ReduceInput;
+  const input: ReduceInput = { label: config.file, dataset: config.id, roles, joules, affinity, workZero: config.work === "zero" } as ReduceInput;
   const conductor: ConductorInput = { roles, A, B, declared: config.state_distribution, file: config.file, where };
   const fields = exactFields(input, { raw, rows, lines, sha256, located: "row" } as RawSamples, "row", conductor);
   return { kind: "samples" as const, id: config.id, file: config.file, format: "trace windows", ...base, ...fields };

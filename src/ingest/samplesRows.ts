@@ -119,10 +119,32 @@ export function sampleRowsOf(
   };
 }
 
-/** The message for a row whose entropy production is beyond double precision. */
-export const SIGMA_OVERFLOW = "the entropy production of this row is beyond double precision (|Σ| above 1.8e308 k_B); check energy_unit and the reservoirs' temperatures";
+/**
+ * The largest |Σ| (k_B) of one realisation that is accepted. The checks exponentiate Σ
+ * (⟨e^−Σ⟩, the ratio P(Σ)/P(−Σ) = e^Σ, the e^⟨Σ⟩ realisations a mean needs), and e^x is a
+ * finite, normal double only for |x| below about 708 (IEEE 754 binary64: the largest double
+ * is e^709.78…, the smallest normal one e^−708.40…; common practice). Beyond 700 k_B a
+ * realisation is, moreover, one the fluctuation relation itself makes unobservable in its
+ * negative form (P(−Σ)/P(Σ) = e^−Σ < 10^−304), so such a value almost always comes from a
+ * wrong energy unit or temperature, or a damaged cell, and is refused rather than averaged.
+ */
+export const SIGMA_LIMIT = 700;
 
-/** Log every row whose Σ is not finite (energies so large, or temperatures so small, that it overflows). */
-export function logSigmaOverflow(sigma: ArrayLike<number>, lines: ArrayLike<number>, column: string, problems: ProblemLog): void {
-  for (let i = 0; i < sigma.length; i++) if (!Number.isFinite(sigma[i])) recordProblem(problems, lines[i], column, SIGMA_OVERFLOW);
+/** Whether a realisation's Σ (k_B) is accepted: finite and within ±SIGMA_LIMIT (false for NaN). */
+export function sigmaInRange(sigma: number): boolean {
+  return sigma >= -SIGMA_LIMIT && sigma <= SIGMA_LIMIT;
+}
+
+/** The message for a row whose entropy production is out of range, naming the dataset. */
+export function describeSigmaOutOfRange(sigma: number, dataset: string): string {
+  const fix = "check energy_unit, the reservoirs' temperatures (or β) and chemical potentials, and the row's cells";
+  if (!Number.isFinite(sigma)) {
+    return `dataset "${dataset}": the entropy production of this row is beyond double precision (|Σ| above 1.8e308 k_B); ${fix}`;
+  }
+  return `dataset "${dataset}": the entropy production of this row, Σ = ${sigma.toPrecision(3).replace("e+", "e")} k_B, is beyond ±${SIGMA_LIMIT} k_B, where e^−Σ leaves double precision (e^709.78 is the largest double); ${fix}`;
+}
+
+/** Log every row whose Σ is out of range (not finite, or |Σ| above SIGMA_LIMIT). */
+export function logSigmaOutOfRange(sigma: ArrayLike<number>, lines: ArrayLike<number>, column: string, problems: ProblemLog, dataset: string): void {
+  for (let i = 0; i < sigma.length; i++) if (!sigmaInRange(sigma[i])) recordProblem(problems, lines[i], column, describeSigmaOutOfRange(sigma[i], dataset));
 }

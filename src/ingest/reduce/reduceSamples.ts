@@ -80,6 +80,8 @@ const PROBE_BYTES = 1 << 20;
 
 export interface ReduceInput {
   label: string;
+  /** The dataset's id in audit.yaml, for messages. */
+  dataset: string;
   /** Role → the column's name in the file (its header name, or its position without a header). */
   roles: SampleRoles;
   joules: number;
@@ -209,6 +211,7 @@ export function reductionSpec(input: ReduceInput, probe: RowChunk | null, slotOf
     sample === null || keyValues.some((v) => v === null) ? 0 : levelForProbe(keyValues as Float64Array[], sample.rows, step0, delay, maxLevel, capacity / 8);
   return {
     label: input.label,
+    dataset: input.dataset,
     roles,
     slotOfRole,
     joules: input.joules,

@@ -1,13 +1,14 @@
 import { entropyProduction } from "../../physics/entropyProduction.ts";
 import { newProblemLog, type ProblemLog } from "../../errors.ts";
 import { CellTable, type CellTableData, type GridSpec, type RowBlock } from "./cellTable.ts";
-import { logSigmaOverflow, sampleRowsOf, type SampleRole, type SampleRoles, type SampleRows } from "../samplesRows.ts";
+import { logSigmaOutOfRange, sampleRowsOf, sigmaInRange, type SampleRole, type SampleRoles, type SampleRows } from "../samplesRows.ts";
 import type { RowChunk, ScanLayout, ScanState } from "../fast/scanLines.ts";
 import { scanFileRange } from "../fast/scanRange.ts";
 
 /** Everything a thread needs to reduce its share of a `samples` file (plain data: it crosses to workers). */
 export interface SamplesReductionSpec {
   label: string;
+  dataset: string;
   roles: SampleRoles;
   /** Slot of each mapped role in the scanner's output. */
   slotOfRole: Partial<Record<SampleRole, number>>;
@@ -64,7 +65,7 @@ export class SamplesReducer {
     const columns: Record<SampleColumn, Float64Array | null> = { Q: rows.Q, W: rows.W_data, dN: rows.dN, dE_A: rows.dE_A, dE_B: rows.dE_B };
     const W = rows.W_data;
     const sigma = sigmaOfRows(rows, spec.sigma);
-    logSigmaOverflow(sigma, chunk.lines, spec.roles.Q ?? spec.roles.dE_B!, this.rowProblems);
+    logSigmaOutOfRange(sigma, chunk.lines, spec.roles.Q ?? spec.roles.dE_B!, this.rowProblems, spec.dataset);
     if (this.rowProblems.count > 0) return;
     const betaW = W ? W.map((w) => spec.betaBar * w) : null;
     const key = spec.keyColumns.map((c) => (c === "sigma" ? sigma : c === "betaW" ? betaW! : columns[c]!));
@@ -121,8 +122,8 @@ export class SamplesReducer {
       const W = ws ? ws[i] * j : 0;
       const dN = ns ? ns[i] : 0;
       const sigma = cW * W + cQ * Q + cN * dN;
-      if (!Number.isFinite(sigma)) {
-        logSigmaOverflow([sigma], [chunk.lines[i]], spec.roles.Q!, this.rowProblems);
+      if (!sigmaInRange(sigma)) {
+        logSigmaOutOfRange([sigma], [chunk.lines[i]], spec.roles.Q!, this.rowProblems, spec.dataset);
         continue;
       }
       if (this.rowProblems.count > 0) continue; // the file is refused; only the problems matter now
