@@ -9,10 +9,11 @@ import { entropyProduction } from "../physics/entropyProduction.ts";
 import { REDUCE_ABOVE_BYTES, type ReducedFields, type ReduceInput } from "./reduce/reduceSamples.ts";
 import { readSamplesSource, type SamplesReadOptions, type SamplesRows } from "./reduce/samplesSource.ts";
 import { listParts } from "./sources/parts.ts";
+import type { SourceRequest } from "./sources/types.ts";
+import { writtenCellTexts } from "./cellTexts.ts";
 import { confinePath } from "../config/confinePath.ts";
 import { layoutSettings } from "./sources/layoutSettings.ts";
-import { formatRowProblems } from "./samplesRows.ts";
-import { logSigmaOutOfRange, sampleRowsOf, type SampleRole, type SampleRoles } from "./samplesRows.ts";
+import { formatRowProblems, logSigmaOutOfRange, RowProblemsError, sampleRowsOf, type SampleRole, type SampleRoles } from "./samplesRows.ts";
 import type { ConductorStates, SamplesDataset } from "./types.ts";
 
 function reservoirState(r: SamplesDatasetConfig["reservoirs"]["A"], joules: number): ReservoirState {
@@ -74,9 +75,27 @@ export async function loadSamples(
     }
   }
   const exact = (part: ReduceInput, rows: RawSamples) => exactFields(part, rows, rows.located, conductorHeld(roles) ? conductor : undefined);
-  const { fields, format } = await readSamplesSource(requests, input, exact, { ...options, partBytes });
+  const { fields, format } = await readSamplesSource(requests, input, exact, { ...options, partBytes }).catch(async (err: unknown) => {
+    throw await withCellsAsWritten(err, requests);
+  });
   const stated = parts ? `${parts.length} part(s) of ${format}` : format;
   return { kind: "samples" as const, id: config.id, file: config.file, format: stated, ...base, ...fields };
+}
+
+/**
+ * A text file's row problems worded again with each cell as the file writes it (read again, on
+ * this error path only); any other error, or a file that cannot be read again, as it was.
+ */
+async function withCellsAsWritten(err: unknown, requests: SourceRequest[]): Promise<unknown> {
+  if (!(err instanceof RowProblemsError) || err.located !== "line") return err;
+  const request = requests.find((r) => r.label === err.label);
+  if (!request) return err;
+  try {
+    await writtenCellTexts(request, err.log.problems);
+  } catch {
+    return err;
+  }
+  return new DataError(formatRowProblems(err.label, err.log, "line"));
 }
 
 /** Raw columns of a whole file (declared units), with each row's line (text) or 1-based row number (binary). */
@@ -171,17 +190,17 @@ function conductorFields(
 function exactFields(input: ReduceInput, table: RawSamples, located: RawSamples["located"], conductor?: ConductorInput): ReducedFields & Pick<SamplesDataset, "states" | "leadParticles"> {
   const problems = newProblemLog();
   const rows = sampleRowsOf(table.raw, input.roles, input.joules, table.rows, table.lines, problems);
-  if (problems.count > 0) throw new DataError(formatRowProblems(input.label, problems, located));
+  if (problems.count > 0) throw new RowProblemsError(input.label, problems, located);
   const W_data = rows.W_data;
   const W = input.workZero ? new Float64Array(table.rows) : W_data!;
   const realisations = rows.weight ? rows.weight.reduce((a, c) => a + c, 0) : table.rows;
   if (rows.weight && realisations === 0) throw new DataError(`${input.label}: every count in column "${input.roles.count}" is zero; there are no realisations`);
   const held = conductor ? conductorFields(conductor, table.raw, table, input.affinity, W, rows.Q, rows.weight, problems) : { dN: null, sigma: null, states: null, leadParticles: null };
-  if (problems.count > 0) throw new DataError(formatRowProblems(input.label, problems, located));
+  if (problems.count > 0) throw new RowProblemsError(input.label, problems, located);
   const dN = held.dN ?? rows.dN ?? new Float64Array(table.rows);
   const sigma = held.sigma ?? entropyProduction(input.affinity, W, rows.Q, dN);
   logSigmaOutOfRange(sigma, table.lines, input.roles.Q ?? input.roles.dE_B!, problems, input.dataset);
-  if (problems.count > 0) throw new DataError(formatRowProblems(input.label, problems, located));
+  if (problems.count > 0) throw new RowProblemsError(input.label, problems, located);
   return {
     sha256: table.sha256,
     rows: table.rows,

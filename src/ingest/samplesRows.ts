@@ -1,6 +1,5 @@
-import { formatCellProblems, formatRowNumberedProblems, MAX_REPORTED_PROBLEMS, recordProblem, type ProblemLog } from "../errors.ts";
-import { describeStoredNumber } from "../messageText.ts";
-import { logNonWholeParticleNumbers } from "./wholeNumber.ts";
+import { DataError, formatCellProblems, formatRowNumberedProblems, MAX_REPORTED_PROBLEMS, recordProblem, type ProblemLog } from "../errors.ts";
+import { isExactWholeNumber, logNonWholeParticleNumbers } from "./wholeNumber.ts";
 
 /**
  * Row rules of a `samples` dataset, shared by the whole-table reader and the
@@ -37,6 +36,20 @@ export function formatRowProblems(label: string, problems: ProblemLog, located: 
   return located === "line"
     ? formatCellProblems(label, problems.problems, MAX_REPORTED_PROBLEMS, problems.count)
     : formatRowNumberedProblems(label, problems.problems, problems.count);
+}
+
+/**
+ * A file's row problems, thrown as one DataError; the log is kept so that the loader can
+ * look up the cells of a text file as written (cellTexts.ts) and word the message again.
+ */
+export class RowProblemsError extends DataError {
+  constructor(
+    readonly label: string,
+    readonly log: ProblemLog,
+    readonly located: "line" | "row",
+  ) {
+    super(formatRowProblems(label, log, located));
+  }
 }
 
 /** One chunk of rows in SI (J) with their multiplicities. Arrays are `rows` long. */
@@ -103,8 +116,8 @@ export function sampleRowsOf(
     for (let i = 0; i < rows; i++) {
       const c = weight[i];
       // Above 2^53 consecutive whole numbers are no longer all representable (IEEE 754 binary64).
-      if (c < 0 || !Number.isInteger(c) || c > Number.MAX_SAFE_INTEGER) {
-        recordProblem(problems, lines[i], roles.count!, `expected a count (a whole number from 0 to ${Number.MAX_SAFE_INTEGER}), found ${describeStoredNumber(c)}`);
+      if (c < 0 || !isExactWholeNumber(c)) {
+        recordProblem(problems, lines[i], roles.count!, `expected a count (a whole number from 0 to ${Number.MAX_SAFE_INTEGER})`, c);
       }
     }
   }

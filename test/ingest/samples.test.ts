@@ -115,8 +115,8 @@ describe("loadSamples errors name file, row and column", () => {
     expect(err).toBeInstanceOf(DataError);
     expect(err.message).toBe(
       [
-        'data/runs.csv:3, column "c": expected a count (a whole number from 0 to 9007199254740991), found 1.5',
-        'data/runs.csv:4, column "c": expected a count (a whole number from 0 to 9007199254740991), found -1',
+        'data/runs.csv:3, column "c": expected a count (a whole number from 0 to 9007199254740991), found "1.5"',
+        'data/runs.csv:4, column "c": expected a count (a whole number from 0 to 9007199254740991), found "-1"',
       ].join("\n"),
     );
   });

@@ -2,11 +2,9 @@ import fs from "node:fs";
 import path from "node:path";
 import { describe, expect, it } from "vitest";
 import h5wasm from "h5wasm/node";
-import { loadAuditDefinition } from "../../src/config/loadAudit.ts";
-import { loadSamples, type SamplesReadOptions } from "../../src/ingest/samples.ts";
-import type { SamplesDatasetConfig } from "../../src/config/types.ts";
+import type { SamplesReadOptions } from "../../src/ingest/samples.ts";
 import { DataError } from "../../src/errors.ts";
-import { tempAudit } from "../helpers/tempAudit.ts";
+import { loadSamplesFile } from "../helpers/loadSamplesFile.ts";
 import { rejectedWith } from "../helpers/thrown.ts";
 import { writeSamplesParquet } from "../helpers/writeSamplesParquet.ts";
 
@@ -78,27 +76,16 @@ const SHAPES: Shape[] = [
   { name: "HDF5, one dataset per column", file: "runs.h5", write: writeHdf5, keys: "/q", where: row },
 ];
 
-async function loadRuns(shape: Shape, Q: number[], options: SamplesReadOptions & { counted?: boolean } = {}) {
+function loadRuns(shape: Shape, Q: number[], options: SamplesReadOptions & { counted?: boolean } = {}) {
   const counted = options.counted ?? false;
   const countKey = shape.keys.startsWith("/") ? "/c" : "c";
-  const dir = tempAudit(`id: sigma-range
-title: Entropy production range
-authors: [{ name: "Test Author" }]
-datasets:
-  - id: runs
-    kind: samples
-    file: data/${shape.file}
-    columns: { Q: ${shape.keys}${counted ? `, count: ${countKey}` : ""} }
-    energy_unit: kT
-    reference_temperature: 1.0
-    reservoirs: { A: { T: 2.0 }, B: { T: 1.0 } }
-    work: zero
-`);
-  fs.mkdirSync(path.join(dir, "data"));
-  const target = path.join(dir, "data", shape.file);
-  await shape.write(target, Q, counted);
-  const config = loadAuditDefinition(dir).datasets[0] as SamplesDatasetConfig;
-  return loadSamples(config, target, "datasets[0]", { auditDir: dir, ...options });
+  return loadSamplesFile(shape.file, (target) => shape.write(target, Q, counted), [
+    `columns: { Q: ${shape.keys}${counted ? `, count: ${countKey}` : ""} }`,
+    "energy_unit: kT",
+    "reference_temperature: 1.0",
+    "reservoirs: { A: { T: 2.0 }, B: { T: 1.0 } }",
+    "work: zero",
+  ], options);
 }
 
 function expected(shape: Shape, column: string): string {
