@@ -267,19 +267,23 @@ export async function loadCoefficients(
 
   // Per-cell checks: T > 0, u ≥ 0; gathered before failing.
   const problems = newProblemLog();
-  const problem = (i: number, column: string, message: string) => recordProblem(problems, table.lineOfRow[i], column, message);
+  const problem = (i: number, column: string, message: string, found: number) => recordProblem(problems, table.lineOfRow[i], column, message, found);
   const Tcol = "column" in config.temperature ? table.columns.get(config.temperature.column)! : null;
   const Tvalue = "value" in config.temperature ? config.temperature.value : Number.NaN;
   for (let i = 0; i < table.rows; i++) {
-    if (Tcol && !(Tcol[i] > 0)) problem(i, (config.temperature as { column: string }).column, `expected a positive temperature in kelvin, found ${Tcol[i]}`);
+    if (Tcol && !(Tcol[i] > 0)) problem(i, (config.temperature as { column: string }).column, "expected a positive temperature in kelvin", Tcol[i]);
     if (hasUncertainties) {
       for (const r of names) {
         const u = table.columns.get(col(`u_${r}`))![i];
-        if (u < 0) problem(i, col(`u_${r}`), `expected a standard uncertainty ≥ 0, found ${u}`);
+        if (u < 0) problem(i, col(`u_${r}`), "expected a standard uncertainty ≥ 0", u);
       }
     }
   }
-  if (problems.count > 0) throw new DataError(formatCellProblems(config.file, problems.problems, MAX_REPORTED_PROBLEMS, problems.count));
+  if (problems.count > 0) {
+    // The cells as the file writes them (text files), on this error path only; the numbers read otherwise.
+    await table.cellTexts?.(problems.problems).catch(() => undefined);
+    throw new DataError(formatCellProblems(config.file, problems.problems, MAX_REPORTED_PROBLEMS, problems.count));
+  }
 
   const si = (role: string, i: number, uncertainty = false): number => {
     const raw = table.columns.get(col(uncertainty ? `u_${role}` : role))![i];

@@ -1,7 +1,7 @@
 import fs from "node:fs";
 import { createHash } from "node:crypto";
 import { CsvError, parse } from "csv-parse";
-import { DataError, formatCellProblems, MAX_REPORTED_PROBLEMS, newProblemLog, recordProblem } from "../errors.ts";
+import { DataError, formatCellProblems, MAX_REPORTED_PROBLEMS, newProblemLog, recordProblem, type CellProblem } from "../errors.ts";
 import { nearest } from "../config/nearest.ts";
 
 /** A column of a CSV file that a dataset needs, and whether it may be missing. */
@@ -11,8 +11,12 @@ export interface ColumnRequest {
   optional?: boolean;
 }
 
-/** Reads the requested columns of a dataset's file (the ingesters take one, so that every format reaches them). */
-export type TableReader = (requests: ColumnRequest[]) => Promise<NumericTable & { format?: string }>;
+/**
+ * Reads the requested columns of a dataset's file (the ingesters take one, so that every format
+ * reaches them). `cellTexts`, for text files, gives problems about numbers their cells as written
+ * (src/ingest/cellTexts.ts) before an ingester words its message.
+ */
+export type TableReader = (requests: ColumnRequest[]) => Promise<NumericTable & { format?: string; cellTexts?: (problems: CellProblem[]) => Promise<void> }>;
 
 export interface NumericTable {
   sha256: string;

@@ -149,9 +149,10 @@ describe("loadCoefficients, thermoelectric form", () => {
     const ds = `    form: onsager
     temperature: { column: T }
     point: [Vg]`;
-    const e = await failure(ds, "Vg,T,L11,L12,L21,L22,u_L11,u_L12,u_L21,u_L22\n1,4.2,1,0,0,1,0.1,0.1,0.1,0.1\n2,-1,1,0,0,1,0.1,-0.1,0.1,0.1\n");
+    const e = await failure(ds, "Vg,T,L11,L12,L21,L22,u_L11,u_L12,u_L21,u_L22\n1,4.2,1,0,0,1,0.1,0.1,0.1,0.1\n2,-1.0,1,0,0,1,0.1,-1e-1,0.1,0.1\n");
     expect(e).toBeInstanceOf(DataError);
-    expect(e.message).toBe('data/c.csv:3, column "T": expected a positive temperature in kelvin, found -1\ndata/c.csv:3, column "u_L12": expected a standard uncertainty ≥ 0, found -0.1');
+    // The cells as written (-1.0, -1e-1), not the doubles they were read as (-1, -0.1).
+    expect(e.message).toBe('data/c.csv:3, column "T": expected a positive temperature in kelvin, found "-1.0"\ndata/c.csv:3, column "u_L12": expected a standard uncertainty ≥ 0, found "-1e-1"');
   });
 });
 
