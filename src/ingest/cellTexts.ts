@@ -2,7 +2,7 @@ import fs from "node:fs";
 import { Readable } from "node:stream";
 import { parse } from "csv-parse";
 import type { CellProblem } from "../errors.ts";
-import { MAX_LINE_CHARS } from "./readCsv.ts";
+import { tableParseOptions } from "./readCsv.ts";
 import { WHITESPACE_RUNS } from "./fast/scanLines.ts";
 import { openDataFile } from "./sources/openDataFile.ts";
 import { compressionOf, headOf, textBlocks } from "./sources/fileBytes.ts";
@@ -74,17 +74,7 @@ async function* tableRecords(text: AsyncIterable<Uint8Array>, table: TextTableSt
     return;
   }
   // As the general reader (sources/text/generalRows.ts) parses: csv-parse, trimmed cells, # comments.
-  const parser = parse({
-    delimiter: String.fromCharCode(table.dialect.delimiter),
-    comment: "#",
-    comment_no_infix: true,
-    skip_empty_lines: true,
-    trim: true,
-    info: true,
-    relax_column_count: true,
-    bom: true,
-    max_record_size: MAX_LINE_CHARS,
-  });
+  const parser = parse(tableParseOptions(String.fromCharCode(table.dialect.delimiter)));
   const input = Readable.from(text);
   input.on("error", (err) => parser.destroy(err));
   input.pipe(parser);
