@@ -1,4 +1,4 @@
-import { shortenQuotes } from "./messageText.ts";
+import { describeStoredNumber, quoteForMessage, shortenQuotes } from "./messageText.ts";
 
 /**
  * Error hierarchy. An `InputError` means the user's input cannot be audited
@@ -43,6 +43,23 @@ export interface CellProblem {
   row: number; // 1-based as a person counts lines, header included
   column: string;
   message: string;
+  /**
+   * The number the cell was read as, when the message is about it: shown after the message as
+   * `, found …`, quoting `text` (the cell as the file writes it) once a reader has supplied it.
+   */
+  found?: number;
+  text?: string;
+}
+
+/**
+ * What a problem's cell holds, for `, found …`: the text as written in a text file, quoted; the
+ * stored number in a binary file (a double prints exactly: the shortest decimal that reads back as
+ * it, ECMA-262 Number::toString); a text cell not yet looked up, without a number the file does not hold.
+ */
+function foundPart(p: CellProblem, stored: boolean): string {
+  if (p.found === undefined) return "";
+  if (p.text !== undefined) return `, found ${quoteForMessage(p.text)}`;
+  return `, found ${stored ? String(p.found) : describeStoredNumber(p.found)}`;
 }
 
 /**
@@ -50,17 +67,17 @@ export interface CellProblem {
  * one go: `data/run3.csv:14, column "n": expected a number, found "seven"`.
  */
 export function formatCellProblems(file: string, problems: CellProblem[], cap: number, total = problems.length): string {
-  return formatProblems(file, problems, cap, total, (p) => `${file}:${p.row}, column "${p.column}"`);
+  return formatProblems(file, problems, cap, total, (p) => `${file}:${p.row}, column "${p.column}"`, false);
 }
 
 /** The same for files without lines (Parquet): `data/run3.parquet, row 14, column "n": …`, rows counted from 1. */
 export function formatRowNumberedProblems(file: string, problems: CellProblem[], total = problems.length): string {
-  return formatProblems(file, problems, MAX_REPORTED_PROBLEMS, total, (p) => `${file}, row ${p.row}, column "${p.column}"`);
+  return formatProblems(file, problems, MAX_REPORTED_PROBLEMS, total, (p) => `${file}, row ${p.row}, column "${p.column}"`, true);
 }
 
-function formatProblems(file: string, problems: CellProblem[], cap: number, total: number, where: (p: CellProblem) => string): string {
+function formatProblems(file: string, problems: CellProblem[], cap: number, total: number, where: (p: CellProblem) => string, stored: boolean): string {
   // A quoted cell longer than 80 characters is shown shortened, with its length (messageText.ts).
-  const lines = problems.slice(0, cap).map((p) => `${where(p)}: ${shortenQuotes(p.message)}`);
+  const lines = problems.slice(0, cap).map((p) => `${where(p)}: ${shortenQuotes(p.message)}${foundPart(p, stored)}`);
   if (total > cap) lines.push(`… and ${total - cap} more problem(s) in ${file}`);
   return lines.join("\n");
 }
@@ -75,7 +92,8 @@ export function newProblemLog(): ProblemLog {
   return { problems: [], count: 0 };
 }
 
-export function recordProblem(log: ProblemLog, row: number, column: string, message: string): void {
+/** Log a problem; `found`, the number the cell was read as, is shown after the message (see CellProblem). */
+export function recordProblem(log: ProblemLog, row: number, column: string, message: string, found?: number): void {
   log.count++;
-  if (log.problems.length < MAX_REPORTED_PROBLEMS) log.problems.push({ row, column, message: shortenQuotes(message) });
+  if (log.problems.length < MAX_REPORTED_PROBLEMS) log.problems.push({ row, column, message: shortenQuotes(message), ...(found === undefined ? {} : { found }) });
 }

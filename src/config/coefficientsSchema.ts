@@ -43,7 +43,9 @@ export type CoefficientsDatasetConfig = z.output<typeof coefficientsDatasetSchem
 /**
  * The columns whose unit the thermoelectric form must state. Pi is optional
  * (Π can come from the Kelvin relation), so its unit can only be required
- * once the file shows a Pi column: that check belongs to the reader.
+ * once the file shows a Pi column: that check belongs to the reader
+ * (src/ingest/coefficients.ts, parseUnits, which also holds a units map of the
+ * onsager form to all four entries of the 2×2 matrix).
  */
 export const THERMOELECTRIC_UNIT_COLUMNS = ["G", "S", "K"] as const;
 

@@ -18,7 +18,7 @@
 import { ConfigError, DataError, formatCellProblems, MAX_REPORTED_PROBLEMS, newProblemLog, recordProblem } from "../errors.ts";
 import type { CoefficientsDatasetConfig } from "../config/types.ts";
 import { nearest } from "../config/nearest.ts";
-import { parseUnit, toSI, type ParsedUnit, type QuantityKey } from "../physics/units.ts";
+import { parseUnit, siUnitOf, toSI, type ParsedUnit, type QuantityKey } from "../physics/units.ts";
 import { onsagerFromThermoelectric } from "../physics/thermoelectric.ts";
 import { readNumericCsv, type ColumnRequest, type NumericTable, type TableReader } from "./readCsv.ts";
 import { requirePositions, type NamedColumn } from "./sources/positionalColumns.ts";
@@ -77,19 +77,35 @@ function valueRoles(config: CoefficientsDatasetConfig, table: NumericTable, col:
   return { names: expected, n };
 }
 
-/** Parse `units:`; keys must be value columns of the form. */
-function parseUnits(config: CoefficientsDatasetConfig, n: number, where: string): Map<string, ParsedUnit> {
+/**
+ * Parse `units:`; keys must be value columns of the form, and a map must give the unit of
+ * every value column the table has (`names`): a column left out would otherwise be read as
+ * SI without anyone having said so (a Π in µV taken for volts is off by 10^6).
+ */
+function parseUnits(config: CoefficientsDatasetConfig, names: readonly string[], n: number, col: (role: string) => string, where: string): Map<string, ParsedUnit> {
   const units = new Map<string, ParsedUnit>();
   const allowed = config.form === "thermoelectric" ? [...THERMOELECTRIC] : n === 2 ? ["L11", "L12", "L21", "L22"] : [];
-  for (const [key, text] of Object.entries(config.units === "SI" ? {} : (config.units ?? {}))) {
+  const onlyTwoByTwo = `units are accepted only for the 2×2 charge–heat matrix (L11 in S K, L12 and L21 in A K, L22 in W K); give the ${n}×${n} entries in SI and drop units`;
+  const map = config.units === "SI" ? {} : (config.units ?? {});
+  for (const [key, text] of Object.entries(map)) {
     if (!allowed.includes(key)) {
       const why =
         allowed.length === 0
-          ? `units are accepted only for the 2×2 charge–heat matrix (L11 in S K, L12 and L21 in A K, L22 in W K); give the ${n}×${n} entries in SI and drop units`
+          ? onlyTwoByTwo
           : `${JSON.stringify(key)} is not a value column of the ${config.form} form; units apply to ${allowed.join(", ")} (u_ columns take the unit of their value column)`;
       throw new ConfigError(`${where}.units.${key}: ${why}`);
     }
     units.set(key, parseUnit(text, key as QuantityKey, `${where}.units.${key}`));
+  }
+  if (config.units === undefined || config.units === "SI") return units;
+  if (allowed.length === 0) throw new ConfigError(`${where}.units: ${onlyTwoByTwo}`);
+  const missing = names.filter((role) => !units.has(role));
+  if (missing.length > 0) {
+    const columns = missing.map((role) => JSON.stringify(col(role))).join(", ");
+    const si = missing.map((role) => `${role} in ${siUnitOf(role as QuantityKey)}`).join(", ");
+    throw new ConfigError(
+      `${where}.units: gives no unit for ${missing.join(", ")} (column${missing.length > 1 ? "s" : ""} ${columns} of ${config.file}); a map of units must give the unit of every coefficient column the table has, so that none is taken for SI unsaid: add ${missing.length > 1 ? "them" : "it"} (in SI: ${si}), or write units: SI when every column is in SI units`,
+    );
   }
   return units;
 }
@@ -247,7 +263,7 @@ export async function loadCoefficients(
 
   const table = await read(requests);
   const { names, n } = valueRoles(config, table, col);
-  const units = parseUnits(config, n, where);
+  const units = parseUnits(config, names, n, col, where);
 
   // Uncertainties: all of the form's value columns, or none.
   const uPresent = names.filter((r) => table.columns.has(col(`u_${r}`)));
@@ -266,19 +282,23 @@ export async function loadCoefficients(
 
   // Per-cell checks: T > 0, u ≥ 0; gathered before failing.
   const problems = newProblemLog();
-  const problem = (i: number, column: string, message: string) => recordProblem(problems, table.lineOfRow[i], column, message);
+  const problem = (i: number, column: string, message: string, found: number) => recordProblem(problems, table.lineOfRow[i], column, message, found);
   const Tcol = "column" in config.temperature ? table.columns.get(String(config.temperature.column))! : null;
   const Tvalue = "value" in config.temperature ? config.temperature.value : Number.NaN;
   for (let i = 0; i < table.rows; i++) {
-    if (Tcol && !(Tcol[i] > 0)) problem(i, String((config.temperature as { column: string | number }).column), `expected a positive temperature in kelvin, found ${Tcol[i]}`);
+    if (Tcol && !(Tcol[i] > 0)) problem(i, String((config.temperature as { column: string | number }).column), "expected a positive temperature in kelvin", Tcol[i]);
     if (hasUncertainties) {
       for (const r of names) {
         const u = table.columns.get(col(`u_${r}`))![i];
-        if (u < 0) problem(i, col(`u_${r}`), `expected a standard uncertainty ≥ 0, found ${u}`);
+        if (u < 0) problem(i, col(`u_${r}`), "expected a standard uncertainty ≥ 0", u);
       }
     }
   }
-  if (problems.count > 0) throw new DataError(formatCellProblems(config.file, problems.problems, MAX_REPORTED_PROBLEMS, problems.count));
+  if (problems.count > 0) {
+    // The cells as the file writes them (text files), on this error path only; the numbers read otherwise.
+    await table.cellTexts?.(problems.problems).catch(() => undefined);
+    throw new DataError(formatCellProblems(config.file, problems.problems, MAX_REPORTED_PROBLEMS, problems.count));
+  }
 
   const si = (role: string, i: number, uncertainty = false): number => {
     const raw = table.columns.get(col(uncertainty ? `u_${role}` : role))![i];

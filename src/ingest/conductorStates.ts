@@ -18,7 +18,7 @@ import type { ConductorStates } from "./types.ts";
 export function stateLabels(values: Float64Array, rows: number, lines: ArrayLike<number>, column: string, problems: ProblemLog): void {
   for (let i = 0; i < rows; i++) {
     const v = values[i];
-    if (!Number.isInteger(v) || Math.abs(v) > 1e9) recordProblem(problems, lines[i], column, `expected an integer state label, found ${v}`);
+    if (!Number.isInteger(v) || Math.abs(v) > 1e9) recordProblem(problems, lines[i], column, "expected an integer state label", v);
   }
 }
 

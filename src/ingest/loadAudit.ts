@@ -9,6 +9,7 @@ import { loadTrace } from "./trace/loadTrace.ts";
 import type { TableReader } from "./readCsv.ts";
 import { layoutSettings } from "./sources/layoutSettings.ts";
 import { readSourceTable } from "./sources/readSourceTable.ts";
+import { writtenCellTexts } from "./cellTexts.ts";
 import type { Dataset, IngestedAudit } from "./types.ts";
 
 export interface IngestOptions {
@@ -19,9 +20,10 @@ export interface IngestOptions {
 /** Whole columns of a dataset's file through the source of its format; the format is kept for the record. */
 function sourceReader(dir: string, config: DatasetConfig, filePath: string, keyPath: string, format: { value: string | null }): TableReader {
   return async (requests) => {
-    const table = await readSourceTable({ filePath, label: config.file, auditDir: dir, keyPath, columns: requests, settings: layoutSettings(config as Parameters<typeof layoutSettings>[0]) });
+    const request = { filePath, label: config.file, auditDir: dir, keyPath, columns: requests, settings: layoutSettings(config as Parameters<typeof layoutSettings>[0]) };
+    const table = await readSourceTable(request);
     format.value = table.format;
-    return table;
+    return table.located === "line" ? { ...table, cellTexts: (problems) => writtenCellTexts(request, problems) } : table;
   };
 }
 

@@ -1,7 +1,7 @@
 import fs from "node:fs";
 import { createHash } from "node:crypto";
-import { CsvError, parse } from "csv-parse";
-import { DataError, formatCellProblems, MAX_REPORTED_PROBLEMS, newProblemLog, recordProblem } from "../errors.ts";
+import { CsvError, parse, type Options as ParseOptions } from "csv-parse";
+import { DataError, formatCellProblems, MAX_REPORTED_PROBLEMS, newProblemLog, recordProblem, type CellProblem } from "../errors.ts";
 import { nearest } from "../config/nearest.ts";
 
 /** A column of a CSV file that a dataset needs, and whether it may be missing. */
@@ -11,8 +11,12 @@ export interface ColumnRequest {
   optional?: boolean;
 }
 
-/** Reads the requested columns of a dataset's file (the ingesters take one, so that every format reaches them). */
-export type TableReader = (requests: ColumnRequest[]) => Promise<NumericTable & { format?: string }>;
+/**
+ * Reads the requested columns of a dataset's file (the ingesters take one, so that every format
+ * reaches them). `cellTexts`, for text files, gives problems about numbers their cells as written
+ * (src/ingest/cellTexts.ts) before an ingester words its message.
+ */
+export type TableReader = (requests: ColumnRequest[]) => Promise<NumericTable & { format?: string; cellTexts?: (problems: CellProblem[]) => Promise<void> }>;
 
 export interface NumericTable {
   sha256: string;
@@ -31,6 +35,25 @@ export interface NumericTable {
  * on would only fill memory.
  */
 export const MAX_LINE_CHARS = 1 << 20;
+
+/**
+ * csv-parse's options for a table as the text readers read it: `#` comments, blank lines
+ * skipped, cells trimmed, each record's line reported, rows of any length (each reader checks
+ * them against the header), a byte-order mark dropped, lines of at most MAX_LINE_CHARS.
+ */
+export function tableParseOptions(delimiter?: string): ParseOptions {
+  return {
+    ...(delimiter === undefined ? {} : { delimiter }),
+    comment: "#",
+    comment_no_infix: true,
+    skip_empty_lines: true,
+    trim: true,
+    info: true,
+    relax_column_count: true,
+    bom: true,
+    max_record_size: MAX_LINE_CHARS,
+  };
+}
 
 /** How much of the start of a file is examined for signs that it is not text. */
 export const SNIFF_BYTES = 64 * 1024;
@@ -258,17 +281,8 @@ export async function readNumericCsv(filePath: string, label: string, requests: 
   const stream = fs.createReadStream(filePath);
   const hash = createHash("sha256");
   stream.on("data", (chunk) => hash.update(chunk));
-  const parser = parse({
-    comment: "#",
-    comment_no_infix: true,
-    skip_empty_lines: true,
-    trim: true,
-    info: true,
-    // Row lengths are checked below against the header once it is read (csv-parse, reading ahead, could report a row before the header reached this loop).
-    relax_column_count: true,
-    bom: true,
-    max_record_size: MAX_LINE_CHARS,
-  });
+  // Row lengths are checked below against the header once it is read (csv-parse, reading ahead, could report a row before the header reached this loop).
+  const parser = parse(tableParseOptions());
   // A read error (the file vanished or became unreadable mid-way) reaches the parser, and so the loop below.
   stream.on("error", (err) => parser.destroy(err));
   stream.pipe(parser);

@@ -11,9 +11,11 @@ import { readSamplesSource, type SamplesReadOptions, type SamplesRows } from "./
 import { listParts } from "./sources/parts.ts";
 import { isSummaryPath } from "./sources/summary/summarySource.ts";
 import { withStatedEnergyUnit } from "./sources/fileEnergyUnit.ts";
+import type { SourceRequest } from "./sources/types.ts";
+import { writtenCellTexts } from "./cellTexts.ts";
 import { confinePath } from "../config/confinePath.ts";
 import { layoutSettings } from "./sources/layoutSettings.ts";
-import { conductorRowsOf, formatRowProblems, logSigmaOverflow, sampleRowsOf, subtractHeldParticles, type SampleRole, type SampleRoles } from "./samplesRows.ts";
+import { conductorRowsOf, formatRowProblems, logSigmaOutOfRange, RowProblemsError, sampleRowsOf, subtractHeldParticles, type SampleRole, type SampleRoles } from "./samplesRows.ts";
 import type { SamplesDataset } from "./types.ts";
 
 function reservoirState(r: SamplesDatasetConfig["reservoirs"]["A"], joules: number): ReservoirState {
@@ -51,7 +53,9 @@ export async function loadSamples(
     );
   }
   const exact = (part: ReduceInput, rows: RawSamples) => exactFields(part, rows, rows.located);
-  const { fields, format } = await readSamplesSource(requests, input, exact, { ...options, partBytes, configurationGrid: parts !== null });
+  const { fields, format } = await readSamplesSource(requests, input, exact, { ...options, partBytes, configurationGrid: parts !== null }).catch(async (err: unknown) => {
+    throw await withCellsAsWritten(err, requests);
+  });
   const stated = `${parts ? `${parts.length} part(s) of ${format}` : format}${unit.statement ? `; ${unit.statement}` : ""}`;
   const finished = withConductorStates(fields, { declared: config.state_distribution, file: config.file, where, startColumn: String(roles.state_start) });
   return { kind: "samples" as const, id: config.id, file: config.file, format: stated, ...base, ...finished };
@@ -83,13 +87,29 @@ export function samplesPlan(config: SamplesDatasetConfig, keyPath: string) {
   const { base, A, B, joules, affinity } = samplesHead(config, where);
   const columns = columnWants(config);
   const settings = layoutSettings(config);
-  const input = { label: config.file, joules, affinity, workZero: config.work === "zero", meanBetaMu: meanBetaMuOf(A, B) };
+  const input = { label: config.file, dataset: config.id, joules, affinity, workZero: config.work === "zero", meanBetaMu: meanBetaMuOf(A, B) };
   return { where, roles, base, A, B, input, columns, settings, conductorHeld: conductorHeld(roles) };
 }
 
 /** Columns in the order audit.yaml maps them (messages list problems in that order). */
 export function columnWants(config: SamplesDatasetConfig): { role: string; column: string | number }[] {
   return Object.entries(config.columns as Record<string, string | number>).map(([role, column]) => ({ role, column }));
+}
+
+/**
+ * A text file's row problems worded again with each cell as the file writes it (read again, on
+ * this error path only); any other error, or a file that cannot be read again, as it was.
+ */
+async function withCellsAsWritten(err: unknown, requests: SourceRequest[]): Promise<unknown> {
+  if (!(err instanceof RowProblemsError) || err.located !== "line") return err;
+  const request = requests.find((r) => r.label === err.label);
+  if (!request) return err;
+  try {
+    await writtenCellTexts(request, err.log.problems);
+  } catch {
+    return err;
+  }
+  return new DataError(formatRowProblems(err.label, err.log, "line"));
 }
 
 /** Raw columns of a whole file (declared units), with each row's line (text) or 1-based row number (binary). */
@@ -153,15 +173,15 @@ function exactFields(input: ReduceInput, table: RawSamples, located: RawSamples[
   const problems = newProblemLog();
   const rows = sampleRowsOf(table.raw, input.roles, input.joules, table.rows, table.lines, problems);
   const conductor = conductorRowsOf(table.raw, input.roles, table.rows, table.lines, problems);
-  if (problems.count > 0) throw new DataError(formatRowProblems(input.label, problems, located));
+  if (problems.count > 0) throw new RowProblemsError(input.label, problems, located);
   const W_data = rows.W_data;
   const W = input.workZero ? new Float64Array(table.rows) : W_data!;
   const realisations = rows.weight ? rows.weight.reduce((a, c) => a + c, 0) : table.rows;
   if (rows.weight && realisations === 0) throw new DataError(`${input.label}: every count in column "${input.roles.count}" is zero; there are no realisations`);
   const dN = conductor?.dN ?? rows.dN ?? new Float64Array(table.rows);
   const sigma = subtractHeldParticles(entropyProduction(input.affinity, W, rows.Q, dN), conductor?.held ?? null, input.meanBetaMu ?? 0);
-  logSigmaOverflow(sigma, table.lines, input.roles.Q ?? input.roles.dE_B!, problems);
-  if (problems.count > 0) throw new DataError(formatRowProblems(input.label, problems, located));
+  logSigmaOutOfRange(sigma, table.lines, input.roles.Q ?? input.roles.dE_B!, problems, input.dataset);
+  if (problems.count > 0) throw new RowProblemsError(input.label, problems, located);
   return {
     sha256: table.sha256,
     rows: table.rows,
@@ -216,7 +236,7 @@ export function samplesFromColumns(
   const roles = config.columns as SampleRoles;
   checkStateRoles(roles, config, where);
   const { base, A, B, joules, affinity } = samplesHead(config, where);
-  const input: ReduceInput = { label: config.file, roles, joules, affinity, workZero: config.work === "zero", meanBetaMu: meanBetaMuOf(A, B) };
+  const input: ReduceInput = { label: config.file, dataset: config.id, roles, joules, affinity, workZero: config.work === "zero", meanBetaMu: meanBetaMuOf(A, B) };
   const fields = exactFields(input, { raw, rows, lines, sha256, located: "row" }, "row");
   const finished = withConductorStates(fields, { declared: config.state_distribution, file: config.file, where, startColumn: String(roles.state_start) });
   return { kind: "samples" as const, id: config.id, file: config.file, format: "trace windows", ...base, ...finished };

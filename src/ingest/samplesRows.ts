@@ -1,6 +1,6 @@
-import { formatCellProblems, formatRowNumberedProblems, MAX_REPORTED_PROBLEMS, recordProblem, type ProblemLog } from "../errors.ts";
+import { DataError, formatCellProblems, formatRowNumberedProblems, MAX_REPORTED_PROBLEMS, recordProblem, type ProblemLog } from "../errors.ts";
 import { describeStoredNumber } from "../messageText.ts";
-import { logNonWholeParticleNumbers } from "./wholeNumber.ts";
+import { isExactWholeNumber, logNonWholeParticleNumbers } from "./wholeNumber.ts";
 import { stateLabels } from "./conductorStates.ts";
 
 /**
@@ -38,6 +38,20 @@ export function formatRowProblems(label: string, problems: ProblemLog, located: 
   return located === "line"
     ? formatCellProblems(label, problems.problems, MAX_REPORTED_PROBLEMS, problems.count)
     : formatRowNumberedProblems(label, problems.problems, problems.count);
+}
+
+/**
+ * A file's row problems, thrown as one DataError; the log is kept so that the loader can
+ * look up the cells of a text file as written (cellTexts.ts) and word the message again.
+ */
+export class RowProblemsError extends DataError {
+  constructor(
+    readonly label: string,
+    readonly log: ProblemLog,
+    readonly located: "line" | "row",
+  ) {
+    super(formatRowProblems(label, log, located));
+  }
 }
 
 /** One chunk of rows in SI (J) with their multiplicities. Arrays are `rows` long. */
@@ -104,8 +118,8 @@ export function sampleRowsOf(
     for (let i = 0; i < rows; i++) {
       const c = weight[i];
       // Above 2^53 consecutive whole numbers are no longer all representable (IEEE 754 binary64).
-      if (c < 0 || !Number.isInteger(c) || c > Number.MAX_SAFE_INTEGER) {
-        recordProblem(problems, lines[i], roles.count!, `expected a count (a whole number from 0 to ${Number.MAX_SAFE_INTEGER}), found ${describeStoredNumber(c)}`);
+      if (c < 0 || !isExactWholeNumber(c)) {
+        recordProblem(problems, lines[i], roles.count!, `expected a count (a whole number from 0 to ${Number.MAX_SAFE_INTEGER})`, c);
       }
     }
   }
@@ -120,12 +134,35 @@ export function sampleRowsOf(
   };
 }
 
-/** The message for a row whose entropy production is beyond double precision. */
-export const SIGMA_OVERFLOW = "the entropy production of this row is beyond double precision (|Σ| above 1.8e308 k_B); check energy_unit and the reservoirs' temperatures";
+/**
+ * The largest |Σ| (k_B) of one realisation that is accepted: 10^6 k_B. A realisation of a small
+ * conductor produces about (particles moved) × (affinity per particle) + (heat)/(k_B T); 10^6 k_B
+ * is a million electrons each at an affinity of 1 k_B in one realisation, far beyond what counting
+ * experiments and transport simulations of dots, wires and junctions record, so a larger value
+ * comes from a wrong energy unit or temperature, or a damaged cell (a corrupted Parquet page gave
+ * Σ of order 10^183). Values between about 700 and 10^6 k_B are real data: e^−Σ leaves double
+ * precision there (IEEE 754 binary64: e^709.78 is the largest double), and the checks that
+ * exponentiate Σ work in log space (integral-fluctuation's ln⟨e^−Σ⟩, the ratios' logarithms).
+ */
+export const SIGMA_LIMIT = 1e6;
 
-/** Log every row whose Σ is not finite (energies so large, or temperatures so small, that it overflows). */
-export function logSigmaOverflow(sigma: ArrayLike<number>, lines: ArrayLike<number>, column: string, problems: ProblemLog): void {
-  for (let i = 0; i < sigma.length; i++) if (!Number.isFinite(sigma[i])) recordProblem(problems, lines[i], column, SIGMA_OVERFLOW);
+/** Whether a realisation's Σ (k_B) is accepted: finite and within ±SIGMA_LIMIT (false for NaN). */
+export function sigmaInRange(sigma: number): boolean {
+  return sigma >= -SIGMA_LIMIT && sigma <= SIGMA_LIMIT;
+}
+
+/** The message for a row whose entropy production is out of range, naming the dataset. */
+export function describeSigmaOutOfRange(sigma: number, dataset: string): string {
+  const fix = "check energy_unit, the reservoirs' temperatures (or β) and chemical potentials, and the row's cells";
+  if (!Number.isFinite(sigma)) {
+    return `dataset "${dataset}": the entropy production of this row is beyond double precision (|Σ| above 1.8e308 k_B); ${fix}`;
+  }
+  return `dataset "${dataset}": the entropy production of this row, Σ = ${sigma.toPrecision(3).replace("e+", "e")} k_B, is beyond ±1e6 k_B, more than any realisation of a small conductor produces (a million electrons at an affinity of 1 k_B each); ${fix}`;
+}
+
+/** Log every row whose Σ is out of range (not finite, or |Σ| above SIGMA_LIMIT). */
+export function logSigmaOutOfRange(sigma: ArrayLike<number>, lines: ArrayLike<number>, column: string, problems: ProblemLog, dataset: string): void {
+  for (let i = 0; i < sigma.length; i++) if (!sigmaInRange(sigma[i])) recordProblem(problems, lines[i], column, describeSigmaOutOfRange(sigma[i], dataset));
 }
 
 /**

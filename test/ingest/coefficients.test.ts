@@ -122,6 +122,24 @@ describe("loadCoefficients, thermoelectric form", () => {
     expect(e.message).toBe('audit.yaml datasets[0].units.T: "T" is not a value column of the thermoelectric form; units apply to G, S, Pi, K (u_ columns take the unit of their value column)');
   });
 
+  it("refuses a units map that omits the Peltier coefficient of a table with a Pi column, naming file, key and role", async () => {
+    // Π in µV read as volts would be 10^6 too large: a map that leaves a column out is refused, not read as SI.
+    const e = await failure(thermo.replace(", Pi: uV", ""), "Vg,B,G,S,Pi,K\n0.1,0,20,-30,-60,4\n");
+    expect(e).toBeInstanceOf(ConfigError);
+    expect(e.message).toBe(
+      'audit.yaml datasets[0].units: gives no unit for Pi (column "Pi" of data/c.csv); a map of units must give the unit of every coefficient column the table has, so that none is taken for SI unsaid: add it (in SI: Pi in V), or write units: SI when every column is in SI units',
+    );
+  });
+
+  it("names the mapped column of a role left out of the units map, and reads the table when Pi is absent", async () => {
+    const e = await failure(`${thermo.replace(", Pi: uV", "")}\n    columns: { Pi: peltier_uV }`, "Vg,B,G,S,peltier_uV,K\n0.1,0,20,-30,-60,4\n");
+    expect(e.message).toMatch(/^audit\.yaml datasets\[0\]\.units: gives no unit for Pi \(column "peltier_uV" of data\/c\.csv\);/);
+    // Without a Pi column Π comes from the Kelvin relation, and G, S and K are all the map must give.
+    const d = await load(thermo.replace(", Pi: uV", ""), "Vg,B,G,S,K\n0.1,0,20,-30,4\n");
+    expect(d.kelvinAssumed).toBe(true);
+    expect(d.units).toEqual({ G: "uS", S: "uV/K", Pi: "SI", K: "pW/K" });
+  });
+
   it("refuses incomplete uncertainty columns", async () => {
     const e = await failure(thermo, "Vg,B,G,S,Pi,K,u_G,u_K\n0.1,0,20,-30,-60,4,1,1\n");
     expect(e.message).toBe("data/c.csv: uncertainty columns are incomplete: found u_G, u_K but not u_S, u_Pi; give a u_ column for every coefficient, or none");
@@ -131,9 +149,10 @@ describe("loadCoefficients, thermoelectric form", () => {
     const ds = `    form: onsager
     temperature: { column: T }
     point: [Vg]`;
-    const e = await failure(ds, "Vg,T,L11,L12,L21,L22,u_L11,u_L12,u_L21,u_L22\n1,4.2,1,0,0,1,0.1,0.1,0.1,0.1\n2,-1,1,0,0,1,0.1,-0.1,0.1,0.1\n");
+    const e = await failure(ds, "Vg,T,L11,L12,L21,L22,u_L11,u_L12,u_L21,u_L22\n1,4.2,1,0,0,1,0.1,0.1,0.1,0.1\n2,-1.0,1,0,0,1,0.1,-1e-1,0.1,0.1\n");
     expect(e).toBeInstanceOf(DataError);
-    expect(e.message).toBe('data/c.csv:3, column "T": expected a positive temperature in kelvin, found -1\ndata/c.csv:3, column "u_L12": expected a standard uncertainty ≥ 0, found -0.1');
+    // The cells as written (-1.0, -1e-1), not the doubles they were read as (-1, -0.1).
+    expect(e.message).toBe('data/c.csv:3, column "T": expected a positive temperature in kelvin, found "-1.0"\ndata/c.csv:3, column "u_L12": expected a standard uncertainty ≥ 0, found "-1e-1"');
   });
 });
 
@@ -165,6 +184,22 @@ describe("loadCoefficients, onsager form", () => {
     const d = await load(`${ds}\n    units: { L11: uS K, L12: nA K, L21: nA*K, L22: pW K }`, "Vg,L11,L12,L21,L22\n0,3,2,2,5\n");
     expect(d.points[0].L).toEqual([[3e-6, 2e-9], [2e-9, 5e-12]]);
     expect(d.units).toEqual({ L11: "uS K", L12: "nA K", L21: "nA*K", L22: "pW K" });
+  });
+
+  it("refuses a units map of the 2×2 matrix that omits entries, listing each with its SI unit", async () => {
+    const e = await failure(`${ds}\n    units: { L11: uS K, L21: nA K }`, "Vg,L11,L12,L21,L22\n0,3,2,2,5\n");
+    expect(e).toBeInstanceOf(ConfigError);
+    expect(e.message).toBe(
+      'audit.yaml datasets[0].units: gives no unit for L12, L22 (columns "L12", "L22" of data/c.csv); a map of units must give the unit of every coefficient column the table has, so that none is taken for SI unsaid: add them (in SI: L12 in A K, L22 in W K), or write units: SI when every column is in SI units',
+    );
+  });
+
+  it("refuses an empty units map for a matrix larger than 2×2, as it refuses any unit there", async () => {
+    const header = "L11,L12,L13,L21,L22,L23,L31,L32,L33";
+    const e = await failure(`${ds.replace("    point: [Vg]", "")}\n    units: {}`, `${header}\n1,0,0,0,1,0,0,0,1\n`);
+    expect(e.message).toBe(
+      "audit.yaml datasets[0].units: units are accepted only for the 2×2 charge–heat matrix (L11 in S K, L12 and L21 in A K, L22 in W K); give the 3×3 entries in SI and drop units",
+    );
   });
 
   it("refuses units for a matrix larger than 2×2", async () => {

@@ -95,8 +95,8 @@ describe("samples with the conductor's states (physics.md §4b)", () => {
   });
 
   it("refuses non-integer state labels with file, line and column", async () => {
-    const e = await rejectedWith(DataError, () => load(ROLES, "ea,eb,na,nb,x0,x1,c\n-1,0,-1,0,0.5,1,4\n"));
-    expect(e.message).toBe('data/dot.csv:2, column "x0": expected an integer state label, found 0.5');
+    const e = await rejectedWith(DataError, () => load(ROLES, "ea,eb,na,nb,x0,x1,c\n-1,0,-1,0,0.50,1,4\n"));
+    expect(e.message).toBe('data/dot.csv:2, column "x0": expected an integer state label, found "0.50"');
   });
 
   it("refuses a declared distribution that misses a state", async () => {

@@ -91,9 +91,9 @@ describe("loadSamples", () => {
   });
 
   it("keeps the work found in the data when work: zero is declared, so that the declaration can be tested", async () => {
-    const d = await load(`    columns: { Q: q, W: w }\n    energy_unit: eV\n    reservoirs: { A: { T: 2 }, B: { T: 1 } }\n    work: zero\n`, "q,w\n1,0.5\n");
+    const d = await load(`    columns: { Q: q, W: w }\n    energy_unit: meV\n    reservoirs: { A: { T: 2 }, B: { T: 1 } }\n    work: zero\n`, "q,w\n1,0.5\n");
     expect(d.W[0]).toBe(0);
-    expectClose(d.W_data![0], 0.5 * EV, { rtol: 1e-15, source: "1 eV = e J (exact)" });
+    expectClose(d.W_data![0], 0.5e-3 * EV, { rtol: 1e-15, source: "1 meV = 10^−3 e J (exact)" });
   });
 });
 
@@ -106,7 +106,7 @@ describe("loadSamples errors name file, row and column", () => {
     const err = await errorOf(`    columns: { Q: q }\n    energy_unit: eV\n    reservoirs: { A: { T: 0.3 }, B: { T: 0.1 } }\n    work: zero\n`, "q\n0.001\n1e305\n");
     expect(err).toBeInstanceOf(DataError);
     expect(err.message).toBe(
-      `data/runs.csv:3, column "q": the entropy production of this row is beyond double precision (|Σ| above 1.8e308 k_B); check energy_unit and the reservoirs' temperatures`,
+      `data/runs.csv:3, column "q": dataset "runs": the entropy production of this row is beyond double precision (|Σ| above 1.8e308 k_B); check energy_unit, the reservoirs' temperatures (or β) and chemical potentials, and the row's cells`,
     );
   });
 
@@ -115,8 +115,8 @@ describe("loadSamples errors name file, row and column", () => {
     expect(err).toBeInstanceOf(DataError);
     expect(err.message).toBe(
       [
-        'data/runs.csv:3, column "c": expected a count (a whole number from 0 to 9007199254740991), found 1.5',
-        'data/runs.csv:4, column "c": expected a count (a whole number from 0 to 9007199254740991), found -1',
+        'data/runs.csv:3, column "c": expected a count (a whole number from 0 to 9007199254740991), found "1.5"',
+        'data/runs.csv:4, column "c": expected a count (a whole number from 0 to 9007199254740991), found "-1"',
       ].join("\n"),
     );
   });

@@ -190,9 +190,9 @@ describe("physically impossible settings", () => {
 
   it("refuses a temperature column with a non-positive cell, naming file, line and column", async () => {
     const yaml = VALID_YAML.replace(/ {2}- id: run-1[\s\S]*/, "  - id: sweep\n    kind: coefficients\n    file: data/c.csv\n    form: onsager\n    temperature: { column: T }\n");
-    const e = await ingestError(auditWith(yaml, { "data/c.csv": "T,L11,L12,L21,L22\n4.2,1,0,0,1\n0,1,0,0,1\n" }));
+    const e = await ingestError(auditWith(yaml, { "data/c.csv": "T,L11,L12,L21,L22\n4.2,1,0,0,1\n0.00,1,0,0,1\n" }));
     expect(e).toBeInstanceOf(DataError);
-    expect(e.message).toBe('data/c.csv:3, column "T": expected a positive temperature in kelvin, found 0');
+    expect(e.message).toBe('data/c.csv:3, column "T": expected a positive temperature in kelvin, found "0.00"');
   });
 
   it("refuses negative uncertainties of coefficients, every bad cell at once", async () => {
@@ -201,7 +201,7 @@ describe("physically impossible settings", () => {
     const e = await ingestError(auditWith(yaml, { "data/c.csv": csv }));
     expect(e).toBeInstanceOf(DataError);
     expect(e.message).toBe(
-      'data/c.csv:3, column "u_L11": expected a standard uncertainty ≥ 0, found -0.1\ndata/c.csv:3, column "u_L22": expected a standard uncertainty ≥ 0, found -0.2',
+      'data/c.csv:3, column "u_L11": expected a standard uncertainty ≥ 0, found "-0.1"\ndata/c.csv:3, column "u_L22": expected a standard uncertainty ≥ 0, found "-0.2"',
     );
   });
 

@@ -165,7 +165,7 @@ describe("cells", () => {
 
   it("refuses a negative and a fractional count, every bad row at once", async () => {
     expect(await dataError("q,n,c\n0.1,1,3\n0.2,0,-2\n0.3,1,2.5\n", HISTOGRAM_YAML)).toBe(
-      ['data/run.csv:3, column "c": expected a count (a whole number from 0 to 9007199254740991), found -2', 'data/run.csv:4, column "c": expected a count (a whole number from 0 to 9007199254740991), found 2.5'].join("\n"),
+      ['data/run.csv:3, column "c": expected a count (a whole number from 0 to 9007199254740991), found "-2"', 'data/run.csv:4, column "c": expected a count (a whole number from 0 to 9007199254740991), found "2.5"'].join("\n"),
     );
   });
 

@@ -3,6 +3,7 @@ import { requireNumericColumns } from "./numericColumns.ts";
 import { planReads } from "./planReads.ts";
 import { readRowRange } from "./readRowRange.ts";
 import { RowProblems } from "./rowProblems.ts";
+import { pageCheckingBuffer } from "./pageChecksums.ts";
 import type { ParquetColumnBatch } from "./types.ts";
 
 /** Rows per batch unless asked otherwise: 2^20 rows, 8 MiB per double column. */
@@ -14,7 +15,8 @@ export const DEFAULT_BATCH_ROWS = 1 << 20;
  * any row is read. Every cell is checked: once a bad cell (null, NaN, ±Infinity, an
  * integer beyond 2^53) is found no further batch is yielded, the rest of the file is
  * still scanned so that all problems are counted, and one DataError lists the first
- * ones (rows counted from 1). A consumer that stops early closes the file.
+ * ones (rows counted from 1). A page whose header records a CRC-32 is checked against it
+ * before it is decoded (pageChecksums.ts). A consumer that stops early closes the file.
  */
 export async function* readParquetColumns(
   filePath: string,
@@ -40,8 +42,9 @@ export async function* readOpenParquetColumns(
     if (!Number.isSafeInteger(batchRows) || batchRows < 1) throw new RangeError(`batchRows must be a positive integer, got ${batchRows}`);
     requireNumericColumns(open.metadata, label, wanted);
     const problems = new RowProblems(label);
+    const checked = { metadata: open.metadata, file: pageCheckingBuffer(open.file, open.metadata, wanted, label) };
     for (const range of planReads(open.metadata, wanted, batchRows)) {
-      const values = await readRowRange(open, label, wanted, range, problems);
+      const values = await readRowRange(checked, label, wanted, range, problems);
       if (problems.total > 0) continue;
       for (let first = range.start; first < range.end; first += batchRows) {
         const last = Math.min(range.end, first + batchRows);

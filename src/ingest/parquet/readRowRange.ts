@@ -1,8 +1,9 @@
-import { parquetRead, type ColumnData } from "hyparquet";
+import { parquetRead, type AsyncBuffer, type ColumnData } from "hyparquet";
 import { compressors } from "hyparquet-compressors";
 import { DataError } from "../../errors.ts";
 import type { OpenParquet } from "./openParquet.ts";
 import { copyAsDoubles, type RowProblems } from "./rowProblems.ts";
+import { PageChecksumMismatch } from "./pageChecksums.ts";
 
 /** A half-open range of 0-based file rows, decoded in one call. */
 export interface RowRange {
@@ -13,10 +14,11 @@ export interface RowRange {
 /**
  * Decode rows [start, end) of the requested columns as doubles. hyparquet hands over
  * whole pages, which may reach outside the range, so each chunk is clipped to it. Bad
- * cells go to `problems`; the values returned for them are meaningless.
+ * cells go to `problems`; the values returned for them are meaningless. `open.file` is
+ * the page-checking buffer (pageChecksums.ts), whose refusal passes through unchanged.
  */
 export async function readRowRange(
-  open: OpenParquet,
+  open: Pick<OpenParquet, "metadata"> & { file: AsyncBuffer },
   label: string,
   columns: readonly string[],
   range: RowRange,
@@ -66,6 +68,7 @@ export async function readRowRange(
       useOffsetIndex: true,
     });
   } catch (err) {
+    if (err instanceof PageChecksumMismatch) throw err;
     throw new DataError(`${label}: cannot decode rows ${start + 1}–${end} of the Parquet file (${(err as Error).message}); the file may be damaged`);
   }
   if (callbackError) throw callbackError;

@@ -80,6 +80,8 @@ const PROBE_BYTES = 1 << 20;
 
 export interface ReduceInput {
   label: string;
+  /** The dataset's id in audit.yaml, for messages. */
+  dataset: string;
   /** Role → the column's name in the file (its header name, or its position without a header). */
   roles: SampleRoles;
   joules: number;
@@ -192,7 +194,7 @@ export function reductionSpec(input: ReduceInput, probe: RowChunk | null, slotOf
   const first = probe;
   const raw: Partial<Record<SampleRole, Float64Array>> = {};
   for (const [role, slot] of Object.entries(slotOfRole)) if (first) raw[role as SampleRole] = first.values[slot!];
-  const sample = first ? reducedColumns(raw, { roles, joules: input.joules, sigma }, first.rows, first.lines, newProblemLog()) : null;
+  const sample = first ? reducedColumns(raw, { roles, joules: input.joules, sigma, dataset: input.dataset }, first.rows, first.lines, newProblemLog()) : null;
   const columnOf = (c: KeyColumn): Float64Array | null => {
     if (sample === null) return null;
     if (c === "betaW") return sample.rows.W_data ? sample.rows.W_data.map((w) => a.beta_bar * w) : null;
@@ -241,6 +243,7 @@ export function reductionSpec(input: ReduceInput, probe: RowChunk | null, slotOf
     sample === null || keyValues.some((v) => v === null) ? 0 : levelForProbe(keyValues as Float64Array[], sample.rows.rows, step0, delay, maxLevel, capacity / 8);
   return {
     label: input.label,
+    dataset: input.dataset,
     roles,
     slotOfRole,
     joules: input.joules,

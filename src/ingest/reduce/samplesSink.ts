@@ -1,13 +1,14 @@
 import { entropyProduction } from "../../physics/entropyProduction.ts";
 import { newProblemLog, type ProblemLog } from "../../errors.ts";
 import { CellTable, type CellTableData, type GridSpec, type RowBlock } from "./cellTable.ts";
-import { conductorRowsOf, logSigmaOverflow, sampleRowsOf, subtractHeldParticles, type SampleRole, type SampleRoles, type SampleRows } from "../samplesRows.ts";
+import { conductorRowsOf, logSigmaOutOfRange, sampleRowsOf, sigmaInRange, subtractHeldParticles, type SampleRole, type SampleRoles, type SampleRows } from "../samplesRows.ts";
 import type { RowChunk, ScanLayout, ScanState } from "../fast/scanLines.ts";
 import { scanFileRange } from "../fast/scanRange.ts";
 
 /** Everything a thread needs to reduce its share of a `samples` file (plain data: it crosses to workers). */
 export interface SamplesReductionSpec {
   label: string;
+  dataset: string;
   roles: SampleRoles;
   /** Slot of each mapped role in the scanner's output. */
   slotOfRole: Partial<Record<SampleRole, number>>;
@@ -124,8 +125,8 @@ export class SamplesReducer {
       const W = ws ? ws[i] * j : 0;
       const dN = ns ? ns[i] : 0;
       const sigma = cW * W + cQ * Q + cN * dN;
-      if (!Number.isFinite(sigma)) {
-        logSigmaOverflow([sigma], [chunk.lines[i]], spec.roles.Q!, this.rowProblems);
+      if (!sigmaInRange(sigma)) {
+        logSigmaOutOfRange([sigma], [chunk.lines[i]], spec.roles.Q!, this.rowProblems, spec.dataset);
         continue;
       }
       if (this.rowProblems.count > 0) continue; // the file is refused; only the problems matter now
@@ -161,7 +162,7 @@ export class SamplesReducer {
  */
 export function reducedColumns(
   raw: Partial<Record<SampleRole, Float64Array>>,
-  spec: Pick<SamplesReductionSpec, "roles" | "joules" | "sigma">,
+  spec: Pick<SamplesReductionSpec, "roles" | "joules" | "sigma" | "dataset">,
   count: number,
   lines: ArrayLike<number>,
   problems: ProblemLog,
@@ -182,7 +183,7 @@ export function reducedColumns(
     state_end: conductor?.end ?? null,
   };
   const sigma = subtractHeldParticles(sigmaOfRows({ ...rows, dN }, spec.sigma), conductor?.held ?? null, spec.sigma.cHeld ?? 0);
-  logSigmaOverflow(sigma, lines, spec.roles.Q ?? spec.roles.dE_B!, problems);
+  logSigmaOutOfRange(sigma, lines, spec.roles.Q ?? spec.roles.dE_B!, problems, spec.dataset);
   return problems.count > 0 ? null : { rows, columns, sigma };
 }
 

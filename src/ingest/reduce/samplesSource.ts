@@ -6,7 +6,7 @@ import { partsDigest } from "../sources/parts.ts";
 import { GrowingColumn } from "../sources/readSourceTable.ts";
 import type { Located, OpenSource, SourceRequest } from "../sources/types.ts";
 import type { RowChunk } from "../fast/scanLines.ts";
-import { formatRowProblems, type SampleRole, type SampleRoles } from "../samplesRows.ts";
+import { RowProblemsError, type SampleRole, type SampleRoles } from "../samplesRows.ts";
 import { mergeCellTables, type CellTableData } from "./cellTable.ts";
 import { PARTS } from "./parallelReduce.ts";
 import { byteRangeSpec, DEFAULT_CELL_CAPACITY, fieldsFromCells, reduceByteRanges, REDUCE_ABOVE_BYTES, reductionSpec, type ReducedFields, type ReduceInput } from "./reduceSamples.ts";
@@ -238,7 +238,7 @@ async function reduceBatches(
     rows += batch.rows;
   }
   if (reducer === null || rows === 0) throw new DataError(`${input.label}: the file has no rows`);
-  if (reducer.rowProblems.count > 0) throw new DataError(formatRowProblems(input.label, reducer.rowProblems, source.located));
+  if (reducer.rowProblems.count > 0) throw new RowProblemsError(input.label, reducer.rowProblems, source.located);
   return { tables: [reducer.table.exportSorted()], rows, sha256: await source.sha256(), spec: reducer.spec };
 }
 

@@ -1,7 +1,7 @@
 import { Readable } from "node:stream";
 import { CsvError, parse } from "csv-parse";
 import { DataError, recordProblem, type ProblemLog } from "../../../errors.ts";
-import { describeCellProblem, describeCsvError, MAX_LINE_CHARS } from "../../readCsv.ts";
+import { describeCellProblem, describeCsvError, tableParseOptions } from "../../readCsv.ts";
 import { CHUNK_ROWS } from "../../fast/scanRange.ts";
 import type { RowChunk, ScanLayout } from "../../fast/scanLines.ts";
 import type { TextDialect } from "./dialect.ts";
@@ -27,15 +27,8 @@ export async function* generalRows(
 ): AsyncGenerator<RowChunk> {
   let skip = fromStart?.skipRecords ?? 0;
   const parser = parse({
-    delimiter: String.fromCharCode(dialect.delimiter),
-    comment: "#",
-    comment_no_infix: true,
-    skip_empty_lines: true,
-    trim: true,
-    info: true,
-    relax_column_count: true,
-    ...(fromStart ? { bom: true } : { record_delimiter: layout.crlf ? "\r\n" : "\n" }),
-    max_record_size: MAX_LINE_CHARS,
+    ...tableParseOptions(String.fromCharCode(dialect.delimiter)),
+    ...(fromStart ? { bom: true } : { bom: false, record_delimiter: layout.crlf ? "\r\n" : "\n" }),
   });
   const input = Readable.from(text);
   input.on("error", (err) => parser.destroy(err));

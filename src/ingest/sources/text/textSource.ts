@@ -57,7 +57,7 @@ async function openText(request: SourceRequest, named: TextFormat | null): Promi
 }
 
 /** The first SNIFF_BYTES of the text (decompressed), and whether that is all of it. */
-async function textHead(fd: number, size: number, compression: Compression, label: string): Promise<{ head: Uint8Array; whole: boolean }> {
+export async function textHead(fd: number, size: number, compression: Compression, label: string): Promise<{ head: Uint8Array; whole: boolean }> {
   if (compression === "none") {
     const head = headOf(fd, Math.min(SNIFF_BYTES, size));
     return { head, whole: head.length >= size };
