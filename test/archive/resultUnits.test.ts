@@ -1,5 +1,5 @@
 /**
- * The `units` map beside each check's `values` (added in this tool version) is
+ * The `units` map beside each check's `values` (added in tool version 0.3.0) is
  * optional in the result schema: result documents frozen by earlier versions,
  * which have none, still validate; a map that is there is checked for the
  * spelling of its units, so that a display unit such as meV (a factor 1.6e-22
@@ -26,12 +26,22 @@ function frozenResults(): { label: string; doc: Record<string, any> }[] {
   return out;
 }
 
+/** Whether release a (major.minor.patch) comes before b. */
+function releaseBefore(a: string, b: string): boolean {
+  const [x, y] = [a, b].map((v) => v.split(".").map(Number));
+  for (let i = 0; i < 3; i++) if (x[i] !== y[i]) return x[i] < y[i];
+  return false;
+}
+
 describe("units in the result schema", () => {
-  it("accepts every frozen demo result of an earlier tool version, none of which has units", () => {
+  it("accepts every frozen demo result, those of tool versions before 0.3.0 without units and the later ones with", () => {
     const frozen = frozenResults();
-    expect(frozen.length).toBeGreaterThan(10);
+    const before = frozen.filter(({ doc }) => releaseBefore(doc.tool.version, "0.3.0"));
+    expect(before.length).toBeGreaterThan(10);
+    expect(frozen.length).toBeGreaterThan(before.length);
     for (const { label, doc } of frozen) {
-      expect(doc.checks.every((c: Record<string, unknown>) => !("units" in c)), label).toBe(true);
+      const early = before.some((b) => b.label === label);
+      expect(doc.checks.every((c: Record<string, unknown>) => ("units" in c) !== early), label).toBe(true);
       expect(() => validateResultDocument(doc, label)).not.toThrow();
     }
   });

@@ -4,6 +4,7 @@ import { normalQuantile } from "../../stats/normal.ts";
 import { solve } from "../../linalg/solve.ts";
 import { datasetsOfKind, fmt, fmtInterval, unresolvedLeadReason } from "../helpers.ts";
 import type { CheckContext, CheckDefinition, CheckResult } from "../types.ts";
+import { dwellSurvivalPlot } from "./dwellPlot.ts";
 
 /**
  * What a detector trace determines when it does not show which lead each
@@ -188,7 +189,7 @@ export function tunnellingRatesForTrace(d: TraceDataset, ctx: CheckContext): Che
         rows: occupation,
       },
     ],
-    plots: [],
+    plots: [dwellSurvivalPlot(d, rates)].filter((p) => p !== null),
   };
 }
 
