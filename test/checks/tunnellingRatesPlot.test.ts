@@ -23,7 +23,7 @@ describe("the dwell-time survival plot", () => {
     ];
     const plot = dwellSurvivalPlot({ states }, jumpRates({ states }, 0.95))!;
     expect(plot.y.scale).toBe("log");
-    const [points, line] = plot.series as [Points, Line];
+    const [points, line] = plot.series as unknown as [Points, Line];
     // The grid ends at the stay that 1 % outlast: index floor(0.99 · 99) = 98, 99 s; 30 points from 0.
     expect(points.x[0]).toBe(0);
     expect(points.x[29]).toBe(99);
@@ -45,7 +45,7 @@ describe("the dwell-time survival plot", () => {
       { label: 0, time: 0, exits: [], dwells: [] },
     ];
     const plot = dwellSurvivalPlot({ states }, jumpRates({ states }, 0.95))!;
-    const [points, line] = plot.series as [Points, Line];
+    const [points, line] = plot.series as unknown as [Points, Line];
     points.y.forEach((fraction, k) => {
       const p = line.y[k];
       // Four binomial standard deviations of a fraction of 4000, plus the estimated rate's own spread
@@ -56,7 +56,7 @@ describe("the dwell-time survival plot", () => {
     // Stays of twice the length, against the rate of the original record, sit far above the line
     // (at Γt = 1.4: e^−0.7 − e^−1.4 = 0.25), far outside that spread.
     const slow = dwellSurvivalPlot({ states: [{ ...states[0], dwells: dwells.map((x) => 2 * x) }] }, jumpRates({ states }, 0.95))!;
-    const [slowPoints, slowLine] = slow.series as [Points, Line];
+    const [slowPoints, slowLine] = slow.series as unknown as [Points, Line];
     expect(Math.max(...slowPoints.y.map((y, k) => y - slowLine.y[k]))).toBeGreaterThan(0.2);
   });
 });
