@@ -2,7 +2,7 @@
 // page-checksum tests. hyparquet-writer (our only Parquet writer here) never fills in
 // PageHeader.crc, so this helper lays the pages out itself and uses hyparquet-writer only for
 // the Thrift serialisation of the page headers, the offset indexes and the footer.
-// The CRCs come from the table-driven CRC-32 of src/ingest/sources/numpy/crc32.ts, a separate
+// The CRCs come from the table-driven CRC-32 of src/ingest/sources/crc32.ts, a separate
 // implementation from the one the reader checks them with (node:zlib's crc32).
 import fs from "node:fs";
 import { ByteWriter } from "hyparquet-writer";
@@ -10,7 +10,7 @@ import { writePageHeader } from "hyparquet-writer/src/datapage.js";
 import { writeMetadata } from "hyparquet-writer/src/metadata.js";
 import { serializeTCompactProtocol } from "hyparquet-writer/src/thrift.js";
 import type { ColumnChunk, FileMetaData, RowGroup } from "hyparquet";
-import { crc32 } from "../../src/ingest/sources/numpy/crc32.ts";
+import { crc32 } from "../../src/ingest/sources/crc32.ts";
 
 export interface ChecksummedLayout {
   rowGroupRows: number;

@@ -3,7 +3,7 @@ import { halfToDouble } from "../../src/ingest/sources/binary/numericType.ts";
 import { npyDtype } from "../../src/ingest/sources/numpy/npyDtype.ts";
 import { parseNpyHeader } from "../../src/ingest/sources/numpy/npyHeader.ts";
 import { parsePythonLiteral, PyDict, PyTuple } from "../../src/ingest/sources/numpy/pythonLiteral.ts";
-import { crc32 } from "../../src/ingest/sources/numpy/crc32.ts";
+import { crc32 } from "../../src/ingest/sources/crc32.ts";
 
 /** A version 1.0 .npy header as numpy.lib.format writes it: magic, version, 2-byte length, dict padded to 64 bytes. */
 function headerV1(dict: string): Uint8Array {

@@ -5,7 +5,7 @@ import zlib from "node:zlib";
 import { afterAll, describe, expect, it } from "vitest";
 import { readParquetColumns, readParquetTable } from "../../src/ingest/parquet/index.ts";
 import { PageChecksumMismatch } from "../../src/ingest/parquet/pageChecksums.ts";
-import { crc32 } from "../../src/ingest/sources/numpy/crc32.ts";
+import { crc32 } from "../../src/ingest/sources/crc32.ts";
 import { rngFromText } from "../../src/stats/rng.ts";
 import { rejectedWith } from "../helpers/thrown.ts";
 import { writeChecksummedParquet, type WrittenPage } from "../helpers/writeChecksummedParquet.ts";

@@ -22,6 +22,7 @@ import { canonicalJson } from "../../src/report/canonicalJson.ts";
 import { runAudit } from "../../src/report/runAudit.ts";
 import { FORMAT_FIXTURES, formatsAudit } from "../helpers/formatsAudit.ts";
 import { writeSamplesParquet } from "../helpers/writeSamplesParquet.ts";
+import { writeChecksummedParquet } from "../helpers/writeChecksummedParquet.ts";
 import { auditFiles } from "./auditFiles.ts";
 
 const work = fs.mkdtempSync(path.join(os.tmpdir(), "rerun-formats-"));
@@ -70,6 +71,19 @@ test("Parquet (hyparquet-writer): the bundle gives run's result document, byte f
   ]);
   const columns = { Q_meV: table.columns.get("Q_meV")!, n: table.columns.get("n")! };
   const dir = await formatsAudit(work, "samples.parquet", NAMED, (target) => writeSamplesParquet(target, columns));
+  const expected = canonicalJson((await runAudit(dir)).result);
+  expect((await bundle.runAuditFromFiles(auditFiles(dir))).json).toBe(expected);
+});
+
+test("Parquet with page CRC-32s (verified on read through zlib.crc32, the shim's in the bundle): the bundle gives run's document", async () => {
+  const table = await readNumericCsv(path.join(FORMAT_FIXTURES, "comma.csv"), "comma.csv", [
+    { role: "Q", column: "Q_meV" },
+    { role: "dN", column: "n" },
+  ]);
+  const columns = { Q_meV: table.columns.get("Q_meV")!, n: table.columns.get("n")! };
+  const dir = await formatsAudit(work, "checksummed.parquet", NAMED, (target) => {
+    writeChecksummedParquet(target, columns, { rowGroupRows: 64, pageRows: 16, offsetIndex: false });
+  });
   const expected = canonicalJson((await runAudit(dir)).result);
   expect((await bundle.runAuditFromFiles(auditFiles(dir))).json).toBe(expected);
 });

@@ -1,5 +1,6 @@
 import { Gunzip as FflateGunzip } from "fflate";
 import { Transform } from "./stream.ts";
+import { crc32 as crc32Update } from "../../../ingest/sources/crc32.ts";
 
 /**
  * `node:zlib` for the browser bundle: the streaming gzip inflater that
@@ -10,23 +11,6 @@ import { Transform } from "./stream.ts";
  * Z_DATA_ERROR for damaged data or a trailer that does not match), which is
  * what fileBytes.ts words its message from.
  */
-
-/** CRC-32 table for the polynomial of RFC 1952 §8 (reflected 0xEDB88320). */
-const CRC_TABLE = (() => {
-  const table = new Int32Array(256);
-  for (let n = 0; n < 256; n++) {
-    let c = n;
-    for (let k = 0; k < 8; k++) c = c & 1 ? 0xedb88320 ^ (c >>> 1) : c >>> 1;
-    table[n] = c;
-  }
-  return table;
-})();
-
-function crc32Update(crc: number, data: Uint8Array): number {
-  let c = crc ^ -1;
-  for (let i = 0; i < data.length; i++) c = CRC_TABLE[(c ^ data[i]) & 255] ^ (c >>> 8);
-  return (c ^ -1) >>> 0;
-}
 
 /** Input bytes kept for reading trailers back: far more than any member header this tool meets (10 bytes and a file name). */
 const KEEP = 1 << 17;
@@ -48,7 +32,7 @@ class GunzipStream extends Transform {
   constructor() {
     super({ highWaterMark: 4 });
     this.inflater = new FflateGunzip((data) => {
-      this.crc = crc32Update(this.crc, data);
+      this.crc = crc32Update(data, this.crc);
       this.size = (this.size + data.length) >>> 0;
       // fflate may hand out a view into its window: copy it before it is overwritten.
       this.push(Buffer.from(data));
@@ -141,4 +125,12 @@ export function createGunzip(_options: { chunkSize?: number } = {}): Transform {
   return new GunzipStream();
 }
 
-export default { createGunzip };
+/**
+ * zlib.crc32(data, value): the CRC-32 of RFC 1952 §8 continued from `value`, which
+ * src/ingest/parquet/pageChecksums.ts checks Parquet pages with (Node ≥ 20.15 has it natively).
+ */
+export function crc32(data: Uint8Array | string, value = 0): number {
+  return crc32Update(typeof data === "string" ? new TextEncoder().encode(data) : data, value);
+}
+
+export default { createGunzip, crc32 };

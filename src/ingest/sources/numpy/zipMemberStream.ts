@@ -1,6 +1,6 @@
 import { Inflate } from "fflate";
 import { FileRangeStream, type ByteStream } from "../binary/byteStream.ts";
-import { crc32 } from "./crc32.ts";
+import { crc32 } from "../crc32.ts";
 import type { ZipMember } from "./zipDirectory.ts";
 
 /** A member's bytes could not be recovered: `produced` bytes came out intact before the damage. */
