@@ -1,5 +1,4 @@
 import { DataError, formatCellProblems, formatRowNumberedProblems, MAX_REPORTED_PROBLEMS, recordProblem, type ProblemLog } from "../errors.ts";
-import { describeStoredNumber } from "../messageText.ts";
 import { isExactWholeNumber, logNonWholeParticleNumbers } from "./wholeNumber.ts";
 import { stateLabels } from "./conductorStates.ts";
 
