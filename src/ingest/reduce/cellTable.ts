@@ -456,9 +456,48 @@ export class CellTable {
     return this.snapshot();
   }
 
-  /** The cells as plain arrays (queued rows added first), sorted by key: what a worker sends, so that the merge is a linear pass. */
+  /**
+   * The cells as plain arrays (queued rows added first), sorted by key: what a
+   * worker sends, so that the merge is a linear pass. Copied from the stores
+   * straight into key order, without the unsorted copy `export` makes (one
+   * more table's worth of fresh memory per worker, about 8 MiB at 10^5 cells);
+   * the queues, empty once settled, are let go first (addRows makes them
+   * again). The same cells and numbers as sorting `export()`.
+   */
   exportSorted(): CellTableData {
-    return sortedByKey(this.spec, this.export());
+    this.settle();
+    this.pending = [];
+    const { dims, stored } = this.spec;
+    const cells = this.size;
+    // Cell c in the stores' order (store by store, record by record, as snapshot numbers them): its key, and its store.
+    const keys = new Float64Array(cells * dims);
+    const storeOf = new Uint16Array(cells);
+    const first = new Int32Array(this.stores.length);
+    let c = 0;
+    this.stores.forEach((store, p) => {
+      first[p] = c;
+      const data = store.data;
+      for (let r = 0; r < store.size; r++, c++) {
+        storeOf[c] = p;
+        for (let d = 0; d < dims; d++) keys[c * dims + d] = data[r * this.stride + d];
+      }
+    });
+    const order = keyOrder(keys, dims, cells);
+    const out = emptyCells(this.level, cells, dims, stored, this.productTotals);
+    for (let to = 0; to < cells; to++) {
+      const from = order[to];
+      const p = storeOf[from];
+      const data = this.stores[p].data;
+      const base = (from - first[p]) * this.stride;
+      for (let d = 0; d < dims; d++) out.keys[to * dims + d] = keys[from * dims + d];
+      out.count[to] = data[base + this.oCount];
+      for (let s = 0; s < stored; s++) out.sums[to * stored + s] = data[base + this.oSums + s];
+      out.sigmaMin[to] = data[base + this.oMin];
+      out.sigmaMax[to] = data[base + this.oMax];
+      out.sigmaRef[to] = data[base + this.oRef];
+      out.expSum[to] = data[base + this.oExp];
+    }
+    return { ...out, sorted: true };
   }
 
   /** The cells as plain arrays, without adding queued rows. */
