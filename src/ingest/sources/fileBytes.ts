@@ -118,10 +118,10 @@ async function* decompressed(fd: number, size: number, compression: Compression,
  * in blocks into one reused buffer. Not through diskBlocks: its consumers may
  * keep the blocks it yields, so it allocates one per block, and fresh memory
  * costs first-touch page faults (about 4 ms per MB here; DEVELOPERS.md "Large
- * data"): hashing a 208 MB file that way cost about 0.3 s more CPU and some
- * 15 MiB more peak memory while the reduction workers ran. Positional reads, so
- * the descriptor's offset is never moved; synchronous ones, as before, which the
- * browser bundle's file system offers too.
+ * data"): hashing a 208 MB file that way cost about 0.3 s more CPU while the
+ * reduction workers ran. Positional reads, so the descriptor's offset is never
+ * moved; synchronous ones, as before, which the browser bundle's file system
+ * offers too.
  */
 export async function sha256OfDescriptor(fd: number, size: number): Promise<string> {
   const hash = createHash("sha256");
