@@ -25,7 +25,8 @@ export interface RangeJob {
  */
 export const PARTS = 2;
 
-let bundled: Promise<string | null> | null = null;
+/** Each worker entry's bundle, once per process (keyed by the entry's path). */
+const bundled = new Map<string, Promise<string | null>>();
 
 /** esbuild's loader for each kind of module the worker may import. */
 const LOADERS: Record<string, "ts" | "js" | "json"> = { ".ts": "ts", ".mts": "ts", ".cts": "ts", ".js": "js", ".mjs": "js", ".cjs": "js", ".json": "json" };
@@ -69,10 +70,10 @@ export function privateBundleDir(base = os.tmpdir()): string | null {
  * without waiting for esbuild, when none of those modules changed. Null
  * without a private folder.
  */
-function bundleIndexFile(dir = privateBundleDir()): string | null {
+function bundleIndexFile(dir = privateBundleDir(), entry = WORKER_ENTRY, name = "reduce-worker"): string | null {
   if (dir === null) return null;
-  const id = createHash("sha256").update(WORKER_ENTRY).digest("hex").slice(0, 16);
-  return path.join(dir, `transport-audit-reduce-worker-index-${id}.json`);
+  const id = createHash("sha256").update(entry).digest("hex").slice(0, 16);
+  return path.join(dir, `transport-audit-${name}-index-${id}.json`);
 }
 
 export interface BundleIndex {
@@ -122,11 +123,12 @@ export function cachedWorkerBundle(indexFile = bundleIndexFile()): string | null
  * it is when none of its modules changed (cachedWorkerBundle), sparing the
  * 70–110 ms esbuild takes. Null when bundling is not possible (then tsx is used).
  */
-export function workerBundle(): Promise<string | null> {
+export function workerBundle(entry = WORKER_ENTRY, name = "reduce-worker"): Promise<string | null> {
   if (RUNNING_COMPILED) return Promise.resolve(null); // the compiled worker.js starts as fast as a bundle
-  const cached = bundled === null ? cachedWorkerBundle() : null;
-  if (cached !== null) bundled = Promise.resolve(cached);
-  bundled ??= (async () => {
+  const known = bundled.get(entry);
+  if (known) return known;
+  const cached = cachedWorkerBundle(bundleIndexFile(undefined, entry, name));
+  const made: Promise<string | null> = cached !== null ? Promise.resolve(cached) : (async () => {
     try {
       const esbuild = await import("esbuild");
       // Every module is read here, so that the index records the digest of the very bytes bundled.
@@ -143,7 +145,7 @@ export function workerBundle(): Promise<string | null> {
         },
       };
       const out = await esbuild.build({
-        entryPoints: [WORKER_ENTRY],
+        entryPoints: [entry],
         plugins: [recordInputs],
         bundle: true,
         platform: "node",
@@ -156,17 +158,17 @@ export function workerBundle(): Promise<string | null> {
       if (dir === null) return null;
       const code = out.outputFiles[0].contents;
       const digest = createHash("sha256").update(code).digest("hex").slice(0, 16);
-      const file = path.join(dir, `transport-audit-reduce-worker-${digest}.mjs`);
+      const file = path.join(dir, `transport-audit-${name}-${digest}.mjs`);
       // A temporary name of this process and thread: build workers may bundle at the same time.
       const temp = `.${process.pid}.${threadId}.tmp`;
       if (!fs.existsSync(file)) {
         fs.writeFileSync(file + temp, code);
         fs.renameSync(file + temp, file);
-        removeStaleBundles(path.basename(file), dir);
+        removeStaleBundles(path.basename(file), dir, name);
       }
       read.sort((a, b) => (a.path < b.path ? -1 : a.path > b.path ? 1 : 0));
       const index: BundleIndex = { bundle: file, inputs: read.map((r) => r.path), digest: digestOfContents(read) };
-      const indexFile = bundleIndexFile(dir)!;
+      const indexFile = bundleIndexFile(dir, entry, name)!;
       fs.writeFileSync(indexFile + temp, JSON.stringify(index));
       fs.renameSync(indexFile + temp, indexFile);
       return file;
@@ -174,7 +176,8 @@ export function workerBundle(): Promise<string | null> {
       return null;
     }
   })();
-  return bundled;
+  bundled.set(entry, made);
+  return made;
 }
 
 /** Bundles of other code versions untouched for this long are removed when a new one is written. */
@@ -185,12 +188,13 @@ const STALE_BUNDLE_MS = 7 * 24 * 3600 * 1000;
  * (one per version of the worker's code), except `keep` and any used in the
  * last week: a process of an older version may still be starting workers on its own.
  */
-export function removeStaleBundles(keep: string, dir: string): void {
+export function removeStaleBundles(keep: string, dir: string, name = "reduce-worker"): void {
   try {
     const now = Date.now();
-    for (const name of fs.readdirSync(dir)) {
-      if (name === keep || !/^transport-audit-reduce-worker-[0-9a-f]{16}\.mjs$/.test(name)) continue;
-      const file = path.join(dir, name);
+    const ofThisWorker = new RegExp(`^transport-audit-${name}-[0-9a-f]{16}\\.mjs$`);
+    for (const entry of fs.readdirSync(dir)) {
+      if (entry === keep || !ofThisWorker.test(entry)) continue;
+      const file = path.join(dir, entry);
       const stat = fs.statSync(file);
       if (now - Math.max(stat.atimeMs, stat.mtimeMs) > STALE_BUNDLE_MS) fs.rmSync(file, { force: true });
     }
