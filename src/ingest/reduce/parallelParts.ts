@@ -31,13 +31,15 @@ export const PARTS_THREADS_ENV = "TRANSPORT_AUDIT_PARTS_THREADS";
 
 /**
  * Below this many bytes of parts in all, the parts are read in this thread.
- * A worker costs some 50–100 ms to start on this machine class (more from
- * the sources through tsx), while the readers take parts at roughly 20–100
- * MB/s (text, Parquet, HDF5, NumPy): under 32 MiB the whole dataset reads in
- * well under a second and the workers' start-up would eat what they save
- * (bench/partsRead.bench.ts, DEVELOPERS.md "Ingestion").
+ * Each worker starts cold: it loads the readers and their packages and its
+ * JIT warms up on its own parts, which cost about half a second to a second
+ * here before it pays back (bench/partsRead.bench.ts, 8 Parquet parts, two
+ * threads on two cores): 1.3 MB took 0.13 s in turn against 0.5–0.7 s on
+ * workers, 40 MB 0.67 s against 1.56 s (whole rows) and 1.04 s against 1.51 s
+ * (summarised), 134 MB 3.76 s against 2.35 s and 8.5 s against 6.2 s. The
+ * gains cross zero near 60–80 MB; 96 MiB leaves a margin for a busier machine.
  */
-export const PARALLEL_PARTS_FROM_BYTES = 32 << 20;
+export const PARALLEL_PARTS_FROM_BYTES = 96 << 20;
 
 /** One part to read, as the worker receives it. */
 export interface PartJob {
@@ -114,7 +116,7 @@ export function partsThreads(parts: number, bytes: number, options: { partsThrea
 /** Start a worker on the bundle of partsWorker.ts, or through tsx's loader when there is none. */
 async function startPartsWorker(): Promise<Worker> {
   const script = new URL("./partsWorker.ts", import.meta.url);
-  const bundle = script.protocol === "file:" && script.pathname.endsWith(".ts") ? await workerBundle(fileURLToPath(script), "parts-worker") : null;
+  const bundle = script.protocol === "file:" && script.pathname.endsWith(".ts") ? await workerBundle(fileURLToPath(script), "parts-worker", { packagesOutside: true }) : null;
   if (bundle) return new Worker(bundle);
   return startTsWorker(new URL("./partsWorker.ts", import.meta.url));
 }
