@@ -25,7 +25,8 @@ export interface RangeJob {
  */
 export const PARTS = 2;
 
-let bundled: Promise<string | null> | null = null;
+/** Each worker entry's bundle, once per process (keyed by the entry's path). */
+const bundled = new Map<string, Promise<string | null>>();
 
 /** esbuild's loader for each kind of module the worker may import. */
 const LOADERS: Record<string, "ts" | "js" | "json"> = { ".ts": "ts", ".mts": "ts", ".cts": "ts", ".js": "js", ".mjs": "js", ".cjs": "js", ".json": "json" };
@@ -69,10 +70,11 @@ export function privateBundleDir(base = os.tmpdir()): string | null {
  * without waiting for esbuild, when none of those modules changed. Null
  * without a private folder.
  */
-function bundleIndexFile(dir = privateBundleDir()): string | null {
+function bundleIndexFile(dir = privateBundleDir(), entry = WORKER_ENTRY, name = "reduce-worker", variant = ""): string | null {
   if (dir === null) return null;
-  const id = createHash("sha256").update(WORKER_ENTRY).digest("hex").slice(0, 16);
-  return path.join(dir, `transport-audit-reduce-worker-index-${id}.json`);
+  // The way it is bundled is part of the name: a bundle made another way is another file.
+  const id = createHash("sha256").update(entry + variant).digest("hex").slice(0, 16);
+  return path.join(dir, `transport-audit-${name}-index-${id}.json`);
 }
 
 export interface BundleIndex {
@@ -122,11 +124,13 @@ export function cachedWorkerBundle(indexFile = bundleIndexFile()): string | null
  * it is when none of its modules changed (cachedWorkerBundle), sparing the
  * 70–110 ms esbuild takes. Null when bundling is not possible (then tsx is used).
  */
-export function workerBundle(): Promise<string | null> {
+export function workerBundle(entry = WORKER_ENTRY, name = "reduce-worker", options: { packagesOutside?: boolean } = {}): Promise<string | null> {
   if (RUNNING_COMPILED) return Promise.resolve(null); // the compiled worker.js starts as fast as a bundle
-  const cached = bundled === null ? cachedWorkerBundle() : null;
-  if (cached !== null) bundled = Promise.resolve(cached);
-  bundled ??= (async () => {
+  const known = bundled.get(entry);
+  if (known) return known;
+  const variant = options.packagesOutside ? "\0packages-outside" : "";
+  const cached = cachedWorkerBundle(bundleIndexFile(undefined, entry, name, variant));
+  const made: Promise<string | null> = cached !== null ? Promise.resolve(cached) : (async () => {
     try {
       const esbuild = await import("esbuild");
       // Every module is read here, so that the index records the digest of the very bytes bundled.
@@ -142,31 +146,65 @@ export function workerBundle(): Promise<string | null> {
           });
         },
       };
+      // Installed packages imported by the file URL this process resolves them to (the bundle lies
+      // outside the package, where a bare name would not resolve): the bundle stays our code alone, and
+      // a format's reader loads, as from the sources, only when a file of its format is opened.
+      const packagesByPath = {
+        name: "packages-by-path",
+        setup(build: import("esbuild").PluginBuild) {
+          build.onResolve({ filter: /^[^./]/ }, (args) => {
+            if (args.path.startsWith("node:") || args.importer.split(path.sep).includes("node_modules")) return undefined;
+            return { path: import.meta.resolve(args.path), external: true };
+          });
+        },
+      };
+      // With packages outside, code split at each import(): a format's reader, and the packages it
+      // imports, then load only when a file of that format is opened (an esbuild bundle of one file
+      // would import them all on start; h5wasm alone takes a third of a second). The bundle is then a
+      // folder: its entry and the chunks it imports.
+      const split = options.packagesOutside === true;
+      const virtualOut = path.join(os.tmpdir(), "transport-audit-bundle-out");
       const out = await esbuild.build({
-        entryPoints: [WORKER_ENTRY],
-        plugins: [recordInputs],
+        entryPoints: [entry],
+        plugins: split ? [packagesByPath, recordInputs] : [recordInputs],
         bundle: true,
         platform: "node",
         format: "esm",
         target: "node20",
         write: false,
         logLevel: "silent",
+        ...(split ? { splitting: true, outdir: virtualOut, entryNames: "entry", chunkNames: "chunk-[hash]", outExtension: { ".js": ".mjs" } } : {}),
       });
       const dir = privateBundleDir();
       if (dir === null) return null;
-      const code = out.outputFiles[0].contents;
-      const digest = createHash("sha256").update(code).digest("hex").slice(0, 16);
-      const file = path.join(dir, `transport-audit-reduce-worker-${digest}.mjs`);
+      const outputs = out.outputFiles
+        .map((f) => ({ path: split ? path.relative(virtualOut, f.path) : "", bytes: f.contents }))
+        .sort((a, b) => (a.path < b.path ? -1 : a.path > b.path ? 1 : 0));
+      const digest = digestOfContents(outputs).slice(0, 16);
       // A temporary name of this process and thread: build workers may bundle at the same time.
       const temp = `.${process.pid}.${threadId}.tmp`;
-      if (!fs.existsSync(file)) {
-        fs.writeFileSync(file + temp, code);
+      let file = path.join(dir, `transport-audit-${name}-${digest}.mjs`);
+      if (split) {
+        const folder = path.join(dir, `transport-audit-${name}-${digest}`);
+        file = path.join(folder, "entry.mjs");
+        if (!fs.existsSync(file)) {
+          fs.mkdirSync(folder + temp, { recursive: true, mode: 0o700 });
+          for (const o of outputs) fs.writeFileSync(path.join(folder + temp, o.path), o.bytes);
+          try {
+            fs.renameSync(folder + temp, folder);
+          } catch {
+            fs.rmSync(folder + temp, { recursive: true, force: true }); // another process put the same bundle there first
+          }
+          removeStaleBundles(path.basename(folder), dir, name);
+        }
+      } else if (!fs.existsSync(file)) {
+        fs.writeFileSync(file + temp, outputs[0].bytes);
         fs.renameSync(file + temp, file);
-        removeStaleBundles(path.basename(file), dir);
+        removeStaleBundles(path.basename(file), dir, name);
       }
       read.sort((a, b) => (a.path < b.path ? -1 : a.path > b.path ? 1 : 0));
       const index: BundleIndex = { bundle: file, inputs: read.map((r) => r.path), digest: digestOfContents(read) };
-      const indexFile = bundleIndexFile(dir)!;
+      const indexFile = bundleIndexFile(dir, entry, name, variant)!;
       fs.writeFileSync(indexFile + temp, JSON.stringify(index));
       fs.renameSync(indexFile + temp, indexFile);
       return file;
@@ -174,7 +212,8 @@ export function workerBundle(): Promise<string | null> {
       return null;
     }
   })();
-  return bundled;
+  bundled.set(entry, made);
+  return made;
 }
 
 /** Bundles of other code versions untouched for this long are removed when a new one is written. */
@@ -185,14 +224,16 @@ const STALE_BUNDLE_MS = 7 * 24 * 3600 * 1000;
  * (one per version of the worker's code), except `keep` and any used in the
  * last week: a process of an older version may still be starting workers on its own.
  */
-export function removeStaleBundles(keep: string, dir: string): void {
+export function removeStaleBundles(keep: string, dir: string, name = "reduce-worker"): void {
   try {
     const now = Date.now();
-    for (const name of fs.readdirSync(dir)) {
-      if (name === keep || !/^transport-audit-reduce-worker-[0-9a-f]{16}\.mjs$/.test(name)) continue;
-      const file = path.join(dir, name);
+    // A bundle is a file, or a folder of an entry and its chunks (packagesOutside).
+    const ofThisWorker = new RegExp(`^transport-audit-${name}-[0-9a-f]{16}(\\.mjs)?$`);
+    for (const entry of fs.readdirSync(dir)) {
+      if (entry === keep || !ofThisWorker.test(entry)) continue;
+      const file = path.join(dir, entry);
       const stat = fs.statSync(file);
-      if (now - Math.max(stat.atimeMs, stat.mtimeMs) > STALE_BUNDLE_MS) fs.rmSync(file, { force: true });
+      if (now - Math.max(stat.atimeMs, stat.mtimeMs) > STALE_BUNDLE_MS) fs.rmSync(file, { recursive: true, force: true });
     }
   } catch {
     // Tidying only: a folder that cannot be listed or a file another process removed is no error.

@@ -9,6 +9,7 @@ import type { RowChunk } from "../fast/scanLines.ts";
 import { RowProblemsError, type SampleRole, type SampleRoles } from "../samplesRows.ts";
 import { mergeCellTables, type CellTableData } from "./cellTable.ts";
 import { PARTS } from "./parallelReduce.ts";
+import { partsThreads, readPart, readPartsOnWorkers, type PartJob, type PartRead } from "./parallelParts.ts";
 import { byteRangeSpec, DEFAULT_CELL_CAPACITY, fieldsFromCells, reduceByteRanges, REDUCE_ABOVE_BYTES, reductionSpec, type ReducedFields, type ReduceInput } from "./reduceSamples.ts";
 import { SamplesReducer, type SamplesReductionSpec } from "./samplesSink.ts";
 
@@ -30,8 +31,15 @@ export interface SamplesReadOptions {
   reduceAboveBytes?: number;
   /** Most cells a reduced dataset keeps; default DEFAULT_CELL_CAPACITY. */
   cellCapacity?: number;
-  /** Use worker threads for large plain text files (default true; false gives the same result in this thread). */
+  /** Use worker threads for large plain text files and for the parts of a dataset (default true; false gives the same result in this thread). */
   threads?: boolean;
+  /**
+   * Worker threads reading the parts of a multi-part dataset (parallelParts.ts):
+   * given, it is used whatever the parts' sizes (1: one after another in this
+   * thread); by default TRANSPORT_AUDIT_PARTS_THREADS, else one a core (at most
+   * four) for datasets of PARALLEL_PARTS_FROM_BYTES or more. The result is the same.
+   */
+  partsThreads?: number;
   /** Bytes of the file processed so far, and its size. */
   onBytes?: (done: number, total: number) => void;
   /**
@@ -93,51 +101,74 @@ export async function readSamplesSource(
   const check = new SummaryPairs(requests);
   let rows = 0;
   let pieces = 0;
-  for (let k = 0; k < requests.length; k++) {
-    if (k > 0) source = await openPart(requests[k]);
-    try {
-      const label = requests[k].label;
-      if (k > 0 && source.available.join("\u0000") !== first.available.join("\u0000")) {
-        throw new DataError(
-          `${label}: its columns (${quoted(source.available)}) differ from those of ${first.label} (${quoted(first.available)}); every part of a multi-part dataset needs the same columns`,
-        );
+  /** Every part must have the first part's columns and format. */
+  const checkLikeFirst = (k: number, available: string[], partFormat: string) => {
+    const label = requests[k].label;
+    if (k > 0 && available.join("\u0000") !== first.available.join("\u0000")) {
+      throw new DataError(
+        `${label}: its columns (${quoted(available)}) differ from those of ${first.label} (${quoted(first.available)}); every part of a multi-part dataset needs the same columns`,
+      );
+    }
+    if (k > 0 && partFormat !== format) {
+      throw new DataError(`${label}: is ${partFormat}, but ${first.label} is ${format}; every part of a multi-part dataset has one format`);
+    }
+  };
+  const takeRows = (k: number, read: SamplesRows) => {
+    exactParts.push(exact({ ...full, label: requests[k].label }, read));
+    digests.push(read.sha256);
+  };
+  const takeCells = (k: number, done: PartCells) => {
+    spec = done.spec;
+    check.rawRead(requests[k], done.sha256);
+    tables.push(...done.tables);
+    rows += done.rows;
+    pieces += done.pieces;
+    digests.push(done.sha256);
+  };
+  const threads = summaries === 0 && (!large || spec !== null) ? partsThreads(requests.length, total, options) : 1;
+  if (threads >= 2) {
+    // Raw parts only, on a grid known before any is read: every part is read alike, on the workers (part 0 too).
+    await source.close();
+    const job = (k: number): PartJob => ({ request: requests[k], mode: large ? "cells" : "rows", part: { ...full, label: requests[k].label }, wantOfRole, spec, cellCapacity: options.cellCapacity });
+    const jobs = requests.map((_, k) => job(k));
+    const sizes = options.partBytes ?? requests.map(() => 0);
+    let bytesRead = 0;
+    const reads = await readPartsOnWorkers(jobs, threads, (k) => options.onBytes?.((bytesRead += sizes[k]), total));
+    for (let k = 0; k < requests.length; k++) {
+      // A part no worker read (it failed there) is read here: its error is then the sequential reading's own.
+      const read: PartRead = reads[k] ?? (await readPart(jobs[k], (available, partFormat) => checkLikeFirst(k, available, partFormat)));
+      checkLikeFirst(k, read.available, read.format);
+      if (read.rows) takeRows(k, read.rows);
+      else takeCells(k, read.cells!);
+    }
+  } else {
+    for (let k = 0; k < requests.length; k++) {
+      if (k > 0) source = await openPart(requests[k]);
+      try {
+        checkLikeFirst(k, source.available, source.format);
+        if ("summary" in source) {
+          const { summary } = source;
+          const label = requests[k].label;
+          checkSummaryGrid(summary, spec!, label);
+          check.summaryRead(requests[k], summary.source.sha256);
+          tables.push(...summary.tables);
+          rows += summary.rows;
+          pieces += summary.pieces;
+          digests.push(await source.sha256());
+          continue;
+        }
+        if (check.hasSummary(requests[k])) {
+          // Its summary, next in part order, supplies the cells; the part is only hashed, to be compared.
+          const sha256 = await digestOfPart(requests[k]);
+          check.rawRead(requests[k], sha256);
+          digests.push(sha256);
+          continue;
+        }
+        if (!large) takeRows(k, await wholeRows(source, requests[k]));
+        else takeCells(k, await reducePart({ ...full, label: requests[k].label }, source, wantOfRole, spec, options));
+      } finally {
+        await source.close();
       }
-      if (k > 0 && source.format !== format) {
-        throw new DataError(`${label}: is ${source.format}, but ${first.label} is ${format}; every part of a multi-part dataset has one format`);
-      }
-      const part = { ...full, label };
-      if ("summary" in source) {
-        const { summary } = source;
-        checkSummaryGrid(summary, spec!, label);
-        check.summaryRead(requests[k], summary.source.sha256);
-        tables.push(...summary.tables);
-        rows += summary.rows;
-        pieces += summary.pieces;
-        digests.push(await source.sha256());
-        continue;
-      }
-      if (check.hasSummary(requests[k])) {
-        // Its summary, next in part order, supplies the cells; the part is only hashed, to be compared.
-        const sha256 = await digestOfPart(requests[k]);
-        check.rawRead(requests[k], sha256);
-        digests.push(sha256);
-        continue;
-      }
-      if (!large) {
-        const read = await wholeRows(source, requests[k]);
-        exactParts.push(exact(part, read));
-        digests.push(read.sha256);
-        continue;
-      }
-      const done = await reducePart(part, source, wantOfRole, spec, options);
-      spec = done.spec;
-      check.rawRead(requests[k], done.sha256);
-      tables.push(...done.tables);
-      rows += done.rows;
-      pieces += done.pieces;
-      digests.push(done.sha256);
-    } finally {
-      await source.close();
     }
   }
   const sha256 = requests.length === 1 ? digests[0] : partsDigest(requests.map((r, k) => ({ path: r.label, sha256: digests[k] })));
@@ -200,7 +231,7 @@ function quoted(names: string[]): string {
 }
 
 /** Every row of a source, as raw columns by role. */
-async function wholeRows(source: OpenSource, request: SourceRequest): Promise<SamplesRows> {
+export async function wholeRows(source: OpenSource, request: SourceRequest): Promise<SamplesRows> {
   const columns = request.columns.map(() => new GrowingColumn((n) => new Float64Array(n)));
   const lines = new GrowingColumn((n) => new Uint32Array(n));
   for await (const batch of source.batches()) {
