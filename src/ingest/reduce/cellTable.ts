@@ -487,15 +487,7 @@ export class CellTable {
     for (let to = 0; to < cells; to++) {
       const from = order[to];
       const p = storeOf[from];
-      const data = this.stores[p].data;
-      const base = (from - first[p]) * this.stride;
-      for (let d = 0; d < dims; d++) out.keys[to * dims + d] = keys[from * dims + d];
-      out.count[to] = data[base + this.oCount];
-      for (let s = 0; s < stored; s++) out.sums[to * stored + s] = data[base + this.oSums + s];
-      out.sigmaMin[to] = data[base + this.oMin];
-      out.sigmaMax[to] = data[base + this.oMax];
-      out.sigmaRef[to] = data[base + this.oRef];
-      out.expSum[to] = data[base + this.oExp];
+      this.copyRecord(this.stores[p].data, (from - first[p]) * this.stride, out, to);
     }
     return { ...out, sorted: true };
   }
@@ -506,19 +498,21 @@ export class CellTable {
     const out = emptyCells(this.level, this.size, dims, stored, this.productTotals);
     let c = 0;
     for (const store of this.stores) {
-      const data = store.data;
-      for (let r = 0; r < store.size; r++, c++) {
-        const base = r * this.stride;
-        for (let d = 0; d < dims; d++) out.keys[c * dims + d] = data[base + d];
-        out.count[c] = data[base + this.oCount];
-        for (let s = 0; s < stored; s++) out.sums[c * stored + s] = data[base + this.oSums + s];
-        out.sigmaMin[c] = data[base + this.oMin];
-        out.sigmaMax[c] = data[base + this.oMax];
-        out.sigmaRef[c] = data[base + this.oRef];
-        out.expSum[c] = data[base + this.oExp];
-      }
+      for (let r = 0; r < store.size; r++, c++) this.copyRecord(store.data, r * this.stride, out, c);
     }
     return out;
+  }
+
+  /** The record at `base` of a store's data (key, count, sums, Σ range and reference, exponential sum) into cell `to` of `out`. */
+  private copyRecord(data: Float64Array, base: number, out: CellTableData, to: number): void {
+    const { dims, stored } = this.spec;
+    for (let d = 0; d < dims; d++) out.keys[to * dims + d] = data[base + d];
+    out.count[to] = data[base + this.oCount];
+    for (let s = 0; s < stored; s++) out.sums[to * stored + s] = data[base + this.oSums + s];
+    out.sigmaMin[to] = data[base + this.oMin];
+    out.sigmaMax[to] = data[base + this.oMax];
+    out.sigmaRef[to] = data[base + this.oRef];
+    out.expSum[to] = data[base + this.oExp];
   }
 }
 
