@@ -21,6 +21,13 @@ import { exp, log } from "../math/index.ts";
  *
  * Kish's effective sample size (Σ w e)²/Σ w e² (L. Kish, Survey Sampling
  * (1965)) measures the same concentration directly on the data.
+ *
+ * Windows cut from one trace are not independent realisations: neighbours
+ * share the conductor's state. Every count above is then divided by the
+ * statistical inefficiency g = 1 + 2 Σ_k ρ_k (windows per independent
+ * realisation; the variance of a mean of N correlated windows is g σ²/N:
+ * Sokal, NATO ASI Ser. B 361, 131 (1997), whose τ_int is g/2; from memory),
+ * so that a trace of N windows counts as N/g realisations, not N.
  */
 export const MIN_MIRROR_REALISATIONS = 10;
 export const MIN_EFFECTIVE_SAMPLE = 30;
@@ -29,7 +36,10 @@ export const MAX_TAIL_SHAPE = 0.7;
 
 export interface ExponentialConvergence {
   meanSigma: number;
+  /** ln of the number of independent realisations, N/g. */
   logN: number;
+  /** Windows per independent realisation g (1 for independent realisations). */
+  inefficiency: number;
   /** Realisations (total weight) with Σ ≤ −⟨Σ⟩. */
   mirrorCount: number;
   effectiveSampleSize: number;
@@ -39,7 +49,9 @@ export interface ExponentialConvergence {
   reason?: string;
 }
 
-export function exponentialConvergence(sigma: ArrayLike<number>, weight: ArrayLike<number> | null): ExponentialConvergence {
+export function exponentialConvergence(sigma: ArrayLike<number>, weight: ArrayLike<number> | null, inefficiency = 1): ExponentialConvergence {
+  // Below 1 (anticorrelated neighbours) the windows are not counted as more than they are.
+  const g = Number.isFinite(inefficiency) && inefficiency > 1 ? inefficiency : 1;
   let n = 0;
   let sum = 0;
   for (let i = 0; i < sigma.length; i++) {
@@ -62,22 +74,30 @@ export function exponentialConvergence(sigma: ArrayLike<number>, weight: ArrayLi
     s2 += w * e * e;
     if (sigma[i] <= -meanSigma) mirror += w;
   }
-  const effectiveSampleSize = (s1 * s1) / s2;
+  const effectiveSampleSize = (s1 * s1) / s2 / g;
+  const independentMirror = mirror / g;
   const expMinus = new Float64Array(sigma.length);
   for (let i = 0; i < sigma.length; i++) expMinus[i] = exp(-sigma[i] - shift);
   const tailShape = hillTailShape(expMinus, weight);
-  const logN = log(n);
+  const logN = log(n / g);
+  const correlated = g > 1;
+  // "ln(N/g) = 5.74 (N = 1000 windows, g = 3.2 windows per independent realisation)"
+  const nText = correlated ? `ln(N/g) = ${logN.toPrecision(3)} (N = ${n} windows, g = ${g.toPrecision(2)} windows per independent realisation)` : `ln N = ${logN.toPrecision(3)}`;
   const reasons: string[] = [];
   if (meanSigma >= logN) {
     reasons.push(
-      `⟨Σ⟩ = ${meanSigma.toPrecision(3)} k_B is not below ln N = ${logN.toPrecision(3)}: about e^⟨Σ⟩ ≈ ${exp(meanSigma).toPrecision(2)} realisations are needed to resolve ⟨e^−Σ⟩ (Jarzynski 2006)`,
+      `⟨Σ⟩ = ${meanSigma.toPrecision(3)} k_B is not below ${nText}: about e^⟨Σ⟩ ≈ ${exp(meanSigma).toPrecision(2)} independent realisations are needed to resolve ⟨e^−Σ⟩ (Jarzynski 2006)`,
     );
   }
-  if (meanSigma > 0 && mirror < MIN_MIRROR_REALISATIONS) {
-    reasons.push(`only ${mirror} realisation(s) have Σ ≤ −⟨Σ⟩, the region that carries about half of ⟨e^−Σ⟩; at least ${MIN_MIRROR_REALISATIONS} are needed`);
+  if (meanSigma > 0 && independentMirror < MIN_MIRROR_REALISATIONS) {
+    reasons.push(
+      correlated
+        ? `only ${mirror} windows, about ${independentMirror.toPrecision(2)} independent realisations (g = ${g.toPrecision(2)}), have Σ ≤ −⟨Σ⟩, the region that carries about half of ⟨e^−Σ⟩; at least ${MIN_MIRROR_REALISATIONS} are needed`
+        : `only ${mirror} realisation(s) have Σ ≤ −⟨Σ⟩, the region that carries about half of ⟨e^−Σ⟩; at least ${MIN_MIRROR_REALISATIONS} are needed`,
+    );
   }
   if (effectiveSampleSize < MIN_EFFECTIVE_SAMPLE) {
-    reasons.push(`the average rests on an effective ${effectiveSampleSize.toPrecision(3)} realisations (Kish), fewer than ${MIN_EFFECTIVE_SAMPLE}`);
+    reasons.push(`the average rests on an effective ${effectiveSampleSize.toPrecision(3)} realisations (Kish${correlated ? `, divided by g = ${g.toPrecision(2)}` : ""}), fewer than ${MIN_EFFECTIVE_SAMPLE}`);
   }
   if (tailShape > MAX_TAIL_SHAPE) {
     reasons.push(`the right tail of e^−Σ has shape ξ = ${tailShape.toPrecision(2)} > ${MAX_TAIL_SHAPE} (Hill estimator), too heavy for the average to be pinned by this sample`);
@@ -85,6 +105,7 @@ export function exponentialConvergence(sigma: ArrayLike<number>, weight: ArrayLi
   return {
     meanSigma,
     logN,
+    inefficiency: g,
     mirrorCount: mirror,
     effectiveSampleSize,
     tailShape,

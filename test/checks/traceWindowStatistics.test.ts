@@ -1,5 +1,6 @@
 import { describe, expect, it } from "vitest";
 import { exchangeFluctuationForDataset } from "../../src/checks/exchange-fluctuation/exchangeFluctuation.ts";
+import { integralFluctuationForDataset } from "../../src/checks/integral-fluctuation/integralFluctuation.ts";
 import { binnedLogRatio, binOfEachRow } from "../../src/checks/exchange-fluctuation/binnedLogRatio.ts";
 import { steadyStateCountingForSeries } from "../../src/checks/steady-state-counting/steadyStateCounting.ts";
 import { jointBootstrap } from "../../src/checks/steady-state-counting/jointBootstrap.ts";
@@ -168,4 +169,20 @@ describe("steady-state-counting on window lengths cut from one trace", () => {
     const sandwich = withCountingCovariance({ ...d, states: null }, fitExchangeLogistic([d.dN], null), [d.dN], "offset");
     expectClose(Math.sqrt(boot.covariance[0][0]), sandwich.standardErrors[0], { rtol: 0.25, source: "block sandwich standard error of the same slope" });
   }, 60000);
+});
+
+describe("integral-fluctuation on correlated windows", () => {
+  it("counts runs of ten identical windows as one realisation each in the rule ⟨Σ⟩ < ln N (Jarzynski 2006)", () => {
+    // 3000 realisations written ten times each: 30 000 windows but 3000 independent ones, so ln N is
+    // ln 3000 = 8.006, not ln 30 000 = 10.31 (exact arithmetic; g = 10 fixed as the trace's rule would find it).
+    const d = repeatedWindows(10, 3000);
+    const r = integralFluctuationForDataset(d, testContext());
+    const v = r.values as { ln_N: number; windows_per_realisation: number; realisations: number };
+    expect(v.realisations).toBe(30000);
+    expect(v.windows_per_realisation).toBe(10);
+    expectClose(v.ln_N, Math.log(3000), { rtol: 1e-12, source: "definition: ln(N/g) with N = 30 000, g = 10" });
+    // The exact relation holds in these data (⟨Σ⟩ = 0.12 k_B), so the average is resolved and the check passes.
+    expect(r.status).toBe("pass");
+    expect(r.summary).toContain("< ln(N/g) = 8.006, with g = 10 windows per independent realisation");
+  });
 });

@@ -153,7 +153,8 @@ export function integralFluctuationForDataset(d: SamplesDataset, ctx: CheckConte
   const ciScaled = bcaInterval(boot, confidence);
   const ci: [number, number] = [ciScaled[0] * scale, ciScaled[1] * scale];
   const pValue = bcaPValue(boot, 1 / scale);
-  const conv = exponentialConvergence(sigma, d.weight);
+  // Windows cut from one trace count as N/g independent realisations (g from the trace's autocorrelation).
+  const conv = exponentialConvergence(sigma, d.weight, d.windows?.correlationWindows ?? 1);
   const n = d.realisations;
   // Beyond double precision once scaled back: keep the logarithm (the bootstrap itself ran on scaled values).
   if (!Number.isFinite(mean) || !Number.isFinite(ci[0]) || !Number.isFinite(ci[1])) return overflowingAverage(d, ctx, boot.estimate, boot.replicates, shift, conv);
@@ -179,7 +180,7 @@ export function integralFluctuationForDataset(d: SamplesDataset, ctx: CheckConte
     summary = `${estimateText}: significantly below 1 (p = ${fmt(pValue, 3)} ≤ α = ${alpha}) although the sample resolves the average; the integral relation is violated.`;
   } else if (ci[0] >= 1 - margin && ci[1] <= 1 + margin) {
     status = "pass";
-    summary = `${estimateText}, within 1 ± ${margin}; the sample resolves the average (⟨Σ⟩ = ${fmt(conv.meanSigma)} k_B < ln N = ${fmt(conv.logN)}).`;
+    summary = `${estimateText}, within 1 ± ${margin}; the sample resolves the average (⟨Σ⟩ = ${fmt(conv.meanSigma)} k_B < ${conv.inefficiency > 1 ? `ln(N/g) = ${fmt(conv.logN)}, with g = ${fmt(conv.inefficiency, 2)} windows per independent realisation` : `ln N = ${fmt(conv.logN)}`}).`;
   } else {
     status = "inconclusive";
     const half = (ci[1] - ci[0]) / 2;
@@ -200,6 +201,7 @@ export function integralFluctuationForDataset(d: SamplesDataset, ctx: CheckConte
       log_mean: log(boot.estimate) + shift,
       mean_sigma: conv.meanSigma,
       ln_N: conv.logN,
+      ...(d.windows ? { windows_per_realisation: conv.inefficiency } : {}),
       mirror_realisations: conv.mirrorCount,
       effective_sample_size: conv.effectiveSampleSize,
       tail_shape: conv.tailShape,
@@ -276,6 +278,7 @@ function overflowingAverage(
       log_min_resample: lowest,
       mean_sigma: conv.meanSigma,
       ln_N: conv.logN,
+      ...(d.windows ? { windows_per_realisation: conv.inefficiency } : {}),
       mirror_realisations: conv.mirrorCount,
       resolved: conv.resolved,
       resamples: replicates.length,

@@ -1,6 +1,6 @@
 import { ONE, type ValueUnits } from "../valueUnits.ts";
 
-/** Σ is counted in units of k_B, so ⟨e^−Σ⟩, its logarithm, ⟨Σ⟩ and ln N are pure numbers, as are the counts. */
+/** Σ is counted in units of k_B, so ⟨e^−Σ⟩, its logarithm, ⟨Σ⟩ and ln N are pure numbers, as are the counts and the windows per independent realisation of a trace (ln_N is then ln(N/g)). */
 export const integralFluctuationUnits: ValueUnits = {
   mean: ONE,
   ci: ONE,
@@ -9,6 +9,7 @@ export const integralFluctuationUnits: ValueUnits = {
   log_min_resample: ONE,
   mean_sigma: ONE,
   ln_N: ONE,
+  windows_per_realisation: ONE,
   mirror_realisations: ONE,
   effective_sample_size: ONE,
   tail_shape: ONE,

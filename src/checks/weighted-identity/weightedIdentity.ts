@@ -75,7 +75,7 @@ export function weightedIdentityForDataset(d: SamplesDataset, ctx: CheckContext)
   // Convergence of the exponential weights: judged on the a·x part, which carries the rare events.
   const aDotX = new Float64Array(n);
   for (let i = 0; i < n; i++) aDotX[i] = -ax[i];
-  const conv = exponentialConvergence(aDotX, d.weight);
+  const conv = exponentialConvergence(aDotX, d.weight, d.windows?.correlationWindows ?? 1);
 
   // A current that is a fixed multiple of another in every realisation (Q = εΔN through a single level)
   // gives r_Q = sign(ε) r_ΔN exactly (r is invariant under x → c x up to the sign of c): the same statement,
