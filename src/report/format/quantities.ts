@@ -22,6 +22,9 @@ export const QUANTITIES = [
   "field",
   "entropy",
   "entropy_density",
+  "onsager_charge",
+  "onsager_mixed",
+  "onsager_heat",
   "dimensionless",
 ] as const;
 export type Quantity = (typeof QUANTITIES)[number];
@@ -62,7 +65,9 @@ export const BASES: Record<string, UnitBase> = {
   "1/eV": { symbol: "1/eV", si: 1 / e, prefix: "denominator", siunitx: "\\per\\<p>electronvolt" },
   W: { symbol: "W", si: 1, prefix: "numerator", siunitx: "\\<p>watt" },
   "eV/s": { symbol: "eV/s", si: e, prefix: "numerator", siunitx: "\\<p>electronvolt\\per\\second" },
-  "1/s": { symbol: "1/s", si: 1, prefix: "none", siunitx: "\\per\\second" },
+  // A rate takes its prefix on the second (120 1/µs, SI Brochure 9th ed. §3: a prefix attaches to the unit symbol
+  // and is raised to its power), from picoseconds to seconds: 1/ks would read as a slower clock, not a smaller rate.
+  "1/s": { symbol: "1/s", si: 1, prefix: "denominator", siunitx: "\\per\\<p>second", range: [-12, 0] },
   "e/s": { symbol: "e/s", si: 1, prefix: "none", siunitx: "\\elementarycharge\\per\\second" },
   A: { symbol: "A", si: 1 / e, prefix: "numerator", siunitx: "\\<p>ampere" },
   K: { symbol: "K", si: 1, prefix: "numerator", siunitx: "\\<p>kelvin", range: [-9, 0] },
@@ -79,6 +84,10 @@ export const BASES: Record<string, UnitBase> = {
   T: { symbol: "T", si: 1, prefix: "numerator", siunitx: "\\<p>tesla" },
   kB: { symbol: "k_B", si: 1, prefix: "none", siunitx: "\\kB" },
   "1/kB": { symbol: "1/k_B", si: 1, prefix: "none", siunitx: "\\per\\kB" },
+  // Entries of Callen's charge–heat matrix (Phys. Rev. 73, 1349 (1948)): L11 = G T, L12 and L21, L22 = T²(K + G S Π).
+  "S K": { symbol: "S K", si: 1, prefix: "numerator", siunitx: "\\<p>siemens\\kelvin" },
+  "A K": { symbol: "A K", si: 1, prefix: "numerator", siunitx: "\\<p>ampere\\kelvin" },
+  "W K": { symbol: "W K", si: 1, prefix: "numerator", siunitx: "\\<p>watt\\kelvin" },
   "1": { symbol: "1", si: 1, prefix: "none", siunitx: "" },
 };
 
@@ -100,5 +109,8 @@ export const QUANTITY_BASES: Record<Quantity, string[]> = {
   field: ["T"],
   entropy: ["kB"],
   entropy_density: ["1/kB"],
+  onsager_charge: ["S K"],
+  onsager_mixed: ["A K"],
+  onsager_heat: ["W K"],
   dimensionless: ["1"],
 };

@@ -23,7 +23,7 @@ const FORMS: { pattern: RegExp; quantity: Quantity; si: number }[] = [
   { pattern: /^(?<p>[yzafpnµumk]?)W$/, quantity: "heat_current", si: 1 },
   // An energy per second: the cross entries of an Onsager matrix of heat and particles (fluctuation-dissipation).
   { pattern: /^(?<p>[yzafpnµum]?)J\/s$/, quantity: "heat_current", si: 1 },
-  { pattern: /^1\/s$|^s⁻¹$/, quantity: "particle_current", si: 1 },
+  { pattern: /^1\/(?<p>[pnµum]?)s$|^s⁻¹$/, quantity: "particle_current", si: 1 },
   { pattern: /^(?<p>[nµum]?)K$/, quantity: "temperature", si: 1 },
   { pattern: /^(?<p>[pnµum]?)S$/, quantity: "conductance", si: 1 },
   { pattern: /^(?<p>[yzafpnµum]?)W\/K$/, quantity: "thermal_conductance", si: 1 },
@@ -33,6 +33,10 @@ const FORMS: { pattern: RegExp; quantity: Quantity; si: number }[] = [
   { pattern: /^(?<p>[yzafpnµum]?)W Ω K(⁻²|\^-2)$/, quantity: "lorenz_number", si: 1 },
   { pattern: /^(?<p>[yzafpnµum]?)s$/, quantity: "time", si: 1 },
   { pattern: /^(?<p>[µum]?)T$/, quantity: "field", si: 1 },
+  // Callen's L11 = G T, L12 and L21, L22 (Phys. Rev. 73, 1349 (1948)); A K/V is S K written another way.
+  { pattern: /^(?<p>[yzafpnµum]?)S K$|^A K\/V$/, quantity: "onsager_charge", si: 1 },
+  { pattern: /^(?<p>[yzafpnµum]?)A K$/, quantity: "onsager_mixed", si: 1 },
+  { pattern: /^(?<p>[yzafpnµum]?)W K$/, quantity: "onsager_heat", si: 1 },
   { pattern: /^k_B$/, quantity: "entropy", si: 1 },
   { pattern: /^1\/k_B$/, quantity: "entropy_density", si: 1 },
   { pattern: /^1$|^dimensionless$/, quantity: "dimensionless", si: 1 },

@@ -38,8 +38,9 @@ describe("intervals in check sentences", () => {
     // The value is rounded to its uncertainty (two digits of u): the bounds stop at the same decimal, here the
     // decimal they were written to.
     expect(shown("with J_Q = 3.17e-12 ± 3.6e-15 W (95 % interval [3.163e-12, 3.177e-12])")).toBe("with J_Q = (3.1700 ± 0.0036) pW (95 % interval [3.163, 3.177] pW)");
+    // A rate takes its prefix on the second: 6.366 × 10¹⁰ 1/s = 63.66 1/ns (SI Brochure 9th ed. §3.1).
     expect(shown("with J_N = 6.366e+10 ± 5.3e+7 1/s (95 % interval [6.356e+10, 6.377e+10])")).toBe(
-      "with J_N = (6.3660 ± 0.0053) × 10¹⁰ 1/s (95 % interval [6.356 × 10¹⁰, 6.377 × 10¹⁰] 1/s)",
+      "with J_N = (63.660 ± 0.053) 1/ns (95 % interval [63.56, 63.77] 1/ns)",
     );
   });
 
