@@ -26,9 +26,18 @@ export type CheckId = (typeof CHECK_IDS)[number];
 export type Status = "pass" | "fail" | "inconclusive" | "not-applicable" | "info";
 
 /** A table of numbers for the report (per operating point, per channel, …). */
+/**
+ * A column's unit that says "each row's own": the numbers of such a column are
+ * in the unit written in that row's `unit` cell (a table whose rows are
+ * different quantities, or one matrix a row). Only columns marked so take the
+ * row's unit; counts, z-scores and p-values beside them never do.
+ */
+export const ROW_UNIT = "unit of the row";
+
 export interface TableSpec {
   id: string;
   title: string;
+  /** `unit`: a written unit ("µV", "W/K"), "1" for a dimensionless number, or ROW_UNIT. */
   columns: { key: string; label: string; unit?: string }[];
   rows: Record<string, number | string | boolean | null>[];
 }

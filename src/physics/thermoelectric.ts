@@ -13,6 +13,7 @@
  * All quantities SI: G in S, S in V/K, Π in V, K in W/K, T in K.
  */
 import { determinant } from "../linalg/determinant.ts";
+import { BOLTZMANN, ELEMENTARY_CHARGE } from "./constants.ts";
 import type { Matrix } from "../linalg/matrix.ts";
 
 /**
@@ -121,6 +122,38 @@ export function thermalConductanceBound(L: readonly (readonly number[])[], T: nu
   const d = L[0][1] - L[1][0];
   const G = L[0][0] / T;
   return (d * d) / (4 * G * T * T * T);
+}
+
+/**
+ * Callen's matrix in entropy units: N = D L D with D = diag(k_B/e, 1/T).
+ *
+ * Why: the entries of L carry different units (S K, A K, W K), so no single
+ * SI prefix fits the matrix. Writing the forces as the dimensionless
+ * x = (eΔV/(k_B T), ΔT/T) = D⁻¹ X, the conjugate fluxes become the entropy
+ * currents ((k_B/e) I, J_Q/T) = D J, and the entropy production is
+ * Ṡ = Xᵀ L X = xᵀ N x (Callen, Phys. Rev. 73, 1349 (1948); de Groot & Mazur,
+ * Non-Equilibrium Thermodynamics (1962), ch. IV, on the freedom to rescale
+ * forces and fluxes). Every entry of N is then in W/K:
+ *   N11 = (k_B/e)² G T,  N12 = (k_B/e) G S T,  N21 = (k_B/e) G Π,  N22 = K + G S Π.
+ * N is a congruence of L by a positive diagonal matrix, so N12 = N21 exactly
+ * when L12 = L21, and N's symmetric part is positive semi-definite exactly
+ * when L's is. Only for the 2×2 charge–heat matrix.
+ */
+export function onsagerInEntropyUnits(L: readonly (readonly number[])[], T: number): Matrix {
+  if (L.length !== 2 || L.some((row) => row.length !== 2)) throw new RangeError(`entropy units are defined for the 2×2 charge–heat matrix, got ${L.length}×${L[0]?.length ?? 0}`);
+  const D = entropyUnitScales(T);
+  return L.map((row, i) => row.map((v, j) => D[i] * D[j] * v));
+}
+
+/** Standard uncertainties of N from those of L: each entry scales by the exact D_i D_j (k_B and e exact in the SI, T taken as exact). */
+export function onsagerUncertaintyInEntropyUnits(uL: readonly (readonly number[])[], T: number): Matrix {
+  return onsagerInEntropyUnits(uL, T);
+}
+
+/** D = diag(k_B/e, 1/T), in V/K and 1/K. */
+function entropyUnitScales(T: number): [number, number] {
+  if (!(T > 0) || !Number.isFinite(T)) throw new RangeError(`entropy units need a positive, finite temperature, got T = ${T} K`);
+  return [BOLTZMANN / ELEMENTARY_CHARGE, 1 / T];
 }
 
 /** Lorenz ratio K/(G T), W Ω K⁻². */

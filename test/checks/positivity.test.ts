@@ -1,6 +1,8 @@
 import { describe, it, expect } from "vitest";
 import { positivity, smallestNormalisedEigenvalue } from "../../src/checks/positivity/positivity.ts";
 import { renderEquation } from "../../src/report/equations.ts";
+import { positivityUnits } from "../../src/checks/positivity/units.ts";
+import { valueUnitsOf } from "../../src/checks/valueUnits.ts";
 import { expectClose } from "../helpers/expectClose.ts";
 import { runCheck, type TableSpecInput } from "./coefficientFixtures.ts";
 
@@ -104,5 +106,33 @@ describe("positivity", () => {
     expectClose(r.values.min_eigenvalue as number, 1 - Math.SQRT1_2, { rtol: 1e-12, source: "exact spectrum of the (−1/2, 1, −1/2) tridiagonal matrix" });
     expect(r.status).toBe("pass");
     for (const tex of r.equations) expect(renderEquation(tex)).toContain("katex");
+    // Beyond two fluxes the entries' units are not named, so there is no matrix in entropy units.
+    expect(r.tables.map((t) => t.id)).toEqual(["points"]);
+    expect((r.values.per_point as { N: unknown }[])[0].N).toBeNull();
+  });
+
+  it("shows each row's matrix in entropy units N = D L D, all in W/K, with uncertainties scaled exactly", async () => {
+    // A Wiedemann–Franz conductor at T = 0.5 K: G = 10 µS, S = Π = 0, K = L0 G T with the Sommerfeld
+    // L0 = π² k_B²/(3e²) = 2.443 × 10⁻⁸ W Ω K⁻² (exact from k_B and e): K = 1.2216 × 10⁻¹³ W/K.
+    // Then N11 = (k_B/e)² G T is 3/π² of N22 = K, and N12 = N21 = 0 (see test/physics/thermoelectric.test.ts).
+    const L0 = (Math.PI ** 2 / 3) * (1.380649e-23 / 1.602176634e-19) ** 2;
+    const K = L0 * 10e-6 * 0.5; // W/K
+    const r = await runCheck(positivity, {
+      form: "thermoelectric",
+      header: ["Vg", "G", "S", "Pi", "K", "u_G", "u_S", "u_Pi", "u_K"],
+      rows: [[0, 10, 0, 0, K * 1e12, 0.1, 0.5, 0.2, K * 1e12 * 0.02]],
+      dataset: "    temperature: { value: 0.5 }\n    point: [Vg]\n    units: { G: uS, S: uV/K, Pi: uV, K: pW/K }",
+    });
+    const pp = (r.values.per_point as { N: number[][]; u_N: number[][]; L: number[][] }[])[0];
+    expectClose(pp.N[0][0] / pp.N[1][1], 3 / Math.PI ** 2, { rtol: 1e-12, source: "exact: (k_B/e)²/L0 = 3/π²" });
+    expect(pp.N[0][1]).toBe(0);
+    expectClose(pp.L[0][0], 10e-6 * 0.5, { rtol: 1e-12, source: "Callen: L11 = G T" });
+    // u(N22) = u(L22)/T² = √(u_K² + …) with S = Π = 0: exactly u_K (first order, src/ingest/coefficients.ts).
+    expectClose(pp.u_N[1][1], K * 0.02, { rtol: 1e-9, source: "exact: u(K + G S Π) = u(K) at S = Π = 0" });
+    const table = r.tables.find((t) => t.id === "entropy-units")!;
+    expect(table.columns.map((c) => c.label)).toEqual(["Operating point", "T", "N11", "u(N11)", "N12", "u(N12)", "N21", "u(N21)", "N22", "u(N22)", "Unit"]);
+    expect(table.rows[0].unit).toBe("W/K");
+    expect(table.rows[0].N22).toBe(pp.N[1][1]);
+    expect(valueUnitsOf(r.values, positivityUnits).per_point).toMatchObject({ N: "W K^-1", L: [["S K", "A K"], ["A K", "W K"]] });
   });
 });

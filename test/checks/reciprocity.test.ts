@@ -149,7 +149,7 @@ describe("reciprocity", () => {
     expect(r.status).toBe("inconclusive");
     expect(r.values.p_value).toBeNull();
     expect(r.reason).toBe(
-      "Without u_ columns no difference can be called significant, nor small enough to exclude a violation of 5 % of its scale (L11(B) = L11(−B) within 5 % of √(L11(B) L11(−B)) = 1 A K/V; L12(B) = L21(−B) and L21(B) = L12(−B) within 5 % of √(Ls_11 Ls_22) = 1.1 A K; L22(B) = L22(−B) within 5 % of √(L22(B) L22(−B)) = 1.2 W K); add a standard uncertainty for every coefficient (u_L11, u_L12, …).",
+      "Without u_ columns no difference can be called significant, nor small enough to exclude a violation of 5 % of its scale (L11(B) = L11(−B) within 5 % of √(L11(B) L11(−B)) = 1 S K; L12(B) = L21(−B) and L21(B) = L12(−B) within 5 % of √(Ls_11 Ls_22) = 1.1 A K; L22(B) = L22(−B) within 5 % of √(L22(B) L22(−B)) = 1.2 W K); add a standard uncertainty for every coefficient (u_L11, u_L12, …).",
     );
   });
 

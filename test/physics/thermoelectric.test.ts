@@ -9,12 +9,15 @@ import {
   maxEfficiencyOverCarnot,
   maxEfficiencyOverCarnotXY,
   onsagerFromThermoelectric,
+  onsagerInEntropyUnits,
+  onsagerUncertaintyInEntropyUnits,
   powerFactor,
   secondLawBoundH,
   thermalConductanceBound,
   thermoelectricFromOnsager,
 } from "../../src/physics/thermoelectric.ts";
 import { LORENZ_SOMMERFELD } from "../../src/physics/constants.ts";
+import { smallestNormalisedEigenvalue } from "../../src/checks/positivity/positivity.ts";
 import { expectClose } from "../helpers/expectClose.ts";
 
 const T = 4.2;
@@ -87,5 +90,60 @@ describe("figures of merit", () => {
 
   it("refuses a matrix that is not 2×2", () => {
     expect(() => thermoelectricFromOnsager([[1, 0, 0], [0, 1, 0], [0, 0, 1]], 1)).toThrow("thermoelectric coefficients need a 2×2 Onsager matrix, got 3×3");
+  });
+});
+
+describe("Callen's matrix in entropy units, N = D L D with D = diag(k_B/e, 1/T)", () => {
+  // k_B and e are exact in the SI since 2019 (SI Brochure, 9th ed.; CODATA 2018).
+  const kOverE = 1.380649e-23 / 1.602176634e-19;
+
+  it("gives a Wiedemann–Franz conductor N11/N22 = 3/π² (Sommerfeld: K = L0 G T with L0 = π² k_B²/(3e²))", () => {
+    // With S = Π = 0 (particle–hole symmetric), N11 = (k_B/e)² G T and N22 = K = L0 G T, so the ratio is
+    // (k_B/e)²/L0 = 3/π² exactly (the Sommerfeld value of L0: Ashcroft & Mermin, Solid State Physics (1976), ch. 2).
+    const G = 7.75e-5; // about e²/h × 2, a single spin-degenerate channel (any value gives the same ratio)
+    const Tw = 0.35;
+    const L = onsagerFromThermoelectric({ G, S: 0, Pi: 0, K: LORENZ_SOMMERFELD * G * Tw }, Tw);
+    const N = onsagerInEntropyUnits(L, Tw);
+    expectClose(N[0][0] / N[1][1], 3 / Math.PI ** 2, { rtol: 1e-13, source: "exact: (k_B/e)²/L0 = 3/π²" });
+    expectClose(N[0][0], kOverE ** 2 * G * Tw, { rtol: 1e-14, source: "definition: N11 = (k_B/e)² G T" });
+    expect(N[0][1]).toBe(0);
+    expect(N[1][0]).toBe(0);
+  });
+
+  it("writes every entry in W/K from G, S, Π, K as N12 = (k_B/e) G S T, N21 = (k_B/e) G Π, N22 = K + G S Π (algebra)", () => {
+    const N = onsagerInEntropyUnits(onsagerFromThermoelectric(c, T), T);
+    expectClose(N[0][1], kOverE * c.G * c.S * T, { rtol: 1e-13, source: "algebra: (k_B/e)(1/T) G S T²" });
+    expectClose(N[1][0], kOverE * c.G * c.Pi, { rtol: 1e-13, source: "algebra: (k_B/e)(1/T) G Π T" });
+    expectClose(N[1][1], c.K + c.G * c.S * c.Pi, { rtol: 1e-13, source: "algebra: T²(K + G S Π)/T²" });
+  });
+
+  it("gives the same entropy production for the same forces, Xᵀ L X = xᵀ N x (exact change of variables)", () => {
+    const L = [[2.0e-4, 3.0e-9], [2.5e-9, 7.0e-13]];
+    const dV = 3.0e-6; // V
+    const dT = 0.02; // K
+    const X = [dV / T, dT / (T * T)]; // Callen's forces
+    const x = [dV / (kOverE * T), dT / T]; // e ΔV/(k_B T) and ΔT/T
+    const N = onsagerInEntropyUnits(L, T);
+    const quad = (M: number[][], v: number[]) => v[0] * (M[0][0] * v[0] + M[0][1] * v[1]) + v[1] * (M[1][0] * v[0] + M[1][1] * v[1]);
+    expectClose(quad(N, x), quad(L, X), { rtol: 1e-13, source: "exact: X = D x, so Xᵀ L X = xᵀ D L D x" });
+  });
+
+  it("keeps reciprocity and positivity exactly: N12 = N21 iff L12 = L21, N positive semi-definite iff L is (congruence; Sylvester's law of inertia)", () => {
+    const symmetric = onsagerInEntropyUnits(onsagerFromThermoelectric({ ...c, Pi: c.S * T }, T), T);
+    expectClose(symmetric[0][1], symmetric[1][0], { rtol: 1e-14, source: "exact: D L D is symmetric when L is" });
+    // An indefinite L (det of the symmetric part < 0) stays indefinite: the signs of the eigenvalues are kept.
+    const indefinite = [[1e-4, 5e-8], [5e-8, 1e-11]];
+    expect(indefinite[0][0] * indefinite[1][1] - indefinite[0][1] ** 2).toBeLessThan(0);
+    const n = onsagerInEntropyUnits(indefinite, T);
+    expect(n[0][0] * n[1][1] - n[0][1] * n[1][0]).toBeLessThan(0);
+    expect(smallestNormalisedEigenvalue(n)).toBeCloseTo(smallestNormalisedEigenvalue(indefinite), 12);
+  });
+
+  it("scales standard uncertainties by the same exact factors, and refuses what it cannot transform", () => {
+    const uN = onsagerUncertaintyInEntropyUnits([[1e-6, 2e-11], [3e-11, 4e-15]], T);
+    expectClose(uN[0][0], kOverE ** 2 * 1e-6, { rtol: 1e-14, source: "exact: D11² u(L11)" });
+    expectClose(uN[1][1], 4e-15 / (T * T), { rtol: 1e-14, source: "exact: D22² u(L22)" });
+    expect(() => onsagerInEntropyUnits([[1, 0, 0], [0, 1, 0], [0, 0, 1]], T)).toThrow(/2×2 charge–heat matrix, got 3×3/);
+    expect(() => onsagerInEntropyUnits([[1, 0], [0, 1]], 0)).toThrow(/positive, finite temperature, got T = 0 K/);
   });
 });

@@ -2,7 +2,7 @@ import { parse as parseCsv } from "csv-parse/sync";
 import bibtexParse from "bibtex-parse";
 import { describe, expect, it } from "vitest";
 import { parse as parseYaml } from "yaml";
-import type { CheckResult } from "../../src/checks/types.ts";
+import { ROW_UNIT, type CheckResult } from "../../src/checks/types.ts";
 import type { ArchiveDefinition } from "../../src/config/archiveSchema.ts";
 import {
   bibtexEntry,
@@ -234,6 +234,40 @@ describe("per-point numbers CSV", () => {
     expect(Number(rows[1].value)).toBe(0.1 + 0.2);
     expect(Number(rows[3].value)).toBe(-1.5e-21);
     expect(rows[5].value).toBe("");
+  });
+});
+
+describe("per-point numbers CSV, a column in each row's unit", () => {
+  it("writes the row's own unit on every line of such a column, so no number is left without its unit", () => {
+    const doc = result({
+      checks: [
+        check({
+          check: "reciprocity",
+          tables: [
+            {
+              id: "diagonal",
+              title: "Diagonal entries",
+              columns: [
+                { key: "x", label: "At +B", unit: ROW_UNIT },
+                { key: "unit", label: "Unit" },
+                { key: "tost_p", label: "TOST p" },
+              ],
+              rows: [
+                { x: 1.8214e-6, unit: "S", tost_p: 0.1998 },
+                { x: 3.652e-13, unit: "W K", tost_p: 0.2855 },
+              ],
+            },
+          ],
+        }),
+      ],
+    });
+    const text = pointsCsv(doc, citationSubject(doc, { number: 1, date: "2026-12-03" }, archive));
+    const rows = parseCsv(text, { comment: "#", columns: true, record_delimiter: "\r\n" }) as Record<string, string>[];
+    expect(rows.filter((r) => r.column === "x").map((r) => [r.unit, r.value])).toEqual([
+      ["S", "0.0000018214"],
+      ["W K", "3.652e-13"],
+    ]);
+    expect(rows.filter((r) => r.column === "tost_p").map((r) => r.unit)).toEqual(["", ""]);
   });
 });
 

@@ -7,7 +7,7 @@ import { normalQuantile, normalTwoSidedP } from "../../stats/normal.ts";
 import { holm } from "../../stats/holm.ts";
 import { resolveSentence } from "../../stats/sampleSize.ts";
 import { fmt, fmtInterval, notApplicableResult, numberOption, perDataset } from "../helpers.ts";
-import type { CheckContext, CheckDefinition, CheckResult, Status, TableSpec } from "../types.ts";
+import { ROW_UNIT, type CheckContext, type CheckDefinition, type CheckResult, type Status, type TableSpec } from "../types.ts";
 import { binnedLogRatio, type LogRatio } from "./binnedLogRatio.ts";
 import { jointHistogramPlot, logRatioPlot, mirrorHistogramPlot } from "./plots.ts";
 import { mirrorSymmetryResult } from "./mirrorSymmetry.ts";
@@ -387,9 +387,9 @@ export function exchangeFluctuationForDataset(d: SamplesDataset, ctx: CheckConte
         columns: [
           { key: "coefficient", label: "Coefficient" },
           { key: "unit", label: "Unit" },
-          { key: "declared", label: "Declared" },
-          { key: "fitted", label: "Fitted" },
-          { key: "se", label: "Standard error" },
+          { key: "declared", label: "Declared", unit: ROW_UNIT },
+          { key: "fitted", label: "Fitted", unit: ROW_UNIT },
+          { key: "se", label: "Standard error", unit: ROW_UNIT },
           { key: "z", label: "z" },
           { key: "p", label: "p" },
           { key: "p_holm", label: "p (Holm)" },

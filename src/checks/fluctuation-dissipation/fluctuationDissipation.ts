@@ -5,7 +5,7 @@ import { normalTwoSidedP } from "../../stats/normal.ts";
 import { diagonallyNormalised } from "../../linalg/diagonallyNormalised.ts";
 import { smallestEigenvalue } from "../../linalg/symmetricEigenvalues.ts";
 import { datasetsOfKind, fmt, numberOption } from "../helpers.ts";
-import type { CheckContext, CheckDefinition, CheckResult, Status, TableSpec } from "../types.ts";
+import { ROW_UNIT, type CheckContext, type CheckDefinition, type CheckResult, type Status, type TableSpec } from "../types.ts";
 import { prepareSweep, sweepGroups, AFFINITY_OF, type Sweep, type Channel } from "./sweep.ts";
 import {
   difference,
@@ -294,9 +294,9 @@ function sweepResult(sweep: Sweep, ctx: CheckContext): CheckResult {
         { key: "relation", label: "Relation" },
         { key: "label", label: "Difference" },
         { key: "unit", label: "Unit" },
-        { key: "estimate", label: "Estimate" },
-        { key: "se", label: "Standard error" },
-        { key: "bound", label: "Margin ±" },
+        { key: "estimate", label: "Estimate", unit: ROW_UNIT },
+        { key: "se", label: "Standard error", unit: ROW_UNIT },
+        { key: "bound", label: "Margin ±", unit: ROW_UNIT },
         { key: "p", label: "Holm-adjusted p" },
         { key: "result", label: "Result" },
       ],

@@ -1,6 +1,6 @@
 import type { IngestedAudit, SamplesDataset } from "../../ingest/types.ts";
 import { datasetsOfKind, fmt, fmtInterval, notApplicableResult, numberOption } from "../helpers.ts";
-import type { CheckContext, CheckDefinition, CheckResult, Status, TableSpec } from "../types.ts";
+import { ROW_UNIT, type CheckContext, type CheckDefinition, type CheckResult, type Status, type TableSpec } from "../types.ts";
 import type { PlotSpec, Series } from "../plotSpec.ts";
 import { texValue } from "../fluctuation-dissipation/presentation.ts";
 import { seriesFromCumulants, seriesFromSamples, type GrowthSeries, type SeriesOrProblem } from "./series.ts";
@@ -191,8 +191,8 @@ function seriesResult(series: GrowthSeries, ctx: CheckContext): CheckResult {
         { key: "from", label: "Window from", unit: "s" },
         { key: "to", label: "Window to", unit: "s" },
         { key: "points", label: "Points" },
-        { key: "flux", label: "Flux" },
-        { key: "se", label: "Standard error" },
+        { key: "flux", label: "Flux", unit: ROW_UNIT },
+        { key: "se", label: "Standard error", unit: ROW_UNIT },
         { key: "unit", label: "Unit" },
         { key: "p", label: "Residual p" },
         { key: "flags", label: "Flags" },

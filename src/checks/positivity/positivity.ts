@@ -17,13 +17,13 @@ import type { CoefficientPoint, CoefficientsDataset } from "../../ingest/types.t
 import { symmetricPart } from "../../linalg/symmetricPart.ts";
 import { smallestEigenvalue } from "../../linalg/symmetricEigenvalues.ts";
 import { determinant } from "../../linalg/determinant.ts";
-import { onsagerFromInputs, thermalConductanceBound } from "../../physics/thermoelectric.ts";
+import { onsagerFromInputs, onsagerInEntropyUnits, onsagerUncertaintyInEntropyUnits, thermalConductanceBound } from "../../physics/thermoelectric.ts";
 import { propagateUncertainty } from "../../stats/monteCarlo.ts";
 import { holm } from "../../stats/holm.ts";
 import { normalCdf, normalQuantile } from "../../stats/normal.ts";
 import type { Rng } from "../../stats/rng.ts";
 import { fmt, perDataset } from "../helpers.ts";
-import type { CheckContext, CheckDefinition, CheckResult, Status, TableSpec } from "../types.ts";
+import { ROW_UNIT, type CheckContext, type CheckDefinition, type CheckResult, type Status, type TableSpec } from "../types.ts";
 import type { PlotSpec, Series } from "../plotSpec.ts";
 import { groupBy, pointLabel, sortedBy, sweepAxisLabel } from "../reciprocity/points.ts";
 
@@ -242,6 +242,46 @@ function pointTable(d: CoefficientsDataset, pts: readonly PointPositivity[]): Ta
   };
 }
 
+/** The row's matrix in entropy units N = D L D (W/K, see onsagerInEntropyUnits), with its uncertainties; null beyond two fluxes. */
+function entropyUnitMatrix(d: CoefficientsDataset, p: CoefficientPoint): { N: number[][]; uN: number[][] | null } | null {
+  if (d.n !== 2 || !(p.T > 0) || !Number.isFinite(p.T)) return null;
+  return { N: onsagerInEntropyUnits(p.L, p.T), uN: p.uL ? onsagerUncertaintyInEntropyUnits(p.uL, p.T) : null };
+}
+
+/**
+ * Each row's matrix in entropy units, one row a matrix: all four entries share
+ * the unit W/K, so the report writes them with one SI prefix per matrix and
+ * they can be compared by eye (L itself mixes S K, A K and W K).
+ */
+function entropyUnitTable(d: CoefficientsDataset): TableSpec {
+  const entries = ["11", "12", "21", "22"] as const;
+  const withU = d.hasUncertainties;
+  return {
+    id: "entropy-units",
+    title: "Onsager matrix in entropy units at each row (one prefix per matrix)",
+    columns: [
+      { key: "point", label: "Operating point" },
+      { key: "T", label: "T", unit: "K" },
+      ...entries.flatMap((ij) => [
+        { key: `N${ij}`, label: `N${ij}`, unit: ROW_UNIT },
+        ...(withU ? [{ key: `u_N${ij}`, label: `u(N${ij})`, unit: ROW_UNIT }] : []),
+      ]),
+      { key: "unit", label: "Unit" },
+    ],
+    rows: d.points.map((p) => {
+      const m = entropyUnitMatrix(d, p);
+      const cells: Record<string, number | string | null> = { point: pointLabel(d, p), T: p.T };
+      entries.forEach((ij) => {
+        const [i, j] = [Number(ij[0]) - 1, Number(ij[1]) - 1];
+        cells[`N${ij}`] = m ? m.N[i][j] : null;
+        if (withU) cells[`u_N${ij}`] = m?.uN ? m.uN[i][j] : null;
+      });
+      cells.unit = "W/K";
+      return cells;
+    }),
+  };
+}
+
 export function positivityForDataset(d: CoefficientsDataset, ctx: CheckContext): CheckResult {
   const { alpha, confidence, resamples } = ctx.settings;
   const pts = evaluatePoints(d, ctx.rngFor(d.sha256, "positivity"), resamples, confidence);
@@ -257,10 +297,21 @@ export function positivityForDataset(d: CoefficientsDataset, ctx: CheckContext):
   ];
   if (broken) assumptions.push("With B ≠ 0 the antisymmetric part of L is allowed; it enters only through the bound K ≥ (L12 − L21)²/(4 G T³), which λ_min ≥ 0 contains.");
   if (d.kelvinAssumed) assumptions.push("Π was set from the Kelvin relation Π(B) = T S(−B) (no Pi column).");
+  if (d.n === 2) {
+    assumptions.push(
+      "The matrix in entropy units, N = D L D with D = diag(k_B/e, 1/T), is the same law written for the entropy currents (k_B/e) I and J_Q/T and the dimensionless forces eΔV/(k_B T) and ΔT/T: every entry is in W/K, N12 = N21 exactly when L12 = L21, and N is positive semi-definite exactly when L is. It is shown for reading; the verdict is computed from L.",
+    );
+  }
   const equations = [
     String.raw`\dot S = X^{\mathsf T} L\, X = X^{\mathsf T} L^{s} X \ge 0, \qquad L^{s} = \tfrac12\,(L + L^{\mathsf T})`,
     String.raw`\lambda_{\min}\!\left( \frac{L^{s}_{ij}}{\sqrt{L^{s}_{ii} L^{s}_{jj}}} \right) \ge 0 \quad\Longleftrightarrow\quad G \ge 0,\;\; K \ge \frac{(L_{12} - L_{21})^2}{4\, G\, T^3}`,
   ];
+  if (d.n === 2) {
+    equations.push(
+      String.raw`N = D\,L\,D, \quad D = \operatorname{diag}\!\left(\frac{k_B}{e}, \frac{1}{T}\right), \quad \dot S = x^{\mathsf T} N\, x, \quad x = \left(\frac{e\,\Delta V}{k_B T}, \frac{\Delta T}{T}\right)`,
+      String.raw`N = \begin{pmatrix} (k_B/e)^2\, G T & (k_B/e)\, G S T \\ (k_B/e)\, G \Pi & K + G S \Pi \end{pmatrix}`,
+    );
+  }
   return {
     check: "positivity",
     dataset: d.id,
@@ -285,19 +336,24 @@ export function positivityForDataset(d: CoefficientsDataset, ctx: CheckContext):
         K: p.K,
         K_bound: p.KBound,
         flags: p.flags,
+        L: d.points[p.index].L,
+        u_L: d.points[p.index].uL,
+        N: entropyUnitMatrix(d, d.points[p.index])?.N ?? null,
+        u_N: entropyUnitMatrix(d, d.points[p.index])?.uN ?? null,
       })),
     },
     criteria: { alpha, confidence },
     assumptions,
     references: [
       "L. Onsager, Phys. Rev. 37, 405 (1931)",
+      "H. B. Callen, Phys. Rev. 73, 1349 (1948)",
       "S. R. de Groot and P. Mazur, Non-Equilibrium Thermodynamics (North-Holland 1962)",
       "G. Benenti, K. Saito and G. Casati, Phys. Rev. Lett. 106, 230602 (2011)",
       "JCGM 101:2008, Evaluation of measurement data — Supplement 1: propagation of distributions using a Monte Carlo method",
       "S. Holm, Scand. J. Stat. 6, 65 (1979)",
     ],
     equations,
-    tables: [pointTable(d, pts)],
+    tables: [pointTable(d, pts), ...(d.n === 2 ? [entropyUnitTable(d)] : [])],
     plots: finite.length ? [eigenvaluePlot(d, pts, confidence)] : [],
   };
 }

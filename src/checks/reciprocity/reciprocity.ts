@@ -16,7 +16,7 @@ import { normalQuantile, normalTwoSidedP } from "../../stats/normal.ts";
 import { studentTTwoSidedP } from "../../stats/studentT.ts";
 import { SIGN_CONVENTION } from "../../physics/thermoelectric.ts";
 import { fmt, numberOption, perDataset } from "../helpers.ts";
-import type { CheckContext, CheckDefinition, CheckResult, Status, TableSpec } from "../types.ts";
+import { ROW_UNIT, type CheckContext, type CheckDefinition, type CheckResult, type Status, type TableSpec } from "../types.ts";
 import type { PlotSpec, Series } from "../plotSpec.ts";
 import { engineeringScale, groupBy, pointLabel, sortedBy, sweepAxisLabel } from "./points.ts";
 import { fractionMarginOption, positiveOption } from "../options.ts";
@@ -195,10 +195,16 @@ export interface ReciprocityDecision {
   reason?: string;
 }
 
-/** Unit of an entry of Callen's charge–heat matrix (2×2) in SI; n > 2 mixes units, so "SI". */
+/**
+ * Unit of an entry of Callen's charge–heat matrix (2×2) in SI: L11 = G T in
+ * S K, L12 and L21 in A K, L22 in W K. With more than two fluxes the entries
+ * are in SI, but which SI unit each has depends on fluxes the audit does not
+ * name, so they are labelled "SI units" and never rescaled.
+ */
+const SI_UNITS = "SI units";
 function entryUnit(d: CoefficientsDataset, i: number, j: number): string {
-  if (d.n !== 2) return "SI units";
-  if (i === 0 && j === 0) return "A K/V";
+  if (d.n !== 2) return SI_UNITS;
+  if (i === 0 && j === 0) return "S K";
   if (i === 1 && j === 1) return "W K";
   return "A K";
 }
@@ -209,8 +215,8 @@ function valueRange(values: readonly number[], unit: string): string {
   if (finite.length === 0) return "undefined (a diagonal entry is not positive)";
   const lo = Math.min(...finite);
   const hi = Math.max(...finite);
-  const { factor, prefix } = unit === "SI units" ? { factor: 1, prefix: "" } : engineeringScale([lo, hi]);
-  const u = unit === "SI units" ? " (SI units)" : ` ${prefix}${unit}`;
+  const { factor, prefix } = unit === SI_UNITS ? { factor: 1, prefix: "" } : engineeringScale([lo, hi]);
+  const u = unit === SI_UNITS ? " (SI units)" : ` ${prefix}${unit}`;
   return hi - lo <= 0.005 * Math.abs(hi) ? `${fmt(hi * factor, 3)}${u}` : `${fmt(lo * factor, 3)}–${fmt(hi * factor, 3)}${u}`;
 }
 
@@ -411,9 +417,10 @@ function asymmetryPlot(d: CoefficientsDataset, results: readonly ComparisonResul
 
 function comparisonTable(d: CoefficientsDataset, results: readonly ComparisonResult[]): TableSpec {
   const kelvin = d.form === "thermoelectric";
-  // Volts with a readable prefix in Kelvin form; Onsager entries stay in SI (entries of one table may differ in unit).
+  // Kelvin form: volts with one readable prefix. Onsager form: each row in its entries' unit (A K for two fluxes), so
+  // the report gives every row its own prefix; with more fluxes the unit is not known and the numbers are not rescaled.
   const { factor, prefix } = kelvin ? engineeringScale(results.flatMap((r) => [r.x, r.y])) : { factor: 1, prefix: "" };
-  const unit = kelvin ? `${prefix}V` : "SI";
+  const unit = kelvin ? `${prefix}V` : ROW_UNIT;
   return {
     id: "comparisons",
     title: kelvin ? "Kelvin relation at each operating point" : "Reciprocity at each operating point",
@@ -422,6 +429,7 @@ function comparisonTable(d: CoefficientsDataset, results: readonly ComparisonRes
       { key: "relation", label: "Relation" },
       { key: "x", label: "Left side", unit },
       { key: "y", label: "Right side", unit },
+      ...(kelvin ? [] : [{ key: "unit", label: "Unit" }]),
       { key: "u", label: "u(difference)", unit },
       { key: "normalised", label: "Asymmetry / scale", unit: "1" },
       { key: "z", label: "z" },
@@ -434,6 +442,7 @@ function comparisonTable(d: CoefficientsDataset, results: readonly ComparisonRes
       relation: r.relation,
       x: r.x * factor,
       y: r.y * factor,
+      ...(kelvin ? {} : { unit: entryUnit(d, r.i, r.j) }),
       u: r.u === null ? null : r.u * factor,
       normalised: r.normalised,
       z: r.z,
@@ -451,10 +460,10 @@ function diagonalTable(d: CoefficientsDataset, results: readonly ComparisonResul
     columns: [
       { key: "point", label: "Operating point" },
       { key: "relation", label: "Relation" },
-      { key: "x", label: "At +B", unit: "SI" },
-      { key: "y", label: "At −B", unit: "SI" },
+      { key: "x", label: "At +B", unit: ROW_UNIT },
+      { key: "y", label: "At −B", unit: ROW_UNIT },
       { key: "unit", label: "Unit" },
-      { key: "u", label: "u(difference)", unit: "SI" },
+      { key: "u", label: "u(difference)", unit: ROW_UNIT },
       { key: "normalised", label: "Asymmetry / scale", unit: "1" },
       { key: "z", label: "z" },
       { key: "p_holm", label: "Holm p" },

@@ -1,3 +1,4 @@
+import { ROW_UNIT } from "../../checks/types.ts";
 import type { ResultDocument } from "../resultDocument.ts";
 import type { CitationSubject } from "./citationSubject.ts";
 
@@ -18,7 +19,8 @@ export const POINTS_CSV_HEADER = ["check", "dataset", "table", "row", "column", 
 /**
  * Every number of every check table, one cell a line (long form, so tables
  * with different columns share one file): which check, dataset and table,
- * the row as a person counts, the column key, its label and unit, the value
+ * the row as a person counts, the column key, its label and unit (the row's
+ * own for a column in each row's unit), the value
  * in shortest round-trip form. Leading `#` lines say what the file is.
  */
 export function pointsCsv(result: ResultDocument, s: CitationSubject): string {
@@ -31,7 +33,9 @@ export function pointsCsv(result: ResultDocument, s: CitationSubject): string {
     for (const t of c.tables ?? []) {
       t.rows.forEach((r, i) => {
         for (const col of t.columns) {
-          lines.push([c.check, c.dataset, t.id, String(i + 1), col.key, col.label, col.unit ?? "", cell(r[col.key])].map(csvField).join(","));
+          // A column in each row's own unit names that row's unit, so every line of the file carries its unit.
+          const unit = col.unit === ROW_UNIT ? cell(r.unit) : col.unit ?? "";
+          lines.push([c.check, c.dataset, t.id, String(i + 1), col.key, col.label, unit, cell(r[col.key])].map(csvField).join(","));
         }
       });
     }

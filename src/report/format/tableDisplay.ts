@@ -1,4 +1,4 @@
-import type { TableSpec } from "../../checks/types.ts";
+import { ROW_UNIT, type TableSpec } from "../../checks/types.ts";
 import { displayUnitFor, type DisplayContext, type DisplayUnit } from "./displayUnit.ts";
 import { numberIn, representativeMagnitude, valueWithUncertaintyText, DEFAULT_DIGITS } from "./formatQuantity.ts";
 import { labelHtml, notationHtml } from "./notationHtml.ts";
@@ -37,7 +37,7 @@ function partnerOf(columns: readonly Column[], i: number): number | undefined {
  * numbers in every row: a row's own unit (a `unit` column) never applies to it.
  */
 function isStatisticColumn(c: Column): boolean {
-  return /^(z|p|p_holm|p_value|chi_square|dof)$/.test(c.key) || /^(z|p)$|^p \(Holm\)$|Holm|χ²|degrees of freedom/i.test(c.label);
+  return /^(z|p|p_holm|p_value|tost_p|chi_square|dof|points)$/.test(c.key) || /^(z|p)$|^p \(Holm\)$|Holm|TOST|χ²|degrees of freedom|^points$/i.test(c.label);
 }
 
 function isNumberColumn(t: TableSpec, key: string): boolean {
@@ -60,8 +60,11 @@ export function tableDisplay(t: TableSpec, ctx: DisplayContext): TableDisplay {
   const cols = t.columns;
   const numeric = cols.map((c) => isNumberColumn(t, c.key));
   const perRowUnit = cols.some((c) => c.key === "unit");
+  // Tables written since ROW_UNIT existed mark the columns in the row's unit; older result documents did not, and
+  // for them every numeric column without a unit we understand, except statistics and counts, is taken to be.
+  const marked = cols.some((c) => c.unit === ROW_UNIT);
   const units: (DisplayUnit | undefined)[] = cols.map((c, i) => {
-    const w = c.unit ? parseWrittenUnit(c.unit) : undefined;
+    const w = c.unit && c.unit !== ROW_UNIT ? parseWrittenUnit(c.unit) : undefined;
     if (!w || !numeric[i]) return undefined;
     const values = t.rows.map((r) => (typeof r[c.key] === "number" ? (r[c.key] as number) * w.si : Number.NaN));
     return displayUnitFor(w.quantity, representativeMagnitude(values), ctx);
@@ -72,10 +75,11 @@ export function tableDisplay(t: TableSpec, ctx: DisplayContext): TableDisplay {
     if (p !== undefined && units[p] && cols[i].unit === cols[p].unit) units[i] = units[p];
   });
   /** Whether a row's own unit (a `unit` column) applies to column i: not to a column with a unit of its own, nor to statistics. */
-  const inRowUnit = (i: number) => numeric[i] && !units[i] && !isStatisticColumn(cols[i]);
-  const siOf = (c: Column) => (c.unit ? parseWrittenUnit(c.unit)?.si ?? 1 : 1);
+  const inRowUnit = (i: number) =>
+    perRowUnit && numeric[i] && (marked ? cols[i].unit === ROW_UNIT : !units[i] && !isStatisticColumn(cols[i]));
+  const siOf = (c: Column) => (c.unit && c.unit !== ROW_UNIT ? parseWrittenUnit(c.unit)?.si ?? 1 : 1);
   const headers = cols.map((c, i) => {
-    const unitText = units[i]?.symbol ?? c.unit ?? (numeric[i] ? (perRowUnit && !isStatisticColumn(c) ? PER_ROW : DIMENSIONLESS) : "");
+    const unitText = inRowUnit(i) || (c.unit === ROW_UNIT && perRowUnit) ? PER_ROW : units[i]?.symbol ?? c.unit ?? (numeric[i] ? DIMENSIONLESS : "");
     const unit = unitText === "1" ? DIMENSIONLESS : unitText === PER_ROW ? PER_ROW : unitText ? labelHtml(unitText) : "";
     return { label: labelHtml(c.label), unit, numeric: numeric[i] };
   });

@@ -9,6 +9,7 @@ import { describe, expect, test } from "vitest";
 import { plainNotation, rewriteNumbers, tokenizeNotation } from "../../../src/report/format/index.ts";
 import { notationHtml } from "../../../src/report/format/notationHtml.ts";
 import { tableDisplay } from "../../../src/report/format/tableDisplay.ts";
+import { ROW_UNIT } from "../../../src/checks/types.ts";
 import { displayPlotSpec } from "../../../src/report/plots/displayPlot.ts";
 
 const plain = (s: string) => s.replaceAll("\u202f", " ");
@@ -157,7 +158,7 @@ describe("tables and plots in display units", () => {
 
   test("fluctuation-dissipation's comparisons: every row in its own unit, its prefix from its own numbers", () => {
     // Rows of the vq5-response-sweep demo (energies in meV): an energy per second is shown in eV/s like a heat
-    // current (1 eV/s = 1.602 176 634 × 10⁻¹⁹ J/s, exact), a particle rate in 1/s; J²/s has no display unit and
+    // current (1 eV/s = 1.602 176 634 × 10⁻¹⁹ J/s, exact), a particle rate in 1/ms; J²/s has no display unit and
     // stays in SI. The p column would otherwise have picked the prefix (EeV/s for a 10⁻¹⁸ J/s estimate).
     const t = tableDisplay(
       {
@@ -182,9 +183,109 @@ describe("tables and plots in display units", () => {
     expect(t.rows.map((r) => r.slice(2).map(plain))).toEqual([
       ["0.7 × 10⁻⁴²", "1.6 × 10⁻⁴²", "9.756 × 10⁻⁴²", "1"],
       ["−1.7", "1.1", "8.721", "0.9604"],
-      ["100", "1900", "20 070", "1"],
+      ["0.1", "1.9", "20.07", "1"],
     ]);
-    expect(t.rows.map((r) => r[1])).toEqual(["J²/s", "eV/s", "1/s"]);
+    // The rate row takes its prefix on the second from its largest number, 20 070 1/s = 20.07 1/ms.
+    expect(t.rows.map((r) => r[1])).toEqual(["J²/s", "eV/s", "1/ms"]);
+  });
+
+  test("reciprocity's diagonal entries: a TOST p-value beside a row's unit stays a probability (marked and older tables)", () => {
+    // Rows of the ab2-thermoelectric-field-sweep demo. Before the fix the unmarked table multiplied the TOST
+    // p = 0.1998 by 10⁶ like G, and the row's prefix came from it: 0.001 821 mS, p = 199.8. L22 in W K
+    // now takes a prefix too: 3.652 × 10⁻¹³ W K = 365.2 fW K (SI Brochure 9th ed., Table 7: f = 10⁻¹⁵).
+    const rows = [
+      { relation: "G(B) = G(−B)", x: 1.8214e-6, y: 1.7638e-6, unit: "S", u: 3.843e-8, z: 1.49, tost_p: 0.1998 },
+      { relation: "L22(B) = L22(−B)", x: 3.652e-13, y: 3.587e-13, unit: "W K", u: 2.036e-14, z: 0.3222, tost_p: 0.2855 },
+    ];
+    const marked = tableDisplay(
+      {
+        id: "diagonal",
+        title: "d",
+        columns: [
+          { key: "relation", label: "Relation" },
+          { key: "x", label: "At +B", unit: ROW_UNIT },
+          { key: "y", label: "At −B", unit: ROW_UNIT },
+          { key: "unit", label: "Unit" },
+          { key: "u", label: "u(difference)", unit: ROW_UNIT },
+          { key: "z", label: "z" },
+          { key: "tost_p", label: "TOST p" },
+        ],
+        rows,
+      },
+      {},
+    );
+    const expected = [
+      ["1.821", "1.764", "µS", "0.038 43", "1.49", "0.1998"],
+      ["365.2", "358.7", "fW K", "20.36", "0.3222", "0.2855"],
+    ];
+    expect(marked.rows.map((r) => r.slice(1).map(plain))).toEqual(expected);
+    expect(marked.headers.map((h) => h.unit).slice(1)).toEqual(["unit as in each row", "unit as in each row", "", "unit as in each row", "dimensionless", "dimensionless"]);
+    // A result document published before columns were marked (no ROW_UNIT anywhere) reads the same.
+    const older = tableDisplay(
+      {
+        id: "diagonal",
+        title: "d",
+        columns: [
+          { key: "relation", label: "Relation" },
+          { key: "x", label: "At +B", unit: "SI" },
+          { key: "y", label: "At −B", unit: "SI" },
+          { key: "unit", label: "Unit" },
+          { key: "u", label: "u(difference)", unit: "SI" },
+          { key: "z", label: "z" },
+          { key: "tost_p", label: "TOST p" },
+        ],
+        rows,
+      },
+      {},
+    );
+    expect(older.rows.map((r) => r.slice(1).map(plain))).toEqual(expected);
+  });
+
+  test("only the columns marked as in the row's unit take it: a count of points beside a flux stays a count", () => {
+    // linear-growth's table: a heat flux of 2.5 × 10⁻¹⁵ W (2.5 fW) fitted over 40 points.
+    const t = tableDisplay(
+      {
+        id: "fluxes",
+        title: "f",
+        columns: [
+          { key: "points", label: "Points" },
+          { key: "flux", label: "Flux", unit: ROW_UNIT },
+          { key: "se", label: "Standard error", unit: ROW_UNIT },
+          { key: "unit", label: "Unit" },
+        ],
+        rows: [{ points: 40, flux: 2.5e-15, se: 1.2e-16, unit: "W" }],
+      },
+      {},
+    );
+    expect(t.rows[0].map(plain)).toEqual(["40", "2.50", "0.12", "fW"]);
+    expect(t.headers[0].unit).toBe("dimensionless");
+  });
+
+  test("an Onsager matrix a row in entropy units takes one prefix per matrix, from its largest entry", () => {
+    // Two rows of N = D L D (W/K): 15.95, −9.35, −9.43, 281 fW/K and a second matrix ten times larger, which
+    // reads in pW/K; every entry of a row shares its row's prefix (SI Brochure 9th ed. §3).
+    const t = tableDisplay(
+      {
+        id: "entropy-units",
+        title: "N",
+        columns: [
+          { key: "N11", label: "N11", unit: ROW_UNIT },
+          { key: "N12", label: "N12", unit: ROW_UNIT },
+          { key: "N21", label: "N21", unit: ROW_UNIT },
+          { key: "N22", label: "N22", unit: ROW_UNIT },
+          { key: "unit", label: "Unit" },
+        ],
+        rows: [
+          { N11: 1.595e-14, N12: -9.35e-15, N21: -9.43e-15, N22: 2.81e-13, unit: "W/K" },
+          { N11: 1.595e-13, N12: -9.35e-14, N21: -9.43e-14, N22: 2.81e-12, unit: "W/K" },
+        ],
+      },
+      {},
+    );
+    expect(t.rows.map((r) => r.map(plain))).toEqual([
+      ["15.95", "−9.35", "−9.43", "281", "fW/K"],
+      ["0.1595", "−0.0935", "−0.0943", "2.81", "pW/K"],
+    ]);
   });
 
   test("a plot axis in W of an eV dataset is redrawn in eV/s with a prefix, like the tables beside it", () => {
