@@ -25,7 +25,7 @@ describe("display", () => {
 
   it("names an unknown quantity with the nearest one, and a unit the quantity cannot take with the accepted ones", () => {
     expect(messageOf(`${valid}display:\n  temprature: mK\n`)).toBe(
-      "audit.yaml:16 display.temprature: is not a quantity (did you mean temperature?): one of energy, affinity, heat_current, particle_current, temperature, chemical_potential, conductance, thermal_conductance, voltage, thermopower, power_factor, lorenz_number, time, field, entropy, entropy_density, onsager_charge, onsager_mixed, onsager_heat, dimensionless",
+      "audit.yaml:16 display.temprature: is not a quantity (did you mean temperature?): one of energy, affinity, heat_current, particle_current, temperature, chemical_potential, conductance, thermal_conductance, voltage, thermopower, power_factor, lorenz_number, time, field, entropy, entropy_density, energy_squared_rate, onsager_charge, onsager_mixed, onsager_heat, dimensionless",
     );
     expect(messageOf(`${valid}display:\n  temperature: MK\n`)).toBe(
       "audit.yaml:16 display.temperature: cannot show temperature in MK (did you mean mK?): one of auto, K, pK, nK, µK, mK",

@@ -197,6 +197,8 @@ describe("LaTeX table", () => {
     expect(latexText("<x xᵀ>₀ < 1")).toBe("\\textless{}x x$^\\mathsf{T}$\\textgreater{}$_0$ \\textless{} \\num{1}");
     // Numbers in display units through siunitx: 0.12 K is 120 mK; 6.69e-4 as \num{6.69e-4}, which siunitx sets as 6.69 × 10⁻⁴.
     expect(latexText("T_A = 0.12 K, ZT = 6.69e-4")).toBe("$T_{\\mathrm{A}}$ = \\num{120}\\,\\si{\\milli\\kelvin}, ZT = \\num{6.69e-4}");
+    // β̄ (β with a combining macron, the mean inverse temperature) keeps its bar; it was once printed as plain β.
+    expect(latexText("β̄·ε₂ + a_Q")).toBe("$\\bar{\\beta} \\cdot \\varepsilon _2$ + $a_{\\mathrm{Q}}$");
     // The table's old double-superscript: the Lorenz number's unit in siunitx, W Ω K⁻² with its prefix.
     expect(latexText("L0 = 2.443e-8 W Ω K⁻²")).toBe("L0 = \\num{24.43}\\,\\si{\\nano\\watt\\ohm\\per\\kelvin\\squared}");
   });

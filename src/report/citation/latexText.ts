@@ -35,7 +35,15 @@ type Piece = { math: boolean; tex: string };
 
 /** Plain characters: escaped, symbols as math; a character with no ASCII spelling becomes `?` (never raw UTF-8, which pdfLaTeX may refuse). */
 function characters(text: string, push: (p: Piece) => void): void {
-  for (const c of text) {
+  const chars = [...text];
+  for (let i = 0; i < chars.length; i++) {
+    const c = chars[i];
+    // A letter with a combining macron is a different quantity (β̄, the mean inverse temperature, is not β): \bar it.
+    if (chars[i + 1] === "\u0304" && (c in UNICODE_MATH || /^[A-Za-z]$/.test(c))) {
+      push({ math: true, tex: `\\bar{${UNICODE_MATH[c] ?? c}}` });
+      i++;
+      continue;
+    }
     if (c in UNICODE_MATH) push({ math: true, tex: UNICODE_MATH[c] });
     else if (c in SPECIAL_TEXT) push({ math: false, tex: SPECIAL_TEXT[c] });
     else if (c in UNICODE_TEXT) push({ math: false, tex: UNICODE_TEXT[c] });

@@ -26,6 +26,7 @@ function defaultBase(quantity: Quantity, ctx: DisplayContext): string {
   const joules = ctx.energyUnit === "J";
   if (quantity === "energy" || quantity === "chemical_potential") return joules ? "J" : "eV";
   if (quantity === "affinity") return joules ? "1/J" : "1/eV";
+  if (quantity === "energy_squared_rate") return joules ? "J2/s" : "eV2/s";
   // Heat currents follow a declared electronvolt unit (meV/s beside energies in meV); without a declared
   // energy unit (coefficient tables are in SI) they stay in watts: a megaelectronvolt per second
   // misleads more than it helps.
@@ -39,8 +40,9 @@ function build(quantity: Quantity, baseName: string, exponent: number, temperatu
   const symbol =
     base.prefix === "denominator" ? base.symbol.replace("1/", `1/${p.symbol}`) : base.prefix === "numerator" ? `${p.symbol}${base.symbol}` : base.symbol;
   const siunitx = base.siunitx.replace("<p>", p.name ? `${p.name}\\` : "").replace("\\\\", "\\");
-  // A prefix in the denominator: 1/meV = 10³/eV, so shown = SI / base.si / 10^(−exponent).
-  const scale = base.prefix === "denominator" ? 10 ** -exponent : 10 ** exponent;
+  // A prefix in the denominator: 1/meV = 10³/eV, so shown = SI / base.si / 10^(−exponent). A squared unit squares
+  // its prefix: 1 meV²/s = 10⁻⁶ eV²/s.
+  const scale = base.prefix === "denominator" ? 10 ** -exponent : 10 ** (exponent * (base.power ?? 1));
   const si = base.timesTemperature ? base.si * temperature : base.si;
   return { quantity, symbol, siunitx, perSI: 1 / (si * scale) };
 }
@@ -97,6 +99,10 @@ export function displayUnitFor(quantity: Quantity, magnitude: number, ctx: Displ
   const [lo, hi] = base.range ?? [-24, 24];
   const inBase = magnitude / base.si;
   // In the denominator the prefix works the other way: 1/meV is 10³ per eV, so 7.7 per eV would be 0.0077 per meV.
-  const exponent = base.prefix === "denominator" ? -prefixExponentFor(inBase, -hi, -lo) : prefixExponentFor(inBase, lo, hi);
+  // A squared unit takes the prefix that puts the square root of the number in [1, 1000): the number itself then
+  // lies in [1, 10⁶), as close to the SI Brochure's range as a prefix squared allows.
+  const power = base.power ?? 1;
+  const exponent =
+    base.prefix === "denominator" ? -prefixExponentFor(inBase, -hi, -lo) : prefixExponentFor(power === 1 ? inBase : Math.abs(inBase) ** (1 / power), lo, hi);
   return build(quantity, baseName, exponent === 0 ? 0 : exponent);
 }

@@ -22,6 +22,7 @@ export const QUANTITIES = [
   "field",
   "entropy",
   "entropy_density",
+  "energy_squared_rate",
   "onsager_charge",
   "onsager_mixed",
   "onsager_heat",
@@ -42,6 +43,8 @@ export interface UnitBase {
   range?: [number, number];
   /** One of it is `si` × T SI units, T the temperature of the numbers shown (the thermal conductance quantum). */
   timesTemperature?: boolean;
+  /** Power the prefixed unit is raised to (meV²/s: the milli is squared, 1 meV²/s = 10⁻⁶ eV²/s); 1 when absent. */
+  power?: number;
 }
 
 const e = ELEMENTARY_CHARGE;
@@ -65,6 +68,9 @@ export const BASES: Record<string, UnitBase> = {
   "1/eV": { symbol: "1/eV", si: 1 / e, prefix: "denominator", siunitx: "\\per\\<p>electronvolt" },
   W: { symbol: "W", si: 1, prefix: "numerator", siunitx: "\\<p>watt" },
   "eV/s": { symbol: "eV/s", si: e, prefix: "numerator", siunitx: "\\<p>electronvolt\\per\\second" },
+  // An energy squared per second: the heat–heat entry of an Onsager matrix of energy and particle currents.
+  "eV2/s": { symbol: "eV²/s", si: e * e, prefix: "numerator", power: 2, siunitx: "\\<p>electronvolt\\squared\\per\\second" },
+  "J2/s": { symbol: "J²/s", si: 1, prefix: "numerator", power: 2, siunitx: "\\<p>joule\\squared\\per\\second" },
   // A rate takes its prefix on the second (120 1/µs, SI Brochure 9th ed. §3: a prefix attaches to the unit symbol
   // and is raised to its power), from picoseconds to seconds: 1/ks would read as a slower clock, not a smaller rate.
   "1/s": { symbol: "1/s", si: 1, prefix: "denominator", siunitx: "\\per\\<p>second", range: [-12, 0] },
@@ -109,6 +115,7 @@ export const QUANTITY_BASES: Record<Quantity, string[]> = {
   field: ["T"],
   entropy: ["kB"],
   entropy_density: ["1/kB"],
+  energy_squared_rate: ["eV2/s", "J2/s"],
   onsager_charge: ["S K"],
   onsager_mixed: ["A K"],
   onsager_heat: ["W K"],

@@ -15,8 +15,9 @@ import { parseWrittenUnit } from "./writtenUnits.ts";
  * (`count-2ns`, `lc60`, `L12`) is part of a name and is never touched.
  */
 const UNIT =
-  // Two-word units first: the entries of Callen's matrix (S K, A K, W K) would otherwise be read as S, A or W and a K.
-  "[yzafpnµum]?S K|[yzafpnµum]?A K|[yzafpnµum]?W K|1/[yzafpnµumk]?eV|[yzafpnµumk]?eV/s|[yzafpnµumk]?eV|[yzafpnµum]?W Ω K⁻²|[yzafpnµum]?W/K²|[yzafpnµum]?W/K|[pnµum]?V/K|[yzafpnµum]?W|[yzafpnµum]?J|[pnµum]?S|[pnµum]?V|[nµum]?K|[yzafpnµum]?s|[µum]?T|1/[pnµum]?s|k_B";
+  // Longer units first: the entries of Callen's matrix (S K, A K, W K) would otherwise be read as S, A or W and a K,
+  // and J²/s, J/s or 1/J would not be read at all.
+  "[yzafpnµum]?S K|[yzafpnµum]?A K|[yzafpnµum]?W K|[yzafpnµumk]?eV²/s|[yzafpnµum]?J²/s|[yzafpnµum]?J/s|1/[yzafpnµum]?J|1/[yzafpnµumk]?eV|[yzafpnµumk]?eV/s|[yzafpnµumk]?eV|[yzafpnµum]?W Ω K⁻²|[yzafpnµum]?W/K²|[yzafpnµum]?W/K|[pnµum]?V/K|[yzafpnµum]?W|[yzafpnµum]?J|[pnµum]?S|[pnµum]?V|[nµum]?K|[yzafpnµum]?s|[µum]?T|1/[pnµum]?s|k_B";
 const NUM = "(?<![\\p{L}\\p{N}_.^/])(?<![\\p{L}\\p{N}][-−])(?<sign>[−+-]?)(?<digits>\\d+(?:\\.\\d+)?)(?:e(?<exp>[+−-]?\\d+))?";
 const UNIT_AFTER = `(?:(?<space> ?)(?<unit>${UNIT})(?![\\p{L}\\p{N}_/²⁻]))?(?![\\p{L}\\p{N}_])`;
 /**

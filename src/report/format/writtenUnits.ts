@@ -14,7 +14,10 @@ export interface WrittenUnit {
  * with the quantity it measures. Written units outside this list are shown as
  * they are, unconverted: a unit we do not understand is never rescaled.
  */
-const FORMS: { pattern: RegExp; quantity: Quantity; si: number }[] = [
+const FORMS: { pattern: RegExp; quantity: Quantity; si: number; power?: number }[] = [
+  // Squared energies per second before the energies: the prefix is squared with its unit (1 meV²/s = 10⁻⁶ eV²/s).
+  { pattern: /^(?<p>[yzafpnµumk]?)eV²\/s$/, quantity: "energy_squared_rate", si: ELEMENTARY_CHARGE * ELEMENTARY_CHARGE, power: 2 },
+  { pattern: /^(?<p>[yzafpnµum]?)J²\/s$/, quantity: "energy_squared_rate", si: 1, power: 2 },
   { pattern: /^(?<p>[yzafpnµumk]?)eV$/, quantity: "energy", si: ELEMENTARY_CHARGE },
   { pattern: /^(?<p>[yzafpnµum]?)J$/, quantity: "energy", si: 1 },
   { pattern: /^1\/(?<p>[yzafpnµumk]?)eV$/, quantity: "affinity", si: 1 / ELEMENTARY_CHARGE },
@@ -52,7 +55,7 @@ export function parseWrittenUnit(unit: string): WrittenUnit | undefined {
     const exp = p?.exponent ?? 0;
     // A prefix in the denominator divides: 1/meV is 10³ per eV.
     const inverse = u.startsWith("1/");
-    return { quantity: f.quantity, si: f.si * 10 ** (inverse ? -exp : exp) };
+    return { quantity: f.quantity, si: f.si * 10 ** ((inverse ? -exp : exp) * (f.power ?? 1)) };
   }
   return undefined;
 }

@@ -158,8 +158,8 @@ describe("tables and plots in display units", () => {
 
   test("fluctuation-dissipation's comparisons: every row in its own unit, its prefix from its own numbers", () => {
     // Rows of the vq5-response-sweep demo (energies in meV): an energy per second is shown in eV/s like a heat
-    // current (1 eV/s = 1.602 176 634 × 10⁻¹⁹ J/s, exact), a particle rate in 1/ms; J²/s has no display unit and
-    // stays in SI. The p column would otherwise have picked the prefix (EeV/s for a 10⁻¹⁸ J/s estimate).
+    // current (1 eV/s = 1.602 176 634 × 10⁻¹⁹ J/s, exact), a particle rate in 1/ms, an energy squared per second
+    // in meV²/s. The p column would otherwise have picked the prefix (EeV/s for a 10⁻¹⁸ J/s estimate).
     const t = tableDisplay(
       {
         id: "comparisons",
@@ -181,12 +181,14 @@ describe("tables and plots in display units", () => {
       { energyUnit: "meV" },
     );
     expect(t.rows.map((r) => r.slice(2).map(plain))).toEqual([
-      ["0.7 × 10⁻⁴²", "1.6 × 10⁻⁴²", "9.756 × 10⁻⁴²", "1"],
+      ["26", "62", "380.1", "1"],
       ["−1.7", "1.1", "8.721", "0.9604"],
       ["0.1", "1.9", "20.07", "1"],
     ]);
     // The rate row takes its prefix on the second from its largest number, 20 070 1/s = 20.07 1/ms.
-    expect(t.rows.map((r) => r[1])).toEqual(["J²/s", "eV/s", "1/ms"]);
+    // J²/s in meV²/s: e² = 2.566 969 932 × 10⁻³⁸ J² per eV² (exact), so 9.756 × 10⁻⁴² J²/s = 3.8006 × 10⁻⁴ eV²/s
+    // = 380.1 meV²/s; the milli is squared with its unit (SI Brochure 9th ed. §3.1).
+    expect(t.rows.map((r) => r[1])).toEqual(["meV²/s", "eV/s", "1/ms"]);
   });
 
   test("reciprocity's diagonal entries: a TOST p-value beside a row's unit stays a probability (marked and older tables)", () => {
@@ -286,6 +288,18 @@ describe("tables and plots in display units", () => {
       ["15.95", "−9.35", "−9.43", "281", "fW/K"],
       ["0.1595", "−0.0935", "−0.0943", "2.81", "pW/K"],
     ]);
+  });
+
+  test("sentences: 1/J, J/s and J²/s are read as units and shown in the dataset's energy unit", () => {
+    // From the dd8 and vq5 demos (energies in meV). 1/J → 1/meV multiplies by e/10³ = 1.602 176 634 × 10⁻²²:
+    // −5.73 × 10²³ 1/J = −91.80 1/meV. 1.257 × 10⁻¹⁷ J/s / e = 78.46 eV/s. J²/s → meV²/s divides by
+    // (e × 10⁻³)² = 2.566 969 932 × 10⁻⁴⁴: 9.756 × 10⁻⁴² J²/s = 380.1 meV²/s (SI 2019 exact e).
+    const ctx = { energyUnit: "meV" };
+    expect(plain(rewriteNumbers("β̄·ε₂ + a_Q = -5.73e+23 ± 6.2e+21 1/J (declared -5.794e+23 1/J).", ctx))).toBe("β̄·ε₂ + a_Q = (−91.80 ± 0.99) 1/meV (declared −92.83 1/meV).");
+    expect(plain(rewriteNumbers("(slope 1.257e-17 J/s)", ctx))).toBe("(slope 78.46 eV/s)");
+    expect(plain(rewriteNumbers("L = 9.756e-42 J²/s", ctx))).toBe("L = 380.1 meV²/s");
+    // In joules the squared unit keeps joules and squares its prefix: 9.756 × 10⁻⁴² J²/s = 9.756 zJ²/s (zepto² = 10⁻⁴²).
+    expect(plain(rewriteNumbers("L = 9.756e-42 J²/s", { energyUnit: "J" }))).toBe("L = 9.756 zJ²/s");
   });
 
   test("a plot axis in W of an eV dataset is redrawn in eV/s with a prefix, like the tables beside it", () => {
