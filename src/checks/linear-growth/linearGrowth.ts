@@ -58,7 +58,7 @@ function flagsSentence(g: ChannelGrowth): string[] {
   const out: string[] = [];
   const w = g.search?.window;
   if (!w) return out;
-  if (w.onset) out.push(`a transient precedes the window (onset at τ ≈ ${fmt(w.onset.time)} s, between samples ${fmt(w.onset.bracket[0])} and ${fmt(w.onset.bracket[1])} s)`);
+  if (w.onset) out.push(`a transient precedes the window (onset at τ ≈ ${fmt(w.onset.time)} s, between the samples at ${fmt(w.onset.bracket[0])} s and ${fmt(w.onset.bracket[1])} s)`);
   if (w.finish && g.finiteSize) out.push(`${g.finiteSize.description}, from τ ≈ ${fmt(w.finish.time)} s`);
   if (!w.finish) out.push("the window reaches the longest contact time sampled, so where finite-size effects set in is not yet seen");
   return out;
