@@ -14,11 +14,21 @@ import type { ConductorStates } from "./types.ts";
  * a stationary start, x₀ is distributed as p.
  */
 
-/** Row labels checked as integers (problems logged with the row's line and column). */
+/**
+ * The largest magnitude of a state label: labels are held as 32-bit integers (a trace's states), whose
+ * range ends at 2^31 − 1 ≈ 2.1e9; a larger label would wrap onto another state's.
+ */
+export const MAX_STATE_LABEL = 1e9;
+
+/**
+ * Row labels checked as integers of magnitude at most MAX_STATE_LABEL (problems logged with the row's
+ * line and column, and the number read, so that the message can quote the cell as written).
+ */
 export function stateLabels(values: Float64Array, rows: number, lines: ArrayLike<number>, column: string, problems: ProblemLog): void {
   for (let i = 0; i < rows; i++) {
     const v = values[i];
-    if (!Number.isInteger(v) || Math.abs(v) > 1e9) recordProblem(problems, lines[i], column, "expected an integer state label", v);
+    if (!Number.isInteger(v)) recordProblem(problems, lines[i], column, "expected an integer state label", v);
+    else if (Math.abs(v) > MAX_STATE_LABEL) recordProblem(problems, lines[i], column, "expected a state label of magnitude at most 1e9", v);
   }
 }
 
