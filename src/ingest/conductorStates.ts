@@ -32,6 +32,11 @@ export function stateLabels(values: Float64Array, rows: number, lines: ArrayLike
   }
 }
 
+/** The labels (ascending, once each) to which a declared stationary distribution gives no probability. */
+export function undeclaredStates(labels: readonly number[], declared: Record<string, number>): number[] {
+  return labels.filter((l) => declared[String(l)] === undefined);
+}
+
 export interface StateInput {
   start: Float64Array;
   end: Float64Array;
@@ -61,7 +66,7 @@ export function conductorStates(input: StateInput): ConductorStates {
   let source: ConductorStates["source"];
   if (input.declared) {
     source = "declared";
-    const missing = labels.filter((l) => input.declared![String(l)] === undefined);
+    const missing = undeclaredStates(labels, input.declared);
     if (missing.length > 0) {
       throw new DataError(
         `${input.where}.state_distribution: gives no probability for state${missing.length > 1 ? "s" : ""} ${missing.join(", ")}, which ${input.file} shows; declare the stationary probability of every state`,

@@ -10,7 +10,7 @@ import { detectionStatistics } from "./detectionStatistics.ts";
 import { detectTransitions } from "./hysteresis.ts";
 import { mapJumps, unmappedJumps, unmappedJumpsMessage, unresolvedJumps, type UnmappedJump } from "./transitionMap.ts";
 import { quotedCells, writtenCellTexts, type CellTextLookup } from "../cellTexts.ts";
-import { stateLabels } from "../conductorStates.ts";
+import { stateLabels, undeclaredStates } from "../conductorStates.ts";
 import { traceOccupancy } from "./traceOccupancy.ts";
 
 const SECONDS: Record<TraceDatasetConfig["time_unit"], number> = { s: 1, ms: 1e-3, us: 1e-6, "µs": 1e-6, ns: 1e-9, ps: 1e-12 };
@@ -98,6 +98,13 @@ export async function loadTrace(config: TraceDatasetConfig, filePath: string, ke
     const quoted = await quotedCells(lookup, jumps.flatMap((j) => [cellOf(valueColumn, rawValue, j.first - 1), cellOf(valueColumn, rawValue, j.first)]));
     return jumps.map((j, k) => `${quoted[2 * k]} → ${quoted[2 * k + 1]} ${place(j)}`);
   };
+  // States a declared distribution leaves out, each with the first row of the trace in that state.
+  const undeclaredMessage = async (missing: number[]): Promise<string> => {
+    const firsts = missing.map((l) => states.indexOf(l));
+    const quoted = await quotedCells(lookup, firsts.map((i) => cellOf(valueColumn, rawValue, i)));
+    const named = missing.map((l, k) => `${l} (first at ${lineOf(firsts[k])}, column "${valueColumn}": ${quoted[k]})`);
+    return `${where}.state_distribution: gives no probability for state${missing.length > 1 ? "s" : ""} ${named.join(", ")}, which ${config.file} shows; declare the stationary probability of every state`;
+  };
   if (times.length < 2) throw new DataError(`${config.file}: the trace holds ${times.length} known state${times.length === 1 ? "" : "s"}; at least a start and one more row are needed to cut windows`);
   const unmapped = unmappedJumps(config, states);
   if (unmapped.length > 0) throw new DataError(unmappedJumpsMessage(config, await namedJumps(unmapped), where));
@@ -131,6 +138,12 @@ export async function loadTrace(config: TraceDatasetConfig, filePath: string, ke
       series,
       state_distribution: config.state_distribution,
     };
+    if (config.signal === "transitions" && config.state_distribution) {
+      // As conductorStates refuses it, but naming where the trace first shows each such state, as written.
+      const labels = [...new Set([...w.start, ...w.end])].sort((a, b) => a - b);
+      const missing = undeclaredStates(labels, config.state_distribution);
+      if (missing.length > 0) throw new DataError(await undeclaredMessage(missing));
+    }
     const lines = Uint32Array.from({ length: n }, (_, i) => i + 1);
     const d = samplesFromColumns(samplesConfig, `${keyPath}.windows[${k}]`, { dE_A: w.dE_A, dE_B: w.dE_B, dN_A: w.dN_A, dN_B: w.dN_B, state_start: w.start, state_end: w.end }, n, lines, table.sha256);
     const block = blockLengthFor([w.dN_B, d.sigma]);

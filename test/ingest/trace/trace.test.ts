@@ -130,6 +130,14 @@ describe("trace cells in messages, as written", () => {
     );
   });
 
+  it("names where the trace first shows a state the declared distribution leaves out, as written", async () => {
+    // Windows of 1 ns start at 0, 1, 2 and 3 ns; at 1 ns the dot is in state 2 (since 0.7 ns), which is not declared.
+    const yaml = TRACE_YAML.replace("    windows: [1, 2]\n", "    windows: [1, 2]\n    state_distribution: { 0: 0.5, 1: 0.5 }\n");
+    expect(await refusal("t,s\n0,0\n0.3,1\n0.7,2.0\n1.2,0\n1.5,1\n2.5,2\n2.6,0\n3.1,0\n4.2,1\n", yaml)).toBe(
+      'audit.yaml datasets[0].state_distribution: gives no probability for state 2 (first at line 4, column "s": "2.0"), which data/trace.csv shows; declare the stationary probability of every state',
+    );
+  });
+
   it("gives Parquet cells, which have no text, as the doubles they store, at their rows", async () => {
     const parquet = (s: number[]) => {
       const dir = tempAudit(TRACE_YAML.replace("data/trace.csv", "data/trace.parquet"));
