@@ -1,4 +1,3 @@
-import { DataError } from "../../errors.ts";
 import type { TraceDatasetConfig } from "../../config/types.ts";
 
 /** What one jump of the conductor moves into each lead (declared energy unit). */
