@@ -2,6 +2,7 @@ import fs from "node:fs";
 import { Readable } from "node:stream";
 import { parse } from "csv-parse";
 import type { CellProblem } from "../errors.ts";
+import { describeStoredNumber, quoteForMessage } from "../messageText.ts";
 import { tableParseOptions } from "./readCsv.ts";
 import { WHITESPACE_RUNS } from "./fast/scanLines.ts";
 import { openDataFile } from "./sources/openDataFile.ts";
@@ -44,6 +45,30 @@ export async function writtenCellTexts(request: SourceRequest, problems: CellPro
   } finally {
     fs.closeSync(fd);
   }
+}
+
+/** A reader's look-up of problems' cells as written (text files; `writtenCellTexts` bound to its request). */
+export type CellTextLookup = (problems: CellProblem[]) => Promise<void>;
+
+/** One cell a message names inside its words: its line (or row), column, and the number it was read as. */
+export interface NamedCell {
+  row: number;
+  column: string;
+  found: number;
+}
+
+/**
+ * Cells as a message quotes them where the value stands inside the words (`mean transfer "1e160" is
+ * …`) rather than after them (CellProblem.found does that). A text file's cell is quoted as written,
+ * looked up on this error path only; a binary file's cell (Parquet, HDF5, NumPy: no `lookup`) has no
+ * text, and its stored double prints exactly (ECMA-262 Number::toString, the shortest decimal that
+ * reads back as it). A text file that cannot be read again gives the number, worded as
+ * describeStoredNumber words it, rather than no message.
+ */
+export async function quotedCells(lookup: CellTextLookup | undefined, cells: NamedCell[]): Promise<string[]> {
+  const problems: CellProblem[] = cells.map((c) => ({ row: c.row, column: c.column, message: "", found: c.found }));
+  if (lookup) await lookup(problems).catch(() => undefined);
+  return problems.map((p) => (p.text !== undefined ? quoteForMessage(p.text) : lookup ? describeStoredNumber(p.found!) : String(p.found)));
 }
 
 /** The field (0-based) that holds a column, by the name messages give it. */

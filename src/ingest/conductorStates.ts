@@ -14,12 +14,27 @@ import type { ConductorStates } from "./types.ts";
  * a stationary start, x₀ is distributed as p.
  */
 
-/** Row labels checked as integers (problems logged with the row's line and column). */
+/**
+ * The largest magnitude of a state label: labels are held as 32-bit integers (a trace's states), whose
+ * range ends at 2^31 − 1 ≈ 2.1e9; a larger label would wrap onto another state's.
+ */
+export const MAX_STATE_LABEL = 1e9;
+
+/**
+ * Row labels checked as integers of magnitude at most MAX_STATE_LABEL (problems logged with the row's
+ * line and column, and the number read, so that the message can quote the cell as written).
+ */
 export function stateLabels(values: Float64Array, rows: number, lines: ArrayLike<number>, column: string, problems: ProblemLog): void {
   for (let i = 0; i < rows; i++) {
     const v = values[i];
-    if (!Number.isInteger(v) || Math.abs(v) > 1e9) recordProblem(problems, lines[i], column, "expected an integer state label", v);
+    if (!Number.isInteger(v)) recordProblem(problems, lines[i], column, "expected an integer state label", v);
+    else if (Math.abs(v) > MAX_STATE_LABEL) recordProblem(problems, lines[i], column, "expected a state label of magnitude at most 1e9", v);
   }
+}
+
+/** The labels (ascending, once each) to which a declared stationary distribution gives no probability. */
+export function undeclaredStates(labels: readonly number[], declared: Record<string, number>): number[] {
+  return labels.filter((l) => declared[String(l)] === undefined);
 }
 
 export interface StateInput {
@@ -51,7 +66,7 @@ export function conductorStates(input: StateInput): ConductorStates {
   let source: ConductorStates["source"];
   if (input.declared) {
     source = "declared";
-    const missing = labels.filter((l) => input.declared![String(l)] === undefined);
+    const missing = undeclaredStates(labels, input.declared);
     if (missing.length > 0) {
       throw new DataError(
         `${input.where}.state_distribution: gives no probability for state${missing.length > 1 ? "s" : ""} ${missing.join(", ")}, which ${input.file} shows; declare the stationary probability of every state`,

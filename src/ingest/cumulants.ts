@@ -1,9 +1,10 @@
-import { ConfigError, DataError, formatCellProblems, type CellProblem } from "../errors.ts";
+import { ConfigError, DataError, formatCellProblems, formatRowNumberedProblems, MAX_REPORTED_PROBLEMS, type CellProblem } from "../errors.ts";
 import type { CumulantsDatasetConfig } from "../config/types.ts";
 import type { CumulantRole } from "../config/cumulantsSchema.ts";
 import { HBAR } from "../physics/constants.ts";
 import { joulesPerEnergyUnit, type EnergyUnit } from "../physics/energyUnits.ts";
-import { readNumericCsv, type ColumnRequest, type NumericTable, type TableReader } from "./readCsv.ts";
+import { quotedCells } from "./cellTexts.ts";
+import { readNumericCsv, type ColumnRequest, type TableReader } from "./readCsv.ts";
 import { agreedUnit, unitStatements } from "./sources/fileEnergyUnit.ts";
 import type { SourceTable } from "./sources/readSourceTable.ts";
 import { requirePositions } from "./sources/positionalColumns.ts";
@@ -65,7 +66,7 @@ export async function loadCumulants(
     column: mapped[role] ?? role,
     optional: role !== "tau" && mapped[role] === undefined,
   }));
-  const table: NumericTable & { format?: string; units?: SourceTable["units"] } = await read(requests);
+  const table: Awaited<ReturnType<TableReader>> & { units?: SourceTable["units"]; located?: SourceTable["located"] } = await read(requests);
   // Without energy_unit: the unit the file states for Q and u_Q (HDF5 `units` attributes), else J.
   const stated = config.energy_unit === undefined ? agreedUnit(unitStatements({ columns: requests.map((r, i) => ({ ...r, role: roles[i] })), label: config.file }, table.units, ["Q", "u_Q"]), false, keyPath) : null;
   config = { ...config, energy_unit: config.energy_unit ?? stated?.unit ?? "J" };
@@ -81,53 +82,71 @@ export async function loadCumulants(
     if (col(u) && !col(x)) throw new DataError(`${config.file}: column "${columnOf(u)}" gives ${ROLE_MEANING[u]}, but there is no column for ${x}`);
   }
 
-  const problems: CellProblem[] = [];
+  // A problem is worded once the cells it names are known as the file writes them: `1.0e-3` is not
+  // shown as 0.001, nor `1.50` as 1.5 (text files are read again for them, on this error path only).
+  // A binary file's cell (Parquet, HDF5, NumPy) has no text: it is given as the double it stores.
+  const pending: { i: number; role: CumulantRole; cells: CumulantRole[]; word: (quoted: string[]) => string }[] = [];
   let count = 0;
-  const note = (i: number, role: CumulantRole, message: string) => {
+  const note = (i: number, role: CumulantRole, cells: CumulantRole[], word: (quoted: string[]) => string) => {
     count++;
-    if (problems.length < 20) problems.push({ row: table.lineOfRow[i], column: columnOf(role), message });
+    if (pending.length < MAX_REPORTED_PROBLEMS) pending.push({ i, role, cells, word });
+  };
+  const byRow = table.located === "row";
+  const cellOf = (i: number, role: CumulantRole) => ({ row: table.lineOfRow[i], column: columnOf(role), found: col(role)![i] });
+  const refusal = async (): Promise<DataError> => {
+    const quoted = await quotedCells(table.cellTexts, pending.flatMap((p) => p.cells.map((role) => cellOf(p.i, role))));
+    let k = 0;
+    const problems: CellProblem[] = pending.map((p) => ({ row: table.lineOfRow[p.i], column: columnOf(p.role), message: p.word(quoted.slice(k, (k += p.cells.length))) }));
+    // A binary file has no lines: its rows are counted from 1 (`data/curve.parquet, row 14, column …`).
+    return new DataError(byRow ? formatRowNumberedProblems(config.file, problems, count) : formatCellProblems(config.file, problems, MAX_REPORTED_PROBLEMS, count));
   };
   const tauRaw = col("tau")!;
   const factorOf: Record<"u_Q" | "u_dN", number> = { u_Q: joules, u_dN: 1 };
   for (let i = 0; i < table.rows; i++) {
-    if (!(tauRaw[i] > 0)) note(i, "tau", `expected a positive contact time, found ${tauRaw[i]}`);
-    else if (!(tauRaw[i] * seconds > 0)) note(i, "tau", `contact time ${tauRaw[i]} ${config.time_unit} is 0 s in double precision; give it in a larger time unit`);
+    if (!(tauRaw[i] > 0)) note(i, "tau", ["tau"], ([t]) => `expected a positive contact time, found ${t}`);
+    else if (!(tauRaw[i] * seconds > 0)) note(i, "tau", ["tau"], ([t]) => `contact time ${t} ${config.time_unit} is 0 s in double precision; give it in a larger time unit`);
     for (const u of ["u_Q", "u_dN"] as const) {
       const v = col(u)?.[i];
       if (v === undefined) continue;
-      if (!(v > 0)) note(i, u, `expected a positive standard uncertainty, found ${v}`);
+      if (!(v > 0)) note(i, u, [u], ([w]) => `expected a positive standard uncertainty, found ${w}`);
       else if (!isUsableVariance(v * factorOf[u])) {
         // The fit weights each row by 1/u² (in SI units); a square that underflows to 0 or overflows cannot weight anything.
-        note(i, u, `standard uncertainty ${v} cannot weight the fit: its square in SI units is ${(v * factorOf[u]) ** 2 > 0 ? "beyond" : "below"} the range of double precision`);
+        const side = (v * factorOf[u]) ** 2 > 0 ? "beyond" : "below";
+        note(i, u, [u], ([w]) => `standard uncertainty ${w} cannot weight the fit: its square in SI units is ${side} the range of double precision`);
       }
     }
   }
-  if (count) throw new DataError(formatCellProblems(config.file, problems, 20, count));
+  if (count) throw await refusal();
 
   // The linear-growth fit forms sums of t², x² and (x/u)² over the rows (Bevington & Robinson, Data Reduction
   // and Error Analysis, 3rd ed., §6.3): values whose squares overflow double precision cannot be fitted.
   const n = table.rows;
   const squares = (x: number) => Number.isFinite(x * x * n);
   for (let i = 0; i < n; i++) {
-    if (!squares(tauRaw[i] * seconds)) note(i, "tau", `contact time ${tauRaw[i]} ${config.time_unit} is beyond the range a least-squares fit can square in double precision; check the time unit`);
+    if (!squares(tauRaw[i] * seconds)) {
+      note(i, "tau", ["tau"], ([t]) => `contact time ${t} ${config.time_unit} is beyond the range a least-squares fit can square in double precision; check the time unit`);
+    }
     for (const [x, u, factor] of [["Q", "u_Q", joules], ["dN", "u_dN", 1]] as const) {
       const v = col(x)?.[i];
       if (v === undefined) continue;
       const w = col(u)?.[i];
-      if (!squares(v * factor)) note(i, x, `mean transfer ${v} is beyond the range a least-squares fit can square in double precision; check the unit`);
+      if (!squares(v * factor)) note(i, x, [x], ([m]) => `mean transfer ${m} is beyond the range a least-squares fit can square in double precision; check the unit`);
       else if (w !== undefined && !squares((v * factor) / (w * factor))) {
-        note(i, x, `mean transfer ${v} is ${(v / w).toPrecision(3)} times its standard uncertainty ${w}, beyond what a weighted fit can square in double precision; check the value and its uncertainty`);
+        const ratio = (v / w).toPrecision(3);
+        note(i, x, [x, u], ([m, s]) => `mean transfer ${m} is ${ratio} times its standard uncertainty ${s}, beyond what a weighted fit can square in double precision; check the value and its uncertainty`);
       }
     }
   }
-  if (count) throw new DataError(formatCellProblems(config.file, problems, 20, count));
+  if (count) throw await refusal();
 
   const order = Array.from({ length: table.rows }, (_, i) => i).sort((a, b) => tauRaw[a] - tauRaw[b] || a - b);
   for (let k = 1; k < order.length; k++) {
     if (tauRaw[order[k]] === tauRaw[order[k - 1]]) {
       const [a, b] = [order[k - 1], order[k]].sort((p, q) => p - q);
+      // Two cells written differently (`1.0`, `1.00`) can be the same double: both are quoted then.
+      const [here, there] = await quotedCells(table.cellTexts, [cellOf(b, "tau"), cellOf(a, "tau")]);
       throw new DataError(
-        `${config.file}:${table.lineOfRow[b]}, column "${columnOf("tau")}": contact time ${tauRaw[b]} repeats line ${table.lineOfRow[a]}; give one row per contact time (average repeated runs first)`,
+        `${config.file}${byRow ? ", row " : ":"}${table.lineOfRow[b]}, column "${columnOf("tau")}": contact time ${here} repeats ${byRow ? "row" : "line"} ${table.lineOfRow[a]}${there === here ? "" : ` (written ${there} there)`}; give one row per contact time (average repeated runs first)`,
       );
     }
   }

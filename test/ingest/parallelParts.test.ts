@@ -3,7 +3,9 @@
 // size threshold (whole rows concatenated in part order), the same bits in every array of the cell
 // summary above it (tables merged in part order), and, for a bad part, the same message and exit code,
 // naming the first bad part in part order, with no file left open. The data are the fixtures of
-// scripts/fixtures/write_formats.py (240 realisations, every value a multiple of 1/4), as parts.
+// scripts/fixtures/write_formats.py (240 realisations, every value a multiple of 1/4), as parts that
+// differ from one another (other rows in each), so that parts taken in any other order than part order
+// give another result document and other summary bits (other rows in another order, other digests).
 import fs from "node:fs";
 import os from "node:os";
 import path from "node:path";
@@ -17,6 +19,7 @@ import { loadSamples } from "../../src/ingest/samples.ts";
 import { runAudit } from "../../src/report/runAudit.ts";
 import { cli } from "../helpers/cliInProcess.ts";
 import { commaColumns, FORMAT_FIXTURES, formatsAudit } from "../helpers/formatsAudit.ts";
+import { hdf5Parts, npyParts, npzParts } from "../helpers/fixtureParts.ts";
 import { rejectedWith } from "../helpers/thrown.ts";
 import { writeSamplesParquet } from "../helpers/writeSamplesParquet.ts";
 
@@ -59,13 +62,14 @@ interface PartsShape {
   keys: string[];
 }
 
+/** Every shape: four parts, each with other rows (the CSV's fourth part repeats the first, after two others). */
 const SHAPES: PartsShape[] = [
   { name: "four CSV parts", write: csvParts, keys: BY_NAME },
   { name: "four Parquet parts", write: parquetParts, keys: BY_NAME },
-  { name: "four HDF5 compound tables", write: copiesOf("compound.h5", 4), keys: ["dataset: /runs/exchange", ...BY_NAME] },
-  { name: "four HDF5 files of 1-D datasets", write: copiesOf("columns.h5", 4), keys: ["columns: { Q: /runs/Q, dN: /runs/n }"] },
-  { name: "four .npy structured arrays", write: copiesOf("structured.npy", 4), keys: BY_NAME },
-  { name: "four .npz files of deflated members", write: copiesOf("deflated.npz", 4), keys: BY_NAME },
+  { name: "four HDF5 compound tables", write: hdf5Parts("compound", 4), keys: ["dataset: /runs/exchange", ...BY_NAME] },
+  { name: "four HDF5 files of 1-D datasets", write: hdf5Parts("columns", 4), keys: ["columns: { Q: /runs/Q, dN: /runs/n }"] },
+  { name: "four .npy structured arrays", write: npyParts("structured.npy", 4), keys: BY_NAME },
+  { name: "four .npz files of deflated members", write: npzParts("deflated.npz", 4), keys: BY_NAME },
 ];
 
 /** `run --json`'s document for the audit, with the parts read by `threads` threads (1: one after another, in this thread). */
@@ -111,7 +115,8 @@ describe("parts read on worker threads give what reading them in turn gives", ()
     it(`${shape.name}: the same result document (whole rows), and the same bits of the cell summary`, async () => {
       const dir = await formatsAudit(work, "parts", shape.keys, shape.write);
       const sequential = await documentWith(dir, 1);
-      expect(JSON.parse(sequential).datasets[0].rows).toBe(shape.name.startsWith("four CSV") ? 240 + 80 : 4 * (shape.name.includes("Parquet") ? 60 : 240));
+      // The CSV parts are the fixture's three of 80 rows and the first again; the others are 240 rows cut in four.
+      expect(JSON.parse(sequential).datasets[0].rows).toBe(shape.name.startsWith("four CSV") ? 240 + 80 : 240);
       expect(await documentWith(dir, 3)).toBe(sequential);
       delete process.env[PARTS_THREADS_ENV];
 

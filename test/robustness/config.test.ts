@@ -208,7 +208,7 @@ describe("physically impossible settings", () => {
   it("refuses non-positive uncertainties of mean transfers", async () => {
     const yaml = VALID_YAML.replace(/ {2}- id: run-1[\s\S]*/, "  - id: growth\n    kind: cumulants\n    file: data/g.csv\n");
     const e = await ingestError(auditWith(yaml, { "data/g.csv": "tau,Q,u_Q\n1,0.1,0.01\n2,0.2,-0.01\n" }));
-    expect(e.message).toBe('data/g.csv:3, column "u_Q": expected a positive standard uncertainty, found -0.01');
+    expect(e.message).toBe('data/g.csv:3, column "u_Q": expected a positive standard uncertainty, found "-0.01"');
   });
 });
 

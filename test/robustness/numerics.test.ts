@@ -156,7 +156,7 @@ describe("zero or negative contact time", () => {
   it("refuses zero and negative contact times in a cumulants table, naming line and column", async () => {
     const yaml = "id: growth\ntitle: Growth\nauthors: [{ name: \"A. Person\" }]\ndatasets:\n  - id: g\n    kind: cumulants\n    file: data/g.csv\n";
     await expect(ingestAudit(auditWith(yaml, { "data/g.csv": "tau,Q\n0,0.1\n1,0.2\n-2,0.3\n" }))).rejects.toThrow(
-      new DataError('data/g.csv:2, column "tau": expected a positive contact time, found 0\ndata/g.csv:4, column "tau": expected a positive contact time, found -2'),
+      new DataError('data/g.csv:2, column "tau": expected a positive contact time, found "0"\ndata/g.csv:4, column "tau": expected a positive contact time, found "-2"'),
     );
   });
 });
@@ -168,26 +168,26 @@ describe("mean-transfer tables at the ends of double precision (found by fuzzing
   it("refuses uncertainties whose square, the weight of the fit, under- or overflows", async () => {
     await expect(ingestAudit(auditWith(growth("s"), { "data/g.csv": "tau,Q,u_Q,dN,u_dN\n1,0.1,0.01,1,5e-324\n2,0.2,0.01,2,0.1\n3,0.3,1e200,3,0.1\n" }))).rejects.toThrow(
       new DataError(
-        'data/g.csv:2, column "u_dN": standard uncertainty 5e-324 cannot weight the fit: its square in SI units is below the range of double precision\n' +
-          'data/g.csv:4, column "u_Q": standard uncertainty 1e+200 cannot weight the fit: its square in SI units is beyond the range of double precision',
+        'data/g.csv:2, column "u_dN": standard uncertainty "5e-324" cannot weight the fit: its square in SI units is below the range of double precision\n' +
+          'data/g.csv:4, column "u_Q": standard uncertainty "1e200" cannot weight the fit: its square in SI units is beyond the range of double precision',
       ),
     );
   });
 
   it("refuses a mean transfer whose square, or whose square in units of its uncertainty, overflows", async () => {
     await expect(ingestAudit(auditWith(growth("s"), { "data/g.csv": "tau,Q,u_Q\n1,0.1,0.01\n2,1e308,0.01\n" }))).rejects.toThrow(
-      new DataError('data/g.csv:3, column "Q": mean transfer 1e+308 is beyond the range a least-squares fit can square in double precision; check the unit'),
+      new DataError('data/g.csv:3, column "Q": mean transfer "1e308" is beyond the range a least-squares fit can square in double precision; check the unit'),
     );
     await expect(ingestAudit(auditWith(growth("s"), { "data/g.csv": "tau,Q,u_Q\n1,0.1,0.01\n2,1e160,0.01\n" }))).rejects.toThrow(
       new DataError(
-        'data/g.csv:3, column "Q": mean transfer 1e+160 is 1.00e+162 times its standard uncertainty 0.01, beyond what a weighted fit can square in double precision; check the value and its uncertainty',
+        'data/g.csv:3, column "Q": mean transfer "1e160" is 1.00e+162 times its standard uncertainty "0.01", beyond what a weighted fit can square in double precision; check the value and its uncertainty',
       ),
     );
   });
 
   it("refuses a contact time that is zero seconds once converted", async () => {
     await expect(ingestAudit(auditWith(growth("fs"), { "data/g.csv": "tau,Q\n1e-320,0.1\n2,0.2\n" }))).rejects.toThrow(
-      new DataError('data/g.csv:2, column "tau": contact time 1e-320 fs is 0 s in double precision; give it in a larger time unit'),
+      new DataError('data/g.csv:2, column "tau": contact time "1e-320" fs is 0 s in double precision; give it in a larger time unit'),
     );
   });
 });

@@ -1,4 +1,4 @@
-import { ConfigError, DataError } from "../../errors.ts";
+import { ConfigError, DataError, formatCellProblems, formatRowNumberedProblems, MAX_REPORTED_PROBLEMS, newProblemLog } from "../../errors.ts";
 import type { SamplesDatasetConfig, TraceDatasetConfig } from "../../config/types.ts";
 import { readSourceTable } from "../sources/readSourceTable.ts";
 import { layoutSettings } from "../sources/layoutSettings.ts";
@@ -8,7 +8,9 @@ import { blockLengthFor } from "./blockLength.ts";
 import { cutWindows } from "./cutWindows.ts";
 import { detectionStatistics } from "./detectionStatistics.ts";
 import { detectTransitions } from "./hysteresis.ts";
-import { mapJumps, unresolvedJumps } from "./transitionMap.ts";
+import { mapJumps, unmappedJumps, unmappedJumpsMessage, unresolvedJumps, type UnmappedJump } from "./transitionMap.ts";
+import { quotedCells, writtenCellTexts, type CellTextLookup } from "../cellTexts.ts";
+import { stateLabels, undeclaredStates } from "../conductorStates.ts";
 import { traceOccupancy } from "./traceOccupancy.ts";
 
 const SECONDS: Record<TraceDatasetConfig["time_unit"], number> = { s: 1, ms: 1e-3, us: 1e-6, "µs": 1e-6, ns: 1e-9, ps: 1e-12 };
@@ -35,7 +37,7 @@ export async function loadTrace(config: TraceDatasetConfig, filePath: string, ke
     throw new DataError(`${where}.thresholds: signal level needs two thresholds (low, high) and the states below and above them`);
   }
   // Any format the tool reads (text, Parquet, …) through the shared source readers.
-  const table = await readSourceTable({
+  const request = {
     filePath,
     label: config.file,
     auditDir,
@@ -45,14 +47,21 @@ export async function loadTrace(config: TraceDatasetConfig, filePath: string, ke
       { role: config.signal === "transitions" ? "state" : "level", column: valueColumn },
     ],
     settings: layoutSettings({}),
-  });
-  const lineOf = (i: number) => (table.located === "line" ? `line ${table.lineOfRow[i]}` : `row ${table.lineOfRow[i]}`);
+  };
+  const table = await readSourceTable(request);
+  const byLine = table.located === "line";
+  const lineOf = (i: number) => (byLine ? `line ${table.lineOfRow[i]}` : `row ${table.lineOfRow[i]}`);
+  // Messages quote a text file's cells as written (read again, on an error path only); a binary
+  // file's cells (Parquet, HDF5, NumPy) have no text and are given as the doubles they store.
+  const lookup: CellTextLookup | undefined = byLine ? (problems) => writtenCellTexts(request, problems) : undefined;
+  const cellOf = (column: string, values: Float64Array, i: number) => ({ row: table.lineOfRow[i], column, found: values[i] });
   const scale = SECONDS[config.time_unit];
   const rawTime = table.columns.get(config.columns.time)!;
   const rawValue = table.columns.get(valueColumn)!;
   for (let i = 1; i < table.rows; i++) {
     if (rawTime[i] < rawTime[i - 1]) {
-      throw new DataError(`${config.file}, ${lineOf(i)}, column "${config.columns.time}": time ${rawTime[i]} comes before the previous row's ${rawTime[i - 1]}; a trace lists its rows in time order`);
+      const [now, before] = await quotedCells(lookup, [cellOf(config.columns.time, rawTime, i), cellOf(config.columns.time, rawTime, i - 1)]);
+      throw new DataError(`${config.file}, ${lineOf(i)}, column "${config.columns.time}": time ${now} comes before the previous row's ${before}; a trace lists its rows in time order`);
     }
   }
   let times: Float64Array;
@@ -60,8 +69,14 @@ export async function loadTrace(config: TraceDatasetConfig, filePath: string, ke
   let rowOf: (i: number) => string;
   let origin: string;
   if (config.signal === "transitions") {
-    for (let i = 0; i < table.rows; i++) {
-      if (!Number.isInteger(rawValue[i])) throw new DataError(`${config.file}, ${lineOf(i)}, column "${valueColumn}": expected an integer state label, found ${rawValue[i]}`);
+    // The labels are checked as a samples file's are (integers that a 32-bit state holds), every bad cell at once.
+    const problems = newProblemLog();
+    stateLabels(rawValue, table.rows, table.lineOfRow, valueColumn, problems);
+    if (problems.count > 0) {
+      await lookup?.(problems.problems).catch(() => undefined);
+      throw new DataError(
+        byLine ? formatCellProblems(config.file, problems.problems, MAX_REPORTED_PROBLEMS, problems.count) : formatRowNumberedProblems(config.file, problems.problems, problems.count),
+      );
     }
     times = Float64Array.from(rawTime, (t) => t * scale);
     states = Int32Array.from(rawValue);
@@ -75,8 +90,25 @@ export async function loadTrace(config: TraceDatasetConfig, filePath: string, ke
     rowOf = (i) => lineOf(detected.sampleOf[i]);
     origin = `${table.rows} samples of the detector signal, turned into ${Math.max(0, states.length - 1)} jumps by the thresholds ${th.low} (below: state ${th.states[0]}) and ${th.high} (above: state ${th.states[1]}) with hysteresis`;
   }
+  // A detected state comes from a cell of the state column (its first row at `first`, the state left
+  // at the row before); a state of the level signal comes from audit.yaml's thresholds, not a cell.
+  const namedJumps = async (jumps: UnmappedJump[]): Promise<string[]> => {
+    const place = (j: UnmappedJump) => `(first at ${rowOf(j.first)}, column "${valueColumn}")`;
+    if (config.signal !== "transitions") return jumps.map((j) => `${j.from} → ${j.to} ${place(j)}`);
+    const quoted = await quotedCells(lookup, jumps.flatMap((j) => [cellOf(valueColumn, rawValue, j.first - 1), cellOf(valueColumn, rawValue, j.first)]));
+    return jumps.map((j, k) => `${quoted[2 * k]} → ${quoted[2 * k + 1]} ${place(j)}`);
+  };
+  // States a declared distribution leaves out, each with the first row of the trace in that state.
+  const undeclaredMessage = async (missing: number[]): Promise<string> => {
+    const firsts = missing.map((l) => states.indexOf(l));
+    const quoted = await quotedCells(lookup, firsts.map((i) => cellOf(valueColumn, rawValue, i)));
+    const named = missing.map((l, k) => `${l} (first at ${lineOf(firsts[k])}, column "${valueColumn}": ${quoted[k]})`);
+    return `${where}.state_distribution: gives no probability for state${missing.length > 1 ? "s" : ""} ${named.join(", ")}, which ${config.file} shows; declare the stationary probability of every state`;
+  };
   if (times.length < 2) throw new DataError(`${config.file}: the trace holds ${times.length} known state${times.length === 1 ? "" : "s"}; at least a start and one more row are needed to cut windows`);
-  const jumps = mapJumps(config, states, rowOf, where);
+  const unmapped = unmappedJumps(config, states);
+  if (unmapped.length > 0) throw new DataError(unmappedJumpsMessage(config, await namedJumps(unmapped), where));
+  const jumps = mapJumps(config, states);
   const detection = detectionStatistics(times, states, config.bandwidth ?? null, origin);
   if (unresolved.length > 0) {
     // Which lead each particle used is not in the data: no window samples (they would need invented
@@ -106,6 +138,12 @@ export async function loadTrace(config: TraceDatasetConfig, filePath: string, ke
       series,
       state_distribution: config.state_distribution,
     };
+    if (config.signal === "transitions" && config.state_distribution) {
+      // As conductorStates refuses it, but naming where the trace first shows each such state, as written.
+      const labels = [...new Set([...w.start, ...w.end])].sort((a, b) => a - b);
+      const missing = undeclaredStates(labels, config.state_distribution);
+      if (missing.length > 0) throw new DataError(await undeclaredMessage(missing));
+    }
     const lines = Uint32Array.from({ length: n }, (_, i) => i + 1);
     const d = samplesFromColumns(samplesConfig, `${keyPath}.windows[${k}]`, { dE_A: w.dE_A, dE_B: w.dE_B, dN_A: w.dN_A, dN_B: w.dN_B, state_start: w.start, state_end: w.end }, n, lines, table.sha256);
     const block = blockLengthFor([w.dN_B, d.sigma]);

@@ -1,4 +1,7 @@
+import fs from "node:fs";
+import path from "node:path";
 import { describe, expect, it } from "vitest";
+import { parquetWriteFile } from "hyparquet-writer";
 import { detectTransitions } from "../../../src/ingest/trace/hysteresis.ts";
 import { integratedAutocorrelationTime } from "../../../src/ingest/trace/blockLength.ts";
 import { cutWindows } from "../../../src/ingest/trace/cutWindows.ts";
@@ -84,14 +87,74 @@ describe("kind: trace", () => {
     const dir = tempAudit(TRACE_YAML, { "data/trace.csv": "t,s\n0,0\n0.3,1\n0.7,2\n1.2,1\n" });
     const e = await rejectedWith(DataError, () => ingestAudit(dir));
     expect(e.message).toBe(
-      "data/trace.csv: the trace jumps 2 → 1 (first at line 5), which audit.yaml datasets[0].transitions does not map; add what each such jump moves into lead A and lead B (dN_A, dN_B, dE_A, dE_B)",
+      'data/trace.csv: the trace jumps "2" → "1" (first at line 5, column "s"), which audit.yaml datasets[0].transitions does not map; add what each such jump moves into lead A and lead B (dN_A, dN_B, dE_A, dE_B)',
     );
   });
 
   it("refuses time going backwards with file, line and column", async () => {
     const dir = tempAudit(TRACE_YAML, { "data/trace.csv": "t,s\n0,0\n0.3,1\n0.2,2\n" });
     const e = await rejectedWith(DataError, () => ingestAudit(dir));
-    expect(e.message).toBe('data/trace.csv, line 4, column "t": time 0.2 comes before the previous row\'s 0.3; a trace lists its rows in time order');
+    expect(e.message).toBe('data/trace.csv, line 4, column "t": time "0.2" comes before the previous row\'s "0.3"; a trace lists its rows in time order');
+  });
+});
+
+/**
+ * A message about a cell of a trace quotes it as the file writes it: `1.0` and `1` are the same
+ * state, `0.20` reads as 0.2, and a label printed from its double would not be found in the file.
+ */
+describe("trace cells in messages, as written", () => {
+  const refusal = async (csv: string, yaml = TRACE_YAML) => (await rejectedWith(DataError, () => ingestAudit(tempAudit(yaml, { "data/trace.csv": csv })))).message;
+  const UNMAPPED = "which audit.yaml datasets[0].transitions does not map; add what each such jump moves into lead A and lead B (dN_A, dN_B, dE_A, dE_B)";
+
+  it("quotes both labels of an unmapped jump as written, with the line and column of the first", async () => {
+    // 2 → 1 and 0 → 2 are not declared in TRACE_YAML; "1.0" is label 1, "+2" and "2.00" are label 2.
+    expect(await refusal("t,s\n0,0\n0.3,1\n0.7,+2\n1.2,1.0\n1.5,0\n1.8,2.00\n")).toBe(
+      `data/trace.csv: the trace jumps "+2" → "1.0" (first at line 5, column "s"), "0" → "2.00" (first at line 7, column "s"), ${UNMAPPED}`,
+    );
+  });
+
+  it("quotes labels that are not integers, or too large for a state, every one at once", async () => {
+    // 5.0e9 is a whole number beyond 2^31 − 1: held as a 32-bit state it would wrap onto another label.
+    expect(await refusal("t,s\n0,0\n0.3,0.50\n0.7,5.0e9\n1.2,-1.25E0\n")).toBe(
+      [
+        'data/trace.csv:3, column "s": expected an integer state label, found "0.50"',
+        'data/trace.csv:4, column "s": expected a state label of magnitude at most 1e9, found "5.0e9"',
+        'data/trace.csv:5, column "s": expected an integer state label, found "-1.25E0"',
+      ].join("\n"),
+    );
+  });
+
+  it("quotes both times of rows out of order as written", async () => {
+    expect(await refusal("t,s\n0,0\n0.30,1\n2.0e-1,2\n")).toBe(
+      'data/trace.csv, line 4, column "t": time "2.0e-1" comes before the previous row\'s "0.30"; a trace lists its rows in time order',
+    );
+  });
+
+  it("names where the trace first shows a state the declared distribution leaves out, as written", async () => {
+    // Windows of 1 ns start at 0, 1, 2 and 3 ns; at 1 ns the dot is in state 2 (since 0.7 ns), which is not declared.
+    const yaml = TRACE_YAML.replace("    windows: [1, 2]\n", "    windows: [1, 2]\n    state_distribution: { 0: 0.5, 1: 0.5 }\n");
+    expect(await refusal("t,s\n0,0\n0.3,1\n0.7,2.0\n1.2,0\n1.5,1\n2.5,2\n2.6,0\n3.1,0\n4.2,1\n", yaml)).toBe(
+      'audit.yaml datasets[0].state_distribution: gives no probability for state 2 (first at line 4, column "s": "2.0"), which data/trace.csv shows; declare the stationary probability of every state',
+    );
+  });
+
+  it("gives Parquet cells, which have no text, as the doubles they store, at their rows", async () => {
+    const parquet = (s: number[]) => {
+      const dir = tempAudit(TRACE_YAML.replace("data/trace.csv", "data/trace.parquet"));
+      fs.mkdirSync(path.join(dir, "data"));
+      parquetWriteFile({
+        filename: path.join(dir, "data/trace.parquet"),
+        columnData: [
+          { name: "t", data: Float64Array.from(s, (_, i) => 0.3 * i), type: "DOUBLE", nullable: false },
+          { name: "s", data: Float64Array.from(s), type: "DOUBLE", nullable: false },
+        ],
+      });
+      return dir;
+    };
+    expect((await rejectedWith(DataError, () => ingestAudit(parquet([0, 1, 0.5, 1])))).message).toBe('data/trace.parquet, row 3, column "s": expected an integer state label, found 0.5');
+    expect((await rejectedWith(DataError, () => ingestAudit(parquet([0, 1, 2, 1])))).message).toBe(
+      `data/trace.parquet: the trace jumps 2 → 1 (first at row 4, column "s"), ${UNMAPPED}`,
+    );
   });
 });
 
