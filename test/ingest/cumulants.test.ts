@@ -156,6 +156,27 @@ describe("cumulants cells in messages, as written", () => {
     return dir;
   };
 
+  it("reads a Parquet file without the optional columns exactly as the same table written as CSV", async () => {
+    // Only tau and Q: no dN, no uncertainties. Every source reports absent optional columns as missing, not as an
+    // error; the Parquet reader once required them ("no column \"dN\""). Same doubles, so the datasets are equal.
+    const tau = [1, 2, 3, 4];
+    const Q = [0.11, 0.19, 0.32, 0.41];
+    const dir = tempAudit("id: cumulants-test\ntitle: Cumulants ingestion\nauthors: [{ name: \"Test Author\" }]\ndatasets:\n  - id: curve\n    kind: cumulants\n    file: data/curve.parquet\n");
+    fs.mkdirSync(path.join(dir, "data"));
+    parquetWriteFile({
+      filename: path.join(dir, "data/curve.parquet"),
+      columnData: [
+        { name: "tau", data: Float64Array.from(tau), type: "DOUBLE", nullable: false },
+        { name: "Q", data: Float64Array.from(Q), type: "DOUBLE", nullable: false },
+      ],
+    });
+    const fromParquet = (await ingestAudit(dir)).datasets[0] as CumulantsDataset;
+    const fromCsv = await load("", `tau,Q\n${tau.map((t, i) => `${t},${Q[i]}`).join("\n")}\n`);
+    expect(fromParquet.kind).toBe("cumulants");
+    for (const key of ["tau", "Q", "dN", "u_Q", "u_dN"] as const) expect(fromParquet[key]).toEqual(fromCsv[key]);
+    expect(fromParquet.dN).toBeNull();
+  });
+
   it("gives a Parquet cell, which has no text, as the double it stores, at its row", async () => {
     // The shortest decimal that reads back as the stored double (ECMA-262 Number::toString), unquoted; rows counted from 1.
     expect((await rejectedWith(DataError, () => ingestAudit(parquetAudit([1, 2], [0.1, 0.2], [-1.5e-3, 0.01])))).message).toBe(

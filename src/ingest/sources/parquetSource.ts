@@ -28,13 +28,18 @@ async function openParquetSource(request: SourceRequest): Promise<OpenSource> {
     ]);
     const open = await openParquetBuffer(descriptorAsyncBuffer(fd, size), label);
     const available = topLevelColumns(open.metadata);
-    const names = request.columns.map((w) => {
-      if (typeof w.column === "string") return w.column;
+    // An optional column the file lacks (an uncertainty column, a channel not recorded) is reported as null, as
+    // every other source reports it, never refused: only the columns a dataset needs must exist.
+    const names = request.columns.map((w): string | null => {
+      if (typeof w.column === "string") return w.optional && !available.includes(w.column) ? null : w.column;
       const name = available[w.column - 1];
-      if (name === undefined) throw new ConfigError(`audit.yaml ${request.keyPath}.columns.${w.role}: ${label} has ${available.length} column(s); there is no column ${w.column}`);
+      if (name === undefined) {
+        if (w.optional) return null;
+        throw new ConfigError(`audit.yaml ${request.keyPath}.columns.${w.role}: ${label} has ${available.length} column(s); there is no column ${w.column}`);
+      }
       return name;
     });
-    const wanted = [...new Set(names)];
+    const wanted = [...new Set(names.filter((n): n is string => n !== null))];
     return {
       label,
       format: "Parquet",
@@ -48,7 +53,7 @@ async function openParquetSource(request: SourceRequest): Promise<OpenSource> {
           for (let i = 0; i < batch.rows; i++) locations[i] = batch.firstRow + i + 1;
           // Progress in bytes, estimated from the rows decoded (row groups are of similar size).
           onBytes?.(Math.round(((batch.firstRow + batch.rows) / open.rows) * size), size);
-          yield { rows: batch.rows, values: names.map((n) => batch.values.get(n)!), locations };
+          yield { rows: batch.rows, values: names.map((n) => (n === null ? null : batch.values.get(n)!)), locations };
         }
       },
       sha256: () => sha256OfDescriptor(fd, size),
