@@ -25,6 +25,12 @@ let crawl: Crawl;
 let dark: PageVisit[];
 let phone: PageVisit[];
 
+/**
+ * The crawl visits every published page three times (desktop, dark, phone), so it grows with the archive: 52
+ * pages took about 290 s on a quiet 2-core machine and more under load. The limit only stops a hung browser.
+ */
+const CRAWL_LIMIT_MS = 30 * 60 * 1000;
+
 beforeAll(async () => {
   site = await startDemoSite();
   chromium = await launchChromium();
@@ -35,7 +41,7 @@ beforeAll(async () => {
     dark.push(await visitPage(chromium.browser, p.url, DARK));
     phone.push(await visitPage(chromium.browser, p.url, PHONE));
   }
-});
+}, CRAWL_LIMIT_MS);
 
 afterAll(async () => {
   await chromium?.close();
