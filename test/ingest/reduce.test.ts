@@ -286,6 +286,39 @@ describe("cell table", () => {
     }
   });
 
+  it("gives the general merge's bits when sorted parts at one level merge past the capacity before the last part", () => {
+    // Four parts of about 1800 cells each on a fine Σ grid, capacity 3000: the first two already hold
+    // more cells than that together, so the one-pass merge of sorted parts cannot give the result and
+    // the general merge must: the parts absorbed in part order into one table, which goes up a level
+    // on the way. The reference does exactly that by hand (then sorts through a merge with room to
+    // spare, an exact copy), so the cells must agree to the last bit. (The same parts unsorted would
+    // pool cells in another order and differ in the last bits of their sums.)
+    const spec = sigmaCountGrid(2 ** -10, 3000);
+    const rng = rngFromText("cell-table:merge-past-capacity");
+    const part = () => {
+      const table = new CellTable(spec);
+      for (let i = 0; i < 2500; i++) {
+        const sigma = 2 * rng.normal();
+        const n = Math.round(2 * rng.normal());
+        table.add(Float64Array.of(sigma, n), Float64Array.of(1.7 * sigma, n), 1, sigma);
+      }
+      return table.exportSorted();
+    };
+    const sorted = [part(), part(), part(), part()];
+    expect(sorted.every((t) => t.level === 0 && t.cells <= spec.capacity)).toBe(true);
+    expect(sorted[0].cells + sorted[1].cells).toBeGreaterThan(spec.capacity + 1000); // few keys are shared at this width
+    const merged = mergeCellTables(spec, sorted);
+    const table = new CellTable(spec);
+    for (const p of sorted) table.absorb(p);
+    const reference = mergeCellTables({ ...spec, capacity: 1 << 20 }, [table.export()]);
+    expect(merged.level).toBeGreaterThan(0);
+    expect(merged.cells).toBeLessThanOrEqual(spec.capacity);
+    expect(merged.level).toBe(reference.level);
+    for (const field of ["keys", "count", "sums", "productTotals", "sigmaMin", "sigmaMax", "sigmaRef", "expSum"] as const) {
+      expect(Array.from(merged[field])).toEqual(Array.from(reference[field]));
+    }
+  });
+
   it("keeps every total of the rows, however they are split into parts and blocks (property test, fast-check, fixed seed)", () => {
     // Whatever the capacity (so whatever the changes of level), the block sizes, the weights and the
     // number of parts, the merged table must hold the rows' total weight exactly (whole numbers), and
