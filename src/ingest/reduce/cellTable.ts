@@ -541,10 +541,12 @@ export function mergeCellTables(spec: GridSpec, parts: CellTableData[]): CellTab
  * merge (which goes up a level) must give the result.
  *
  * One pass, not one merge per part: merging part by part copied the whole growing result again for
- * each part (about parts²/2 tables' worth of copies into fresh memory, and all of it thrown away when
- * the result went past the capacity), 0.8 s of a summarised read of 8 parts of 10^6 rows with
- * 2·10^5 cells each and 1.6 s with 8 parts of 3·10^5 rows (measured on bench/partsRead.bench.ts's
- * data); the output here is allocated once, for at most capacity + 1 cells.
+ * each part (about parts²/2 tables' worth of copies into fresh memory, all of it thrown away when the
+ * result went past the capacity); the output here is allocated once, for at most capacity + 1 cells.
+ * Measured on bench/partsRead.bench.ts's data with the summary forced, the merge of 8 parts of
+ * 2.2·10^5 cells (3·10^5 rows each) went from 2.4–3.3 s to 1.5–2.0 s; with 10^6 rows a part (2·10^5
+ * cells each, past the capacity only at the last part) it stayed at about 1.3 s, most of it the
+ * general merge.
  */
 function mergeSortedParts(spec: GridSpec, parts: CellTableData[]): CellTableData | null {
   const { dims, stored, capacity } = spec;
