@@ -242,8 +242,14 @@ function pointTable(d: CoefficientsDataset, pts: readonly PointPositivity[]): Ta
   };
 }
 
-/** The row's matrix in entropy units N = D L D (W/K, see onsagerInEntropyUnits), with its uncertainties; null beyond two fluxes. */
-function entropyUnitMatrix(d: CoefficientsDataset, p: CoefficientPoint): { N: number[][]; uN: number[][] | null } | null {
+/** A row's matrix in entropy units N = D L D (W/K, see onsagerInEntropyUnits) with its uncertainties. */
+interface EntropyUnitMatrix {
+  N: number[][];
+  uN: number[][] | null;
+}
+
+/** The row's matrix in entropy units; null beyond two fluxes. */
+function entropyUnitMatrix(d: CoefficientsDataset, p: CoefficientPoint): EntropyUnitMatrix | null {
   if (d.n !== 2 || !(p.T > 0) || !Number.isFinite(p.T)) return null;
   return { N: onsagerInEntropyUnits(p.L, p.T), uN: p.uL ? onsagerUncertaintyInEntropyUnits(p.uL, p.T) : null };
 }
@@ -253,7 +259,7 @@ function entropyUnitMatrix(d: CoefficientsDataset, p: CoefficientPoint): { N: nu
  * the unit W/K, so the report writes them with one SI prefix per matrix and
  * they can be compared by eye (L itself mixes S K, A K and W K).
  */
-function entropyUnitTable(d: CoefficientsDataset): TableSpec {
+function entropyUnitTable(d: CoefficientsDataset, matrices: readonly (EntropyUnitMatrix | null)[]): TableSpec {
   const entries = ["11", "12", "21", "22"] as const;
   const withU = d.hasUncertainties;
   return {
@@ -268,8 +274,8 @@ function entropyUnitTable(d: CoefficientsDataset): TableSpec {
       ]),
       { key: "unit", label: "Unit" },
     ],
-    rows: d.points.map((p) => {
-      const m = entropyUnitMatrix(d, p);
+    rows: d.points.map((p, k) => {
+      const m = matrices[k];
       const cells: Record<string, number | string | null> = { point: pointLabel(d, p), T: p.T };
       entries.forEach((ij) => {
         const [i, j] = [Number(ij[0]) - 1, Number(ij[1]) - 1];
@@ -285,6 +291,8 @@ function entropyUnitTable(d: CoefficientsDataset): TableSpec {
 export function positivityForDataset(d: CoefficientsDataset, ctx: CheckContext): CheckResult {
   const { alpha, confidence, resamples } = ctx.settings;
   const pts = evaluatePoints(d, ctx.rngFor(d.sha256, "positivity"), resamples, confidence);
+  // Each row's matrix in entropy units, computed once for the values and the table.
+  const matrices = d.points.map((p) => entropyUnitMatrix(d, p));
   const decision = decidePositivity(d, pts, alpha, confidence);
   const finite = pts.filter((p) => Number.isFinite(p.lambda));
   const broken = d.hasField && d.points.some((p) => p.B !== null && p.B !== 0);
@@ -338,8 +346,8 @@ export function positivityForDataset(d: CoefficientsDataset, ctx: CheckContext):
         flags: p.flags,
         L: d.points[p.index].L,
         u_L: d.points[p.index].uL,
-        N: entropyUnitMatrix(d, d.points[p.index])?.N ?? null,
-        u_N: entropyUnitMatrix(d, d.points[p.index])?.uN ?? null,
+        N: matrices[p.index]?.N ?? null,
+        u_N: matrices[p.index]?.uN ?? null,
       })),
     },
     criteria: { alpha, confidence },
@@ -353,7 +361,7 @@ export function positivityForDataset(d: CoefficientsDataset, ctx: CheckContext):
       "S. Holm, Scand. J. Stat. 6, 65 (1979)",
     ],
     equations,
-    tables: [pointTable(d, pts), ...(d.n === 2 ? [entropyUnitTable(d)] : [])],
+    tables: [pointTable(d, pts), ...(d.n === 2 ? [entropyUnitTable(d, matrices)] : [])],
     plots: finite.length ? [eigenvaluePlot(d, pts, confidence)] : [],
   };
 }
